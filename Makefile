@@ -1,0 +1,30 @@
+# PumpSketch: `make run` opens the window on a sample project, `make test` runs the whole suite headless.
+PYTHON ?= python3
+VENV := .venv
+PY := $(VENV)/bin/python
+STAMP := $(VENV)/.installed
+SAMPLE := sample_projects/hilltop_booster.pumpsketch.json
+
+.PHONY: run test bench install clean
+
+$(PY):
+	$(PYTHON) -m venv $(VENV)
+
+$(STAMP): $(PY) pyproject.toml constraints.txt
+	$(PY) -m pip install --quiet --upgrade pip
+	$(PY) -m pip install --quiet -c constraints.txt -e ".[test]"
+	touch $(STAMP)
+
+install: $(STAMP)
+
+run: $(STAMP)
+	$(PY) -m app $(SAMPLE)
+
+test: $(STAMP)
+	QT_QPA_PLATFORM=offscreen $(PY) -m pytest
+
+bench: $(STAMP)
+	QT_QPA_PLATFORM=offscreen $(PY) benchmarks/run_benchmarks.py
+
+clean:
+	rm -rf $(VENV) .pytest_cache build *.egg-info
