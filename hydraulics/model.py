@@ -1,0 +1,248 @@
+"""The project model: frozen dataclasses holding plain SI floats.
+
+Every quantity is a float in SI base units; the unit is part of each field's name
+(``_m`` metres, ``_pa`` pascals, ``_m3_s`` cubic metres per second, ``_m2_s`` square
+metres per second, ``_kg_m3`` kilograms per cubic metre, ``_w`` watts).  Ratios
+(efficiency, speed ratio) are plain fractions, never percentages.
+
+The model is immutable: an edit builds a new object with :func:`dataclasses.replace`.
+Validation of user input (ranges, dimensions) happens at the edges (file reader,
+table models); :func:`validate_project` is the single place that states the allowed
+ranges, so the window and the file reader report the same limits.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Literal
+
+Side = Literal["suction", "delivery"]
+FrictionMethod = Literal["darcy_weisbach", "hazen_williams"]
+PipeState = Literal["new", "aged"]
+StaticCase = Literal["min", "max"]
+
+
+class ModelError(ValueError):
+    """A value outside its allowed range.
+
+    Carries the dotted field path (``segments[2].length``), the offending value and
+    a plain description of the allowed range, so that the file reader, the command
+    line and the window can all point at the field.
+    """
+
+    def __init__(self, field_path: str, problem: str, value: object = None):
+        self.field_path = field_path
+        self.problem = problem
+        self.value = value
+        super().__init__(f"{field_path}: {problem}")
+
+
+# --------------------------------------------------------------------------- fluid
+@dataclass(frozen=True)
+class WaterFluid:
+    """Water with properties from temperature by the IAPWS formulations (0–100 °C)."""
+
+    temperature_c: float = 15.0
+    kind: Literal["water"] = "water"
+
+
+@dataclass(frozen=True)
+class UserFluid:
+    """A fluid whose properties the user gives directly."""
+
+    name: str = "user fluid"
+    density_kg_m3: float = 1000.0
+    kinematic_viscosity_m2_s: float = 1.0e-6
+    vapour_pressure_pa: float = 2339.0
+    temperature_c: float = 20.0
+    kind: Literal["user"] = "user"
+
+
+Fluid = WaterFluid | UserFluid
+
+
+# --------------------------------------------------------------------------- site
+@dataclass(frozen=True)
+class TankDelivery:
+    """Delivery into an open tank whose water level varies between two values."""
+
+    level_low_m: float
+    level_high_m: float
+    kind: Literal["tank"] = "tank"
+
+
+@dataclass(frozen=True)
+class PressurisedDelivery:
+    """Delivery into a point at an elevation that must receive a gauge pressure."""
+
+    elevation_m: float
+    pressure_pa: float
+    kind: Literal["pressurised"] = "pressurised"
+
+
+Delivery = TankDelivery | PressurisedDelivery
+
+
+@dataclass(frozen=True)
+class Site:
+    """Levels of the site, all elevations above one common datum (m).
+
+    ``atmospheric_pressure_pa`` when given overrides the standard-atmosphere value
+    computed from ``altitude_m``.
+    """
+
+    suction_level_low_m: float
+    suction_level_high_m: float
+    delivery: Delivery
+    pump_datum_m: float
+    design_flow_m3_s: float
+    altitude_m: float = 0.0
+    atmospheric_pressure_pa: float | None = None
+
+
+# --------------------------------------------------------------------------- pipework
+@dataclass(frozen=True)
+class Fitting:
+    """A row of identical fittings in one segment.
+
+    ``fitting_id`` names an entry of the fittings catalogue; ``k_override`` when
+    given replaces the catalogue K of one fitting (K refers to the segment velocity).
+    """
+
+    fitting_id: str
+    count: int = 1
+    k_override: float | None = None
+
+
+@dataclass(frozen=True)
+class Segment:
+    """One pipe run of constant internal diameter.
+
+    The internal diameter is always held resolved.  When ``pipe_series`` and
+    ``nominal_size`` are set the diameter came from the pipe-series catalogue and the
+    window steps through that series; otherwise it was typed.
+    ``roughness_new_m``/``roughness_aged_m``/``hw_c_new``/``hw_c_aged`` override the
+    material catalogue when not ``None``.
+    """
+
+    name: str
+    side: Side
+    material_id: str
+    length_m: float
+    internal_diameter_m: float
+    pipe_series: str | None = None
+    nominal_size: str | None = None
+    start_elevation_m: float | None = None
+    end_elevation_m: float | None = None
+    parallel_pipes: int = 1
+    fittings: tuple[Fitting, ...] = ()
+    roughness_new_m: float | None = None
+    roughness_aged_m: float | None = None
+    hw_c_new: float | None = None
+    hw_c_aged: float | None = None
+
+
+# --------------------------------------------------------------------------- pumps
+@dataclass(frozen=True)
+class PumpModel:
+    """A pump as the manufacturer tested it, at ``rated_speed_rpm``.
+
+    Point arrays are tuples of floats of equal length, sorted by flow.  Optional
+    columns are empty tuples when absent.  Efficiency is a fraction (0–1).
+    """
+
+    pump_id: str
+    name: str
+    rated_speed_rpm: float
+    flow_m3_s: tuple[float, ...]
+    head_m: tuple[float, ...]
+    efficiency: tuple[float, ...] = ()
+    shaft_power_w: tuple[float, ...] = ()
+    npsh_required_m: tuple[float, ...] = ()
+    impeller_diameter_m: float | None = None
+    head_fit_order: int = 2
+    efficiency_fit_order: int = 2
+    power_fit_order: int = 2
+    notes: str = ""
+
+
+@dataclass(frozen=True)
+class Arrangement:
+    """How the station uses its pumps.
+
+    ``duty_count`` identical pumps run in parallel (1..N); ``standby_count`` are
+    installed but not counted as duty.  ``series_stages`` pumps of the set in series
+    per duty line.  ``speed_ratio`` is n/n_rated; ``trim_ratio`` D/D_rated.
+    """
+
+    pump_id: str
+    duty_count: int = 1
+    standby_count: int = 0
+    series_stages: int = 1
+    speed_ratio: float = 1.0
+    trim_ratio: float = 1.0
+    min_speed_ratio: float = 0.6
+    max_speed_ratio: float = 1.0
+    motor_efficiency: float = 0.95
+    drive_efficiency: float = 1.0
+
+
+# --------------------------------------------------------------------------- criteria
+@dataclass(frozen=True)
+class Criteria:
+    """Limits the checks apply (defaults: common practice; see hydraulics.checks)."""
+
+    suction_velocity_min_m_s: float = 0.6
+    suction_velocity_max_m_s: float = 1.5
+    delivery_velocity_min_m_s: float = 0.6
+    delivery_velocity_max_m_s: float = 2.5
+    sewage: bool = False
+    sewage_velocity_min_m_s: float = 0.75
+    npsh_margin_ratio: float = 1.1
+    npsh_margin_min_m: float = 0.6
+    preferred_region_low: float = 0.70
+    preferred_region_high: float = 1.20
+    allowable_region_low: float = 0.40
+    allowable_region_high: float = 1.30
+    trim_warning_limit: float = 0.15
+
+
+@dataclass(frozen=True)
+class EnergyInputs:
+    """Annual duty and tariff.  Give ``operating_hours_per_year`` or ``annual_volume_m3``."""
+
+    operating_hours_per_year: float | None = 4000.0
+    annual_volume_m3: float | None = None
+    tariff_per_kwh: float = 0.15
+    currency: str = "EUR"
+
+
+@dataclass(frozen=True)
+class Project:
+    """A whole pumping-station scheme."""
+
+    name: str
+    site: Site
+    fluid: Fluid = field(default_factory=WaterFluid)
+    segments: tuple[Segment, ...] = ()
+    friction_method: FrictionMethod = "darcy_weisbach"
+    pumps: tuple[PumpModel, ...] = ()
+    arrangement: Arrangement | None = None
+    criteria: Criteria = field(default_factory=Criteria)
+    energy: EnergyInputs = field(default_factory=EnergyInputs)
+    flow_grid_max_factor: float = 1.6
+    notes: str = ""
+
+    def pump(self, pump_id: str) -> PumpModel | None:
+        """The pump model with ``pump_id``, or ``None``."""
+        for pump in self.pumps:
+            if pump.pump_id == pump_id:
+                return pump
+        return None
+
+    @property
+    def duty_pump(self) -> PumpModel | None:
+        """The pump model the arrangement uses, or ``None``."""
+        if self.arrangement is None:
+            return None
+        return self.pump(self.arrangement.pump_id)
