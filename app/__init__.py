@@ -1,0 +1,1 @@
+"""PumpSketch desktop application and command line (Qt lives only in this package)."""

@@ -1,0 +1,669 @@
+"""Project files: reading, writing and migrating ``*.pumpsketch.json``.
+
+The format is documented in ``sample_projects/README.md``.  In short: a JSON object with
+``"format": "pumpsketch-project"`` and an integer ``"version"``; every quantity is an
+object ``{"value": number, "unit": "text"}`` whose unit any pint unit of the right
+dimension may be (the writer always uses SI, so save → load is lossless).
+
+Reading is all-or-nothing: the file is parsed, converted and validated into a new
+:class:`~hydraulics.model.Project`; the first problem raises one
+:class:`ProjectFileError` naming the field path (``segments[2].length``) and the
+problem, and nothing is returned half-built.  Writing is atomic: a temporary file in the
+same folder is written, flushed, synced and then renamed over the target, so a failed
+save leaves the old file whole.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+import tempfile
+from pathlib import Path
+from typing import Any
+
+from hydraulics import units
+from hydraulics.model import (
+    Arrangement,
+    Criteria,
+    EnergyInputs,
+    Fitting,
+    ModelError,
+    PressurisedDelivery,
+    Project,
+    PumpModel,
+    Segment,
+    Site,
+    TankDelivery,
+    UserFluid,
+    WaterFluid,
+)
+from hydraulics.validation import validate_project
+
+FORMAT_NAME = "pumpsketch-project"
+FORMAT_VERSION = 1
+FILE_SUFFIX = ".pumpsketch.json"
+
+
+class ProjectFileError(ValueError):
+    """A project file that cannot be read: names the field path and the problem."""
+
+    def __init__(self, field_path: str, problem: str, source: str = ""):
+        self.field_path = field_path
+        self.problem = problem
+        self.source = source
+        where = f"{source}: " if source else ""
+        at = f"{field_path}: " if field_path else ""
+        super().__init__(f"{where}{at}{problem}")
+
+
+# =========================================================================== reading
+class _Reader:
+    """Walks the JSON tree, converting each value and remembering where it is."""
+
+    def __init__(self, base_dir: Path | None):
+        self.base_dir = base_dir
+
+    # ---- primitive accessors -------------------------------------------------
+    @staticmethod
+    def obj(node: Any, path: str) -> dict:
+        if not isinstance(node, dict):
+            raise ProjectFileError(path, f"expected an object, got {_kind(node)}")
+        return node
+
+    def get(self, node: dict, key: str, path: str, required: bool = True) -> Any:
+        if key not in node or node[key] is None:
+            if required:
+                raise ProjectFileError(_join(path, key), "is missing")
+            return None
+        return node[key]
+
+    def text(self, node: dict, key: str, path: str, default: str | None = None) -> str:
+        value = self.get(node, key, path, required=default is None)
+        if value is None:
+            return default  # type: ignore[return-value]
+        if not isinstance(value, str):
+            raise ProjectFileError(_join(path, key), f"expected text, got {_kind(value)}")
+        return value
+
+    def optional_text(self, node: dict, key: str, path: str) -> str | None:
+        value = node.get(key)
+        if value is None:
+            return None
+        if not isinstance(value, str):
+            raise ProjectFileError(_join(path, key), f"expected text or null, got {_kind(value)}")
+        return value
+
+    def integer(self, node: dict, key: str, path: str, default: int | None = None) -> int:
+        value = self.get(node, key, path, required=default is None)
+        if value is None:
+            return default  # type: ignore[return-value]
+        if isinstance(value, bool) or not isinstance(value, int):
+            raise ProjectFileError(_join(path, key), f"expected a whole number, got {_kind(value)}")
+        return value
+
+    def number(self, node: dict, key: str, path: str, default: float | None = None,
+               required: bool = True) -> float | None:
+        value = node.get(key)
+        if value is None:
+            if default is not None:
+                return default
+            if required:
+                raise ProjectFileError(_join(path, key), "is missing")
+            return None
+        return _finite(value, _join(path, key))
+
+    def boolean(self, node: dict, key: str, path: str, default: bool) -> bool:
+        value = node.get(key)
+        if value is None:
+            return default
+        if not isinstance(value, bool):
+            raise ProjectFileError(_join(path, key), f"expected true or false, got {_kind(value)}")
+        return value
+
+    def quantity(self, node: dict, key: str, path: str, quantity: str,
+                 required: bool = True, default: float | None = None) -> float | None:
+        """A ``{"value": v, "unit": u}`` object converted to the SI float."""
+        value = node.get(key)
+        where = _join(path, key)
+        if value is None:
+            if default is not None:
+                return default
+            if required:
+                raise ProjectFileError(where, "is missing")
+            return None
+        return _quantity_to_si(value, where, quantity)
+
+    def quantity_list(self, node: dict, key: str, path: str, quantity: str) -> tuple[float, ...]:
+        value = node.get(key)
+        where = _join(path, key)
+        if value is None:
+            return ()
+        value = self.obj(value, where)
+        unit = self.text(value, "unit", where)
+        values = self.get(value, "values", where)
+        if not isinstance(values, list):
+            raise ProjectFileError(_join(where, "values"), f"expected a list of numbers, got {_kind(values)}")
+        numbers = [_finite(v, f"{where}.values[{i}]") for i, v in enumerate(values)]
+        factor, offset = _unit_factor(unit, quantity, _join(where, "unit"))
+        return tuple(n * factor + offset for n in numbers)
+
+    # ---- sections ----------------------------------------------------------
+    def fluid(self, node: Any, path: str = "fluid") -> WaterFluid | UserFluid:
+        node = self.obj(node, path)
+        kind = self.text(node, "kind", path)
+        if kind == "water":
+            return WaterFluid(temperature_c=self.quantity(node, "temperature", path, "temperature"))
+        if kind == "user":
+            return UserFluid(
+                name=self.text(node, "name", path, default="user fluid"),
+                density_kg_m3=self.quantity(node, "density", path, "density"),
+                kinematic_viscosity_m2_s=self.quantity(node, "kinematic_viscosity", path, "kinematic_viscosity"),
+                vapour_pressure_pa=self.quantity(node, "vapour_pressure", path, "pressure"),
+                temperature_c=self.quantity(node, "temperature", path, "temperature", default=20.0),
+            )
+        raise ProjectFileError(_join(path, "kind"), f"must be 'water' or 'user', got {kind!r}")
+
+    def site(self, node: Any, path: str = "site") -> Site:
+        node = self.obj(node, path)
+        suction = self.obj(self.get(node, "suction", path), _join(path, "suction"))
+        spath = _join(path, "suction")
+        delivery_node = self.obj(self.get(node, "delivery", path), _join(path, "delivery"))
+        dpath = _join(path, "delivery")
+        kind = self.text(delivery_node, "kind", dpath)
+        if kind == "tank":
+            delivery: TankDelivery | PressurisedDelivery = TankDelivery(
+                level_low_m=self.quantity(delivery_node, "level_low", dpath, "elevation"),
+                level_high_m=self.quantity(delivery_node, "level_high", dpath, "elevation"),
+            )
+        elif kind == "pressurised":
+            delivery = PressurisedDelivery(
+                elevation_m=self.quantity(delivery_node, "elevation", dpath, "elevation"),
+                pressure_pa=self.quantity(delivery_node, "pressure", dpath, "pressure"),
+            )
+        else:
+            raise ProjectFileError(_join(dpath, "kind"), f"must be 'tank' or 'pressurised', got {kind!r}")
+        return Site(
+            suction_level_low_m=self.quantity(suction, "level_low", spath, "elevation"),
+            suction_level_high_m=self.quantity(suction, "level_high", spath, "elevation"),
+            delivery=delivery,
+            pump_datum_m=self.quantity(node, "pump_datum", path, "elevation"),
+            design_flow_m3_s=self.quantity(node, "design_flow", path, "flow"),
+            altitude_m=self.quantity(node, "altitude", path, "elevation", default=0.0),
+            atmospheric_pressure_pa=self.quantity(node, "atmospheric_pressure", path, "pressure", required=False),
+        )
+
+    def fitting(self, node: Any, path: str) -> Fitting:
+        node = self.obj(node, path)
+        return Fitting(
+            fitting_id=self.text(node, "type", path),
+            count=self.integer(node, "count", path, default=1),
+            k_override=self.number(node, "k_override", path, required=False),
+        )
+
+    def segment(self, node: Any, path: str) -> Segment:
+        node = self.obj(node, path)
+        series_id = self.optional_text(node, "pipe_series", path)
+        nominal = self.optional_text(node, "nominal_size", path)
+        if (series_id is None) != (nominal is None):
+            raise ProjectFileError(path, "give both pipe_series and nominal_size, or neither")
+        diameter = self.quantity(node, "internal_diameter", path, "diameter", required=series_id is None)
+        if series_id is not None:
+            diameter = _catalogue_diameter(series_id, nominal, path)
+        fittings_node = node.get("fittings") or []
+        if not isinstance(fittings_node, list):
+            raise ProjectFileError(_join(path, "fittings"), f"expected a list, got {_kind(fittings_node)}")
+        side = self.text(node, "side", path)
+        if side not in ("suction", "delivery"):
+            raise ProjectFileError(_join(path, "side"), f"must be 'suction' or 'delivery', got {side!r}")
+        return Segment(
+            name=self.text(node, "name", path),
+            side=side,  # type: ignore[arg-type]
+            material_id=self.text(node, "material", path),
+            length_m=self.quantity(node, "length", path, "length"),
+            internal_diameter_m=diameter,
+            pipe_series=series_id,
+            nominal_size=nominal,
+            start_elevation_m=self.quantity(node, "start_elevation", path, "elevation", required=False),
+            end_elevation_m=self.quantity(node, "end_elevation", path, "elevation", required=False),
+            parallel_pipes=self.integer(node, "parallel_pipes", path, default=1),
+            fittings=tuple(self.fitting(f, f"{path}.fittings[{j}]") for j, f in enumerate(fittings_node)),
+            roughness_new_m=self.quantity(node, "roughness_new", path, "roughness", required=False),
+            roughness_aged_m=self.quantity(node, "roughness_aged", path, "roughness", required=False),
+            hw_c_new=self.number(node, "hw_c_new", path, required=False),
+            hw_c_aged=self.number(node, "hw_c_aged", path, required=False),
+        )
+
+    def pump(self, node: Any, path: str) -> PumpModel:
+        node = self.obj(node, path)
+        pump_id = self.text(node, "id", path)
+        name = self.text(node, "name", path, default=pump_id)
+        rated_speed = self.quantity(node, "rated_speed", path, "speed", required=False)
+        orders = self.obj(node.get("fit_orders") or {}, _join(path, "fit_orders"))
+        opath = _join(path, "fit_orders")
+        points_node = node.get("points")
+        source_csv = self.optional_text(node, "source_csv", path)
+        if points_node is not None:
+            ppath = _join(path, "points")
+            points = self.obj(points_node, ppath)
+            columns = {
+                "flow_m3_s": self.quantity_list(points, "flow", ppath, "flow"),
+                "head_m": self.quantity_list(points, "head", ppath, "head"),
+                "efficiency": self.quantity_list(points, "efficiency", ppath, "dimensionless"),
+                "shaft_power_w": self.quantity_list(points, "shaft_power", ppath, "power"),
+                "npsh_required_m": self.quantity_list(points, "npsh_required", ppath, "head"),
+            }
+            n = len(columns["flow_m3_s"])
+            for key, values in columns.items():
+                if values and len(values) != n:
+                    raise ProjectFileError(f"{ppath}.{key}", f"has {len(values)} values; flow has {n}")
+            pump = PumpModel(
+                pump_id=pump_id, name=name,
+                rated_speed_rpm=rated_speed if rated_speed is not None else 1450.0,
+                impeller_diameter_m=self.quantity(node, "impeller_diameter", path, "diameter", required=False),
+                head_fit_order=self.integer(orders, "head", opath, default=2),
+                efficiency_fit_order=self.integer(orders, "efficiency", opath, default=2),
+                power_fit_order=self.integer(orders, "power", opath, default=2),
+                notes=self.text(node, "notes", path, default=""),
+                **columns,
+            )
+        elif source_csv is not None:
+            pump = self._pump_from_csv(source_csv, pump_id, name, rated_speed, _join(path, "source_csv"))
+            pump = _replace(
+                pump,
+                head_fit_order=self.integer(orders, "head", opath, default=pump.head_fit_order),
+                efficiency_fit_order=self.integer(orders, "efficiency", opath, default=pump.efficiency_fit_order),
+                power_fit_order=self.integer(orders, "power", opath, default=pump.power_fit_order),
+                impeller_diameter_m=self.quantity(node, "impeller_diameter", path, "diameter", required=False),
+                notes=self.text(node, "notes", path, default=pump.notes),
+            )
+        else:
+            raise ProjectFileError(path, "a pump needs 'points' or 'source_csv'")
+        _check_pump_points(pump, path)
+        return pump
+
+    def _pump_from_csv(self, relative: str, pump_id: str, name: str, rated_speed: float | None,
+                       path: str) -> PumpModel:
+        from hydraulics.pump_csv import PumpCsvError, read_pump_csv
+
+        csv_path = Path(relative)
+        if not csv_path.is_absolute() and self.base_dir is not None:
+            csv_path = self.base_dir / csv_path
+        try:
+            return read_pump_csv(csv_path, pump_id=pump_id, name=name, rated_speed_rpm=rated_speed)
+        except FileNotFoundError:
+            raise ProjectFileError(path, f"pump data file not found: {relative}") from None
+        except (PumpCsvError, OSError, ValueError) as exc:
+            raise ProjectFileError(path, f"pump data file {relative}: {exc}") from None
+
+    def arrangement(self, node: Any, path: str = "arrangement") -> Arrangement:
+        node = self.obj(node, path)
+        return Arrangement(
+            pump_id=self.text(node, "pump", path),
+            duty_count=self.integer(node, "duty_count", path, default=1),
+            standby_count=self.integer(node, "standby_count", path, default=0),
+            series_stages=self.integer(node, "series_stages", path, default=1),
+            speed_ratio=self.number(node, "speed_ratio", path, default=1.0),
+            trim_ratio=self.number(node, "trim_ratio", path, default=1.0),
+            min_speed_ratio=self.number(node, "min_speed_ratio", path, default=0.6),
+            max_speed_ratio=self.number(node, "max_speed_ratio", path, default=1.0),
+            motor_efficiency=self.number(node, "motor_efficiency", path, default=0.95),
+            drive_efficiency=self.number(node, "drive_efficiency", path, default=1.0),
+        )
+
+    def criteria(self, node: Any, path: str = "criteria") -> Criteria:
+        node = self.obj(node, path)
+        d = Criteria()
+        q = self.quantity
+        return Criteria(
+            suction_velocity_min_m_s=q(node, "suction_velocity_min", path, "velocity", default=d.suction_velocity_min_m_s),
+            suction_velocity_max_m_s=q(node, "suction_velocity_max", path, "velocity", default=d.suction_velocity_max_m_s),
+            delivery_velocity_min_m_s=q(node, "delivery_velocity_min", path, "velocity", default=d.delivery_velocity_min_m_s),
+            delivery_velocity_max_m_s=q(node, "delivery_velocity_max", path, "velocity", default=d.delivery_velocity_max_m_s),
+            sewage=self.boolean(node, "sewage", path, default=d.sewage),
+            sewage_velocity_min_m_s=q(node, "sewage_velocity_min", path, "velocity", default=d.sewage_velocity_min_m_s),
+            npsh_margin_ratio=self.number(node, "npsh_margin_ratio", path, default=d.npsh_margin_ratio),
+            npsh_margin_min_m=q(node, "npsh_margin_min", path, "head", default=d.npsh_margin_min_m),
+            preferred_region_low=self.number(node, "preferred_region_low", path, default=d.preferred_region_low),
+            preferred_region_high=self.number(node, "preferred_region_high", path, default=d.preferred_region_high),
+            allowable_region_low=self.number(node, "allowable_region_low", path, default=d.allowable_region_low),
+            allowable_region_high=self.number(node, "allowable_region_high", path, default=d.allowable_region_high),
+            trim_warning_limit=self.number(node, "trim_warning_limit", path, default=d.trim_warning_limit),
+        )
+
+    def energy(self, node: Any, path: str = "energy") -> EnergyInputs:
+        node = self.obj(node, path)
+        return EnergyInputs(
+            operating_hours_per_year=self.number(node, "operating_hours_per_year", path, required=False),
+            annual_volume_m3=self.quantity(node, "annual_volume", path, "volume", required=False),
+            tariff_per_kwh=self.number(node, "tariff_per_kwh", path, default=EnergyInputs().tariff_per_kwh),
+            currency=self.text(node, "currency", path, default=EnergyInputs().currency),
+        )
+
+    def project(self, data: Any) -> Project:
+        root = self.obj(data, "(file)")
+        fmt = root.get("format")
+        if fmt != FORMAT_NAME:
+            raise ProjectFileError("format", f"not a PumpSketch project (expected {FORMAT_NAME!r}, got {fmt!r})")
+        version = root.get("version")
+        if isinstance(version, bool) or not isinstance(version, int):
+            raise ProjectFileError("version", f"expected a whole number, got {_kind(version)}")
+        if version > FORMAT_VERSION:
+            raise ProjectFileError(
+                "version",
+                f"this file is format version {version}, newer than this program reads "
+                f"(up to {FORMAT_VERSION}); open it with a newer PumpSketch",
+            )
+        if version < 1:
+            raise ProjectFileError("version", f"unknown format version {version}")
+        segments_node = self.get(root, "segments", "")
+        if not isinstance(segments_node, list):
+            raise ProjectFileError("segments", f"expected a list, got {_kind(segments_node)}")
+        pumps_node = root.get("pumps") or []
+        if not isinstance(pumps_node, list):
+            raise ProjectFileError("pumps", f"expected a list, got {_kind(pumps_node)}")
+        method = self.text(root, "friction_method", "", default="darcy_weisbach")
+        if method not in ("darcy_weisbach", "hazen_williams"):
+            raise ProjectFileError("friction_method", f"must be 'darcy_weisbach' or 'hazen_williams', got {method!r}")
+        arrangement_node = root.get("arrangement")
+        return Project(
+            name=self.text(root, "name", "", default="Untitled"),
+            notes=self.text(root, "notes", "", default=""),
+            fluid=self.fluid(self.get(root, "fluid", "")),
+            site=self.site(self.get(root, "site", "")),
+            segments=tuple(self.segment(s, f"segments[{i}]") for i, s in enumerate(segments_node)),
+            friction_method=method,  # type: ignore[arg-type]
+            pumps=tuple(self.pump(p, f"pumps[{i}]") for i, p in enumerate(pumps_node)),
+            arrangement=None if arrangement_node is None else self.arrangement(arrangement_node),
+            criteria=self.criteria(root.get("criteria") or {}),
+            energy=self.energy(root.get("energy") or {}),
+            flow_grid_max_factor=self.number(root, "flow_grid_max_factor", "", default=1.6),
+        )
+
+
+def _replace(obj, **changes):
+    from dataclasses import replace
+
+    return replace(obj, **{k: v for k, v in changes.items() if v is not None})
+
+
+def _join(path: str, key: str) -> str:
+    return f"{path}.{key}" if path else key
+
+
+def _kind(value: Any) -> str:
+    if value is None:
+        return "null"
+    if isinstance(value, bool):
+        return "true/false"
+    if isinstance(value, (int, float)):
+        return f"the number {value!r}"
+    if isinstance(value, str):
+        return f"the text {value!r}"
+    if isinstance(value, list):
+        return "a list"
+    if isinstance(value, dict):
+        return "an object"
+    return type(value).__name__
+
+
+def _finite(value: Any, path: str) -> float:
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise ProjectFileError(path, f"expected a number, got {_kind(value)}")
+    number = float(value)
+    if not math.isfinite(number):
+        raise ProjectFileError(path, "must be a finite number")
+    return number
+
+
+_FACTOR_CACHE: dict[tuple[str, str], tuple[float, float]] = {}
+
+
+def _unit_factor(unit: str, quantity: str, path: str) -> tuple[float, float]:
+    """``(factor, offset)`` so that ``si = value * factor + offset`` for ``unit``."""
+    key = (unit, quantity)
+    if key not in _FACTOR_CACHE:
+        try:
+            zero = units.convert_to_si(0.0, unit, quantity)
+            one = units.convert_to_si(1.0, unit, quantity)
+        except units.UnitInputError as exc:
+            raise ProjectFileError(path, exc.problem) from None
+        _FACTOR_CACHE[key] = (one - zero, zero)
+    return _FACTOR_CACHE[key]
+
+
+def _quantity_to_si(node: Any, path: str, quantity: str) -> float:
+    if not isinstance(node, dict):
+        raise ProjectFileError(path, f'expected {{"value": number, "unit": text}}, got {_kind(node)}')
+    if "value" not in node:
+        raise ProjectFileError(f"{path}.value", "is missing")
+    value = _finite(node["value"], f"{path}.value")
+    unit = node.get("unit")
+    if not isinstance(unit, str):
+        raise ProjectFileError(f"{path}.unit", f"expected a unit as text, got {_kind(unit)}")
+    if unit == units.si_unit(quantity):
+        return value
+    factor, offset = _unit_factor(unit, quantity, f"{path}.unit")
+    return value * factor + offset
+
+
+def _catalogue_diameter(series_id: str, nominal: str, path: str) -> float:
+    from hydraulics.catalogue import series
+
+    try:
+        return series(series_id).size(nominal).internal_diameter_m
+    except ModelError as exc:
+        raise ProjectFileError(_join(path, "nominal_size"), exc.problem) from None
+    except KeyError:
+        raise ProjectFileError(_join(path, "pipe_series"), f"unknown pipe series {series_id!r}") from None
+
+
+def _check_pump_points(pump: PumpModel, path: str) -> None:
+    n = len(pump.flow_m3_s)
+    if n < 3:
+        raise ProjectFileError(f"{path}.points", f"a pump curve needs at least 3 points; got {n}")
+    if len(pump.head_m) != n:
+        raise ProjectFileError(f"{path}.points.head", f"has {len(pump.head_m)} values; flow has {n}")
+    flows = pump.flow_m3_s
+    if any(b <= a for a, b in zip(flows, flows[1:])):
+        raise ProjectFileError(f"{path}.points.flow", "flows must be strictly increasing")
+
+
+def project_from_dict(data: Any, source: str = "", base_dir: Path | None = None) -> Project:
+    """Build a validated :class:`Project` from parsed JSON, or raise ProjectFileError."""
+    try:
+        project = _Reader(base_dir).project(data)
+        validate_project(project)
+    except ProjectFileError as exc:
+        raise ProjectFileError(exc.field_path, exc.problem, source) from None
+    except ModelError as exc:
+        raise ProjectFileError(exc.field_path, exc.problem, source) from None
+    return project
+
+
+def load_project(path: str | os.PathLike) -> Project:
+    """Read a project file; raise :class:`ProjectFileError` for any problem."""
+    path = Path(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ProjectFileError("", "file not found", str(path)) from None
+    except (OSError, UnicodeDecodeError) as exc:
+        raise ProjectFileError("", f"cannot read the file ({exc})", str(path)) from None
+    try:
+        data = json.loads(text)
+    except json.JSONDecodeError as exc:
+        raise ProjectFileError(
+            "", f"not valid JSON (line {exc.lineno}, column {exc.colno}: {exc.msg}); the file may be truncated",
+            str(path),
+        ) from None
+    return project_from_dict(data, source=str(path), base_dir=path.parent)
+
+
+# =========================================================================== writing
+def _q(value: float | None, quantity: str) -> dict | None:
+    if value is None:
+        return None
+    return {"value": float(value), "unit": units.si_unit(quantity)}
+
+
+def _qlist(values: tuple[float, ...], quantity: str) -> dict | None:
+    if not values:
+        return None
+    return {"unit": units.si_unit(quantity), "values": [float(v) for v in values]}
+
+
+def _drop_none(d: dict) -> dict:
+    return {k: v for k, v in d.items() if v is not None}
+
+
+def project_to_dict(project: Project) -> dict:
+    """The JSON-ready dictionary of ``project``, every quantity in SI."""
+    fluid = project.fluid
+    if isinstance(fluid, WaterFluid):
+        fluid_d = {"kind": "water", "temperature": _q(fluid.temperature_c, "temperature")}
+    else:
+        fluid_d = {
+            "kind": "user", "name": fluid.name,
+            "density": _q(fluid.density_kg_m3, "density"),
+            "kinematic_viscosity": _q(fluid.kinematic_viscosity_m2_s, "kinematic_viscosity"),
+            "vapour_pressure": _q(fluid.vapour_pressure_pa, "pressure"),
+            "temperature": _q(fluid.temperature_c, "temperature"),
+        }
+    site = project.site
+    if isinstance(site.delivery, TankDelivery):
+        delivery = {"kind": "tank", "level_low": _q(site.delivery.level_low_m, "elevation"),
+                    "level_high": _q(site.delivery.level_high_m, "elevation")}
+    else:
+        delivery = {"kind": "pressurised", "elevation": _q(site.delivery.elevation_m, "elevation"),
+                    "pressure": _q(site.delivery.pressure_pa, "pressure")}
+    site_d = _drop_none({
+        "altitude": _q(site.altitude_m, "elevation"),
+        "atmospheric_pressure": _q(site.atmospheric_pressure_pa, "pressure"),
+        "suction": {"level_low": _q(site.suction_level_low_m, "elevation"),
+                    "level_high": _q(site.suction_level_high_m, "elevation")},
+        "delivery": delivery,
+        "pump_datum": _q(site.pump_datum_m, "elevation"),
+        "design_flow": _q(site.design_flow_m3_s, "flow"),
+    })
+    segments = []
+    for s in project.segments:
+        segments.append(_drop_none({
+            "name": s.name, "side": s.side, "material": s.material_id,
+            "pipe_series": s.pipe_series, "nominal_size": s.nominal_size,
+            "internal_diameter": _q(s.internal_diameter_m, "diameter"),
+            "length": _q(s.length_m, "length"),
+            "start_elevation": _q(s.start_elevation_m, "elevation"),
+            "end_elevation": _q(s.end_elevation_m, "elevation"),
+            "parallel_pipes": s.parallel_pipes,
+            "roughness_new": _q(s.roughness_new_m, "roughness"),
+            "roughness_aged": _q(s.roughness_aged_m, "roughness"),
+            "hw_c_new": s.hw_c_new, "hw_c_aged": s.hw_c_aged,
+            "fittings": [_drop_none({"type": f.fitting_id, "count": f.count, "k_override": f.k_override})
+                         for f in s.fittings],
+        }))
+    pumps = []
+    for p in project.pumps:
+        pumps.append(_drop_none({
+            "id": p.pump_id, "name": p.name,
+            "rated_speed": _q(p.rated_speed_rpm, "speed"),
+            "impeller_diameter": _q(p.impeller_diameter_m, "diameter"),
+            "fit_orders": {"head": p.head_fit_order, "efficiency": p.efficiency_fit_order, "power": p.power_fit_order},
+            "notes": p.notes or None,
+            "points": _drop_none({
+                "flow": _qlist(p.flow_m3_s, "flow"),
+                "head": _qlist(p.head_m, "head"),
+                "efficiency": _qlist(p.efficiency, "dimensionless"),
+                "shaft_power": _qlist(p.shaft_power_w, "power"),
+                "npsh_required": _qlist(p.npsh_required_m, "head"),
+            }),
+        }))
+    a = project.arrangement
+    arrangement = None if a is None else {
+        "pump": a.pump_id, "duty_count": a.duty_count, "standby_count": a.standby_count,
+        "series_stages": a.series_stages, "speed_ratio": a.speed_ratio, "trim_ratio": a.trim_ratio,
+        "min_speed_ratio": a.min_speed_ratio, "max_speed_ratio": a.max_speed_ratio,
+        "motor_efficiency": a.motor_efficiency, "drive_efficiency": a.drive_efficiency,
+    }
+    c = project.criteria
+    criteria = {
+        "suction_velocity_min": _q(c.suction_velocity_min_m_s, "velocity"),
+        "suction_velocity_max": _q(c.suction_velocity_max_m_s, "velocity"),
+        "delivery_velocity_min": _q(c.delivery_velocity_min_m_s, "velocity"),
+        "delivery_velocity_max": _q(c.delivery_velocity_max_m_s, "velocity"),
+        "sewage": c.sewage,
+        "sewage_velocity_min": _q(c.sewage_velocity_min_m_s, "velocity"),
+        "npsh_margin_ratio": c.npsh_margin_ratio,
+        "npsh_margin_min": _q(c.npsh_margin_min_m, "head"),
+        "preferred_region_low": c.preferred_region_low, "preferred_region_high": c.preferred_region_high,
+        "allowable_region_low": c.allowable_region_low, "allowable_region_high": c.allowable_region_high,
+        "trim_warning_limit": c.trim_warning_limit,
+    }
+    e = project.energy
+    energy = _drop_none({
+        "operating_hours_per_year": e.operating_hours_per_year,
+        "annual_volume": _q(e.annual_volume_m3, "volume"),
+        "tariff_per_kwh": e.tariff_per_kwh, "currency": e.currency,
+    })
+    return _drop_none({
+        "format": FORMAT_NAME,
+        "version": FORMAT_VERSION,
+        "name": project.name,
+        "notes": project.notes,
+        "fluid": fluid_d,
+        "site": site_d,
+        "friction_method": project.friction_method,
+        "segments": segments,
+        "pumps": pumps,
+        "arrangement": arrangement,
+        "criteria": criteria,
+        "energy": energy,
+        "flow_grid_max_factor": project.flow_grid_max_factor,
+    })
+
+
+def project_to_json(project: Project) -> str:
+    """The file text: two-space indented, keys in a fixed order, newline at the end."""
+    return json.dumps(project_to_dict(project), indent=2, ensure_ascii=False) + "\n"
+
+
+def atomic_write_text(path: str | os.PathLike, text: str) -> None:
+    """Write ``text`` to ``path`` atomically: temporary file, fsync, then rename over."""
+    path = Path(path)
+    fd, tmp_name = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
+            handle.write(text)
+            handle.flush()
+            os.fsync(handle.fileno())
+        os.replace(tmp_name, path)
+    except BaseException:
+        try:
+            os.unlink(tmp_name)
+        except FileNotFoundError:
+            pass
+        raise
+
+
+def save_project(project: Project, path: str | os.PathLike) -> None:
+    """Validate and save ``project`` atomically (the old file survives any failure)."""
+    validate_project(project)
+    atomic_write_text(path, project_to_json(project))
+
+
+def new_project() -> Project:
+    """A small editable starting project: one suction and one delivery segment, no pump."""
+    return Project(
+        name="New project",
+        site=Site(
+            suction_level_low_m=100.0, suction_level_high_m=102.0,
+            delivery=TankDelivery(level_low_m=130.0, level_high_m=133.0),
+            pump_datum_m=99.0, design_flow_m3_s=0.02,
+        ),
+        segments=(
+            Segment(name="Suction", side="suction", material_id="ductile_iron_cml", length_m=5.0,
+                    internal_diameter_m=0.2, fittings=(Fitting("entrance_sharp"),)),
+            Segment(name="Rising main", side="delivery", material_id="ductile_iron_cml", length_m=500.0,
+                    internal_diameter_m=0.15, fittings=(Fitting("exit"),)),
+        ),
+    )

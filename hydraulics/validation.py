@@ -1,0 +1,269 @@
+"""Allowed ranges of every user-editable number, and the checks that enforce them.
+
+One table (:data:`LIMITS`) states each range once, so the project-file reader, the
+command line and the window's tables refuse the same values with the same words.
+Ranges are deliberately wide: they refuse what is physically meaningless or certainly a
+typing slip (a negative length, a 30 m pipe bore), not unusual designs.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from hydraulics.model import (
+    Arrangement,
+    Criteria,
+    EnergyInputs,
+    ModelError,
+    PressurisedDelivery,
+    Project,
+    Segment,
+    Site,
+    TankDelivery,
+    UserFluid,
+    WaterFluid,
+)
+
+
+@dataclass(frozen=True)
+class Limit:
+    """An allowed closed range ``[low, high]`` of one field, in SI units.
+
+    ``quantity`` names the kind of value (see :mod:`hydraulics.units`) so the window can
+    state the range in the unit system on display; ``label`` is the plain field name.
+    """
+
+    label: str
+    quantity: str
+    low: float
+    high: float
+    integer: bool = False
+
+    def check(self, value: object, field_path: str) -> float:
+        """Return ``value`` as a float, or raise :class:`ModelError` naming the range.
+
+        >>> LIMITS["segment.length_m"].check(120.0, "segments[0].length")
+        120.0
+        >>> LIMITS["segment.length_m"].check(-1.0, "segments[0].length")
+        Traceback (most recent call last):
+        ...
+        hydraulics.model.ModelError: segments[0].length: length must be between 0 and 100000 m; got -1
+        """
+        if isinstance(value, bool) or not isinstance(value, (int, float)):
+            raise ModelError(field_path, f"{self.label} must be a number; got {value!r}", value)
+        number = float(value)
+        if not math.isfinite(number):
+            raise ModelError(field_path, f"{self.label} must be a finite number; got {value!r}", value)
+        if self.integer and number != int(number):
+            raise ModelError(field_path, f"{self.label} must be a whole number; got {value!r}", value)
+        if not self.low <= number <= self.high:
+            raise ModelError(
+                field_path,
+                f"{self.label} must be between {_plain(self.low)} and {_plain(self.high)}"
+                f"{_si_unit(self.quantity)}; got {_plain(number)}",
+                value,
+            )
+        return number
+
+
+def _plain(x: float) -> str:
+    return f"{x:g}"
+
+
+_SI_LABELS = {
+    "length": " m", "elevation": " m", "diameter": " m", "roughness": " m", "head": " m",
+    "flow": " m³/s", "pressure": " Pa", "velocity": " m/s", "temperature": " °C",
+    "density": " kg/m³", "kinematic_viscosity": " m²/s", "speed": " rpm", "volume": " m³",
+    "power": " W",
+}
+
+
+def _si_unit(quantity: str) -> str:
+    return _SI_LABELS.get(quantity, "")
+
+
+LIMITS: dict[str, Limit] = {
+    # site
+    "site.level_m": Limit("level", "elevation", -1000.0, 9000.0),
+    "site.design_flow_m3_s": Limit("design flow", "flow", 1e-5, 50.0),
+    "site.altitude_m": Limit("site altitude", "elevation", -500.0, 11000.0),
+    "site.atmospheric_pressure_pa": Limit("atmospheric pressure", "pressure", 20_000.0, 120_000.0),
+    "site.delivery_pressure_pa": Limit("delivery pressure", "pressure", -90_000.0, 10_000_000.0),
+    # fluid
+    "fluid.temperature_c": Limit("water temperature", "temperature", 0.0, 100.0),
+    "fluid.density_kg_m3": Limit("density", "density", 500.0, 2500.0),
+    "fluid.kinematic_viscosity_m2_s": Limit("kinematic viscosity", "kinematic_viscosity", 1e-7, 1e-2),
+    "fluid.vapour_pressure_pa": Limit("vapour pressure", "pressure", 0.0, 200_000.0),
+    # segments
+    "segment.length_m": Limit("length", "length", 0.0, 100_000.0),
+    "segment.internal_diameter_m": Limit("internal diameter", "diameter", 0.005, 5.0),
+    "segment.elevation_m": Limit("elevation", "elevation", -1000.0, 9000.0),
+    "segment.parallel_pipes": Limit("number of parallel pipes", "dimensionless", 1, 20, integer=True),
+    "segment.roughness_m": Limit("roughness", "roughness", 0.0, 0.05),
+    "segment.hw_c": Limit("Hazen–Williams C", "dimensionless", 40.0, 160.0),
+    "fitting.count": Limit("fitting count", "dimensionless", 0, 1000, integer=True),
+    "fitting.k_override": Limit("K override", "dimensionless", 0.0, 1000.0),
+    # arrangement
+    "arrangement.duty_count": Limit("duty pumps", "dimensionless", 1, 8, integer=True),
+    "arrangement.standby_count": Limit("standby pumps", "dimensionless", 0, 8, integer=True),
+    "arrangement.series_stages": Limit("series stages", "dimensionless", 1, 4, integer=True),
+    "arrangement.speed_ratio": Limit("speed ratio", "dimensionless", 0.2, 1.2),
+    "arrangement.trim_ratio": Limit("impeller trim ratio", "dimensionless", 0.5, 1.0),
+    "arrangement.efficiency": Limit("efficiency", "dimensionless", 0.1, 1.0),
+    # pumps
+    "pump.rated_speed_rpm": Limit("rated speed", "speed", 100.0, 10_000.0),
+    "pump.flow_m3_s": Limit("pump flow", "flow", 0.0, 50.0),
+    "pump.head_m": Limit("pump head", "head", 0.0, 3000.0),
+    "pump.efficiency": Limit("pump efficiency", "dimensionless", 0.0, 1.0),
+    "pump.shaft_power_w": Limit("shaft power", "power", 0.0, 1e8),
+    "pump.npsh_required_m": Limit("NPSH required", "head", 0.0, 200.0),
+    "pump.fit_order": Limit("fit order", "dimensionless", 1, 4, integer=True),
+    # criteria
+    "criteria.velocity_m_s": Limit("velocity limit", "velocity", 0.0, 20.0),
+    "criteria.npsh_margin_ratio": Limit("NPSH margin ratio", "dimensionless", 1.0, 3.0),
+    "criteria.npsh_margin_min_m": Limit("NPSH margin", "head", 0.0, 20.0),
+    "criteria.region": Limit("operating-region bound (fraction of BEP flow)", "dimensionless", 0.0, 2.0),
+    "criteria.trim_warning_limit": Limit("trim warning limit", "dimensionless", 0.0, 0.5),
+    # energy
+    "energy.operating_hours_per_year": Limit("operating hours per year", "dimensionless", 0.0, 8784.0),
+    "energy.annual_volume_m3": Limit("annual volume", "volume", 0.0, 1e10),
+    "energy.tariff_per_kwh": Limit("energy tariff", "dimensionless", 0.0, 100.0),
+    "project.flow_grid_max_factor": Limit("flow range factor", "dimensionless", 1.1, 5.0),
+}
+
+
+def check(key: str, value: object, field_path: str | None = None) -> float:
+    """Check ``value`` against ``LIMITS[key]``; return it as float or raise ModelError."""
+    return LIMITS[key].check(value, field_path or key)
+
+
+def _optional(key: str, value: object, path: str) -> None:
+    if value is not None:
+        check(key, value, path)
+
+
+def validate_site(site: Site, path: str = "site") -> None:
+    """Check every number of the site, and that each low level is not above its high level."""
+    check("site.level_m", site.suction_level_low_m, f"{path}.suction.level_low")
+    check("site.level_m", site.suction_level_high_m, f"{path}.suction.level_high")
+    if site.suction_level_low_m > site.suction_level_high_m:
+        raise ModelError(f"{path}.suction.level_low", "lowest suction level is above the highest")
+    delivery = site.delivery
+    if isinstance(delivery, TankDelivery):
+        check("site.level_m", delivery.level_low_m, f"{path}.delivery.level_low")
+        check("site.level_m", delivery.level_high_m, f"{path}.delivery.level_high")
+        if delivery.level_low_m > delivery.level_high_m:
+            raise ModelError(f"{path}.delivery.level_low", "lowest delivery level is above the highest")
+    elif isinstance(delivery, PressurisedDelivery):
+        check("site.level_m", delivery.elevation_m, f"{path}.delivery.elevation")
+        check("site.delivery_pressure_pa", delivery.pressure_pa, f"{path}.delivery.pressure")
+    else:
+        raise ModelError(f"{path}.delivery", "must be a tank or a pressurised point")
+    check("site.level_m", site.pump_datum_m, f"{path}.pump_datum")
+    check("site.design_flow_m3_s", site.design_flow_m3_s, f"{path}.design_flow")
+    check("site.altitude_m", site.altitude_m, f"{path}.altitude")
+    _optional("site.atmospheric_pressure_pa", site.atmospheric_pressure_pa, f"{path}.atmospheric_pressure")
+
+
+def validate_fluid(fluid: WaterFluid | UserFluid, path: str = "fluid") -> None:
+    """Check the fluid's numbers against their ranges."""
+    if isinstance(fluid, WaterFluid):
+        check("fluid.temperature_c", fluid.temperature_c, f"{path}.temperature")
+    elif isinstance(fluid, UserFluid):
+        check("fluid.density_kg_m3", fluid.density_kg_m3, f"{path}.density")
+        check("fluid.kinematic_viscosity_m2_s", fluid.kinematic_viscosity_m2_s, f"{path}.kinematic_viscosity")
+        check("fluid.vapour_pressure_pa", fluid.vapour_pressure_pa, f"{path}.vapour_pressure")
+    else:
+        raise ModelError(path, "must be water or a user fluid")
+
+
+def validate_segment(segment: Segment, path: str) -> None:
+    """Check one segment's numbers and its fittings' counts and overrides."""
+    if not segment.name.strip():
+        raise ModelError(f"{path}.name", "a segment needs a name")
+    if segment.side not in ("suction", "delivery"):
+        raise ModelError(f"{path}.side", f"side must be 'suction' or 'delivery'; got {segment.side!r}")
+    check("segment.length_m", segment.length_m, f"{path}.length")
+    check("segment.internal_diameter_m", segment.internal_diameter_m, f"{path}.internal_diameter")
+    _optional("segment.elevation_m", segment.start_elevation_m, f"{path}.start_elevation")
+    _optional("segment.elevation_m", segment.end_elevation_m, f"{path}.end_elevation")
+    check("segment.parallel_pipes", segment.parallel_pipes, f"{path}.parallel_pipes")
+    _optional("segment.roughness_m", segment.roughness_new_m, f"{path}.roughness_new")
+    _optional("segment.roughness_m", segment.roughness_aged_m, f"{path}.roughness_aged")
+    _optional("segment.hw_c", segment.hw_c_new, f"{path}.hw_c_new")
+    _optional("segment.hw_c", segment.hw_c_aged, f"{path}.hw_c_aged")
+    for j, fitting in enumerate(segment.fittings):
+        fpath = f"{path}.fittings[{j}]"
+        check("fitting.count", fitting.count, f"{fpath}.count")
+        _optional("fitting.k_override", fitting.k_override, f"{fpath}.k_override")
+
+
+def validate_arrangement(arrangement: Arrangement, project: Project, path: str = "arrangement") -> None:
+    """Check the pump arrangement and that it names a pump of the project."""
+    if project.pump(arrangement.pump_id) is None:
+        ids = ", ".join(p.pump_id for p in project.pumps) or "none defined"
+        raise ModelError(f"{path}.pump_id", f"no pump {arrangement.pump_id!r} in the project (pumps: {ids})")
+    check("arrangement.duty_count", arrangement.duty_count, f"{path}.duty_count")
+    check("arrangement.standby_count", arrangement.standby_count, f"{path}.standby_count")
+    check("arrangement.series_stages", arrangement.series_stages, f"{path}.series_stages")
+    for name in ("speed_ratio", "min_speed_ratio", "max_speed_ratio"):
+        check("arrangement.speed_ratio", getattr(arrangement, name), f"{path}.{name}")
+    if arrangement.min_speed_ratio > arrangement.max_speed_ratio:
+        raise ModelError(f"{path}.min_speed_ratio", "minimum speed ratio is above the maximum")
+    check("arrangement.trim_ratio", arrangement.trim_ratio, f"{path}.trim_ratio")
+    check("arrangement.efficiency", arrangement.motor_efficiency, f"{path}.motor_efficiency")
+    check("arrangement.efficiency", arrangement.drive_efficiency, f"{path}.drive_efficiency")
+
+
+def validate_criteria(criteria: Criteria, path: str = "criteria") -> None:
+    """Check the limits used by the checks, and that each lower bound is below its upper."""
+    for side in ("suction", "delivery"):
+        low = check("criteria.velocity_m_s", getattr(criteria, f"{side}_velocity_min_m_s"), f"{path}.{side}_velocity_min")
+        high = check("criteria.velocity_m_s", getattr(criteria, f"{side}_velocity_max_m_s"), f"{path}.{side}_velocity_max")
+        if low > high:
+            raise ModelError(f"{path}.{side}_velocity_min", f"minimum {side} velocity is above the maximum")
+    check("criteria.velocity_m_s", criteria.sewage_velocity_min_m_s, f"{path}.sewage_velocity_min")
+    check("criteria.npsh_margin_ratio", criteria.npsh_margin_ratio, f"{path}.npsh_margin_ratio")
+    check("criteria.npsh_margin_min_m", criteria.npsh_margin_min_m, f"{path}.npsh_margin_min")
+    for low_name, high_name in (("preferred_region_low", "preferred_region_high"),
+                                ("allowable_region_low", "allowable_region_high")):
+        low = check("criteria.region", getattr(criteria, low_name), f"{path}.{low_name}")
+        high = check("criteria.region", getattr(criteria, high_name), f"{path}.{high_name}")
+        if low >= high:
+            raise ModelError(f"{path}.{low_name}", "the lower bound must be below the upper bound")
+    if not (criteria.allowable_region_low <= criteria.preferred_region_low
+            and criteria.preferred_region_high <= criteria.allowable_region_high):
+        raise ModelError(f"{path}.preferred_region_low", "the preferred region must lie inside the allowable region")
+    check("criteria.trim_warning_limit", criteria.trim_warning_limit, f"{path}.trim_warning_limit")
+
+
+def validate_energy(energy: EnergyInputs, path: str = "energy") -> None:
+    """Check the annual-duty inputs."""
+    _optional("energy.operating_hours_per_year", energy.operating_hours_per_year, f"{path}.operating_hours_per_year")
+    _optional("energy.annual_volume_m3", energy.annual_volume_m3, f"{path}.annual_volume")
+    check("energy.tariff_per_kwh", energy.tariff_per_kwh, f"{path}.tariff_per_kwh")
+
+
+def validate_project(project: Project) -> None:
+    """Check every number of ``project``; raise :class:`ModelError` at the first bad field.
+
+    Catalogue references (material, pipe series, fitting type) are checked where the
+    catalogue is read, by :func:`hydraulics.system_curve.prepare_system`.
+    """
+    validate_fluid(project.fluid)
+    validate_site(project.site)
+    if not project.segments:
+        raise ModelError("segments", "the project needs at least one pipe segment")
+    for i, segment in enumerate(project.segments):
+        validate_segment(segment, f"segments[{i}]")
+    if project.friction_method not in ("darcy_weisbach", "hazen_williams"):
+        raise ModelError("friction_method", "must be 'darcy_weisbach' or 'hazen_williams'")
+    pump_ids = [p.pump_id for p in project.pumps]
+    if len(set(pump_ids)) != len(pump_ids):
+        raise ModelError("pumps", "two pumps share one id")
+    if project.arrangement is not None:
+        validate_arrangement(project.arrangement, project)
+    validate_criteria(project.criteria)
+    validate_energy(project.energy)
+    check("project.flow_grid_max_factor", project.flow_grid_max_factor, "flow_grid_max_factor")
