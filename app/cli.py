@@ -1,0 +1,148 @@
+"""The ``pumpsketch`` command.
+
+``pumpsketch``                     open the window (empty, or on the last project)
+``pumpsketch FILE``                open the window on a project file
+``pumpsketch solve FILE [--json] [--units SI|US]``   print the results
+``pumpsketch import-pump CSV [--speed RPM]``          validate pump data and show the fit
+``pumpsketch shot FILE -o OUT.png``                   render the window offscreen to a PNG
+
+Exit status: 0 on success, 2 on bad input (with a one-line reason on stderr).
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+from pathlib import Path
+
+SUBCOMMANDS = ("solve", "import-pump", "shot")
+BAD_INPUT = 2
+
+
+class BadInput(Exception):
+    """A problem with what the user gave: reported in one line, exit status 2."""
+
+
+def _load_and_solve(path: str):
+    from hydraulics.model import ModelError
+    from hydraulics.project_io import ProjectFileError, load_project
+    from hydraulics.solve import solve
+
+    try:
+        project = load_project(path)
+        return solve(project)
+    except ProjectFileError as exc:
+        raise BadInput(str(exc)) from None
+    except ModelError as exc:
+        raise BadInput(f"{path}: {exc}") from None
+
+
+def _cmd_solve(args) -> int:
+    from hydraulics.results_json import solution_to_json_dict
+
+    solution = _load_and_solve(args.file)
+    if args.json:
+        json.dump(solution_to_json_dict(solution), sys.stdout, indent=1)
+        sys.stdout.write("\n")
+    else:
+        from app.text_report import summary_text
+
+        sys.stdout.write(summary_text(solution, args.units))
+    return 0
+
+
+def _cmd_import_pump(args) -> int:
+    from hydraulics.model import ModelError
+    from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
+    from hydraulics.pump_fit import fit_pump
+
+    path = Path(args.csv)
+    try:
+        pump, messages = read_pump_csv_with_messages(path, pump_id=path.stem, name=args.name or path.stem,
+                                                     rated_speed_rpm=args.speed)
+        fitted = fit_pump(pump, args.density)
+    except FileNotFoundError:
+        raise BadInput(f"{path}: file not found") from None
+    except (PumpCsvError, ModelError, ValueError) as exc:
+        raise BadInput(f"{path}: {exc}") from None
+    from app.pump_report import pump_fit_text
+
+    for message in messages:
+        print(f"note: {message}")
+    sys.stdout.write(pump_fit_text(pump, fitted))
+    return 0
+
+
+def _cmd_shot(args) -> int:
+    from hydraulics.project_io import ProjectFileError, load_project
+
+    try:
+        load_project(args.file)
+    except ProjectFileError as exc:
+        raise BadInput(str(exc)) from None
+    from app.screenshot import render_window_png
+
+    out = render_window_png(args.file, args.output, width=args.width, height=args.height)
+    print(f"wrote {out}")
+    return 0
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="pumpsketch",
+        description="System curves, pump operating points and pipe sizing for pumping stations. "
+                    "Without a sub-command, opens the window.",
+    )
+    sub = parser.add_subparsers(dest="command")
+    solve = sub.add_parser("solve", help="solve a project file and print the results")
+    solve.add_argument("file")
+    solve.add_argument("--json", action="store_true", help="print the results as JSON in SI units")
+    solve.add_argument("--units", choices=("SI", "US"), default="SI", help="unit system of the text summary")
+    solve.set_defaults(handler=_cmd_solve)
+    imp = sub.add_parser("import-pump", help="validate a pump-curve CSV file and show the fitted curves")
+    imp.add_argument("csv")
+    imp.add_argument("--name", default=None)
+    imp.add_argument("--speed", type=float, default=None, help="rated speed in rpm (if the file lacks it)")
+    imp.add_argument("--density", type=float, default=998.2, help="fluid density in kg/m³ for power (default 998.2)")
+    imp.set_defaults(handler=_cmd_import_pump)
+    shot = sub.add_parser("shot", help="render the window for a project offscreen to a PNG")
+    shot.add_argument("file")
+    shot.add_argument("-o", "--output", required=True)
+    shot.add_argument("--width", type=int, default=1500)
+    shot.add_argument("--height", type=int, default=950)
+    shot.set_defaults(handler=_cmd_shot)
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    argv = list(sys.argv[1:] if argv is None else argv)
+    if not argv or (argv[0] not in SUBCOMMANDS and not argv[0].startswith("-")):
+        if len(argv) > 1:
+            print("pumpsketch: give at most one project file to open", file=sys.stderr)
+            return BAD_INPUT
+        if argv and not Path(argv[0]).is_file():
+            print(f"pumpsketch: {argv[0]}: file not found", file=sys.stderr)
+            return BAD_INPUT
+        from app.gui import run_gui
+
+        return run_gui(argv[0] if argv else None)
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:
+        return BAD_INPUT if exc.code else 0
+    if args.command is None:
+        parser.print_help()
+        return 0
+    try:
+        return args.handler(args)
+    except BadInput as exc:
+        print(f"pumpsketch: {exc}", file=sys.stderr)
+        return BAD_INPUT
+    except BrokenPipeError:
+        return 0
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,105 @@
+"""The human-readable summary printed by ``pumpsketch solve FILE``."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from hydraulics.results import Solution
+from hydraulics.results_json import CAUTIONS
+from hydraulics.units import to_display, unit_label
+
+
+def _table(headers: list[str], rows: list[list[str]]) -> list[str]:
+    widths = [max(len(h), *(len(r[i]) for r in rows)) if rows else len(h) for i, h in enumerate(headers)]
+    line = "  ".join(h.rjust(w) for h, w in zip(headers, widths))
+    out = [line, "  ".join("-" * w for w in widths)]
+    out += ["  ".join(c.rjust(w) for c, w in zip(r, widths)) for r in rows]
+    return out
+
+
+def _wrap(text: str, width: int = 96) -> list[str]:
+    words, lines, line = text.split(), [], ""
+    for word in words:
+        if len(line) + len(word) + 1 > width:
+            lines.append(line)
+            line = word
+        else:
+            line = f"{line} {word}".strip()
+    return lines + ([line] if line else [])
+
+
+def summary_text(solution: Solution, system: str = "SI") -> str:
+    """A plain-text report of one solved project in the chosen unit system."""
+    def d(value, quantity, fmt="{:.2f}"):
+        if value is None:
+            return "—"
+        return fmt.format(float(to_display(value, quantity, system)))
+
+    fl, hd, vel, dia = (unit_label(q, system) for q in ("flow", "head", "velocity", "diameter"))
+    p = solution.project
+    f = solution.fluid
+    out = [f"PumpSketch results — {p.name}", ""]
+    out += [f"CAUTION: {line}" if i == 0 else f"         {line}" for i, line in enumerate(_wrap(CAUTIONS, 86))]
+    out += [
+        "",
+        f"Fluid: {f.description}",
+        f"  density {d(f.density_kg_m3, 'density', '{:.2f}')} {unit_label('density', system)}, "
+        f"kinematic viscosity {d(f.kinematic_viscosity_m2_s, 'kinematic_viscosity', '{:.4g}')} "
+        f"{unit_label('kinematic_viscosity', system)}, vapour pressure "
+        f"{d(f.vapour_pressure_pa, 'pressure', '{:.3f}')} {unit_label('pressure', system)}",
+        f"Atmospheric pressure: {d(solution.atmospheric_pressure_pa, 'pressure', '{:.2f}')} {unit_label('pressure', system)}",
+        f"Static head: minimum {d(solution.static_head_min_m, 'head')} {hd}, "
+        f"maximum {d(solution.static_head_max_m, 'head')} {hd}",
+        f"Design flow: {d(solution.design_flow_m3_s, 'flow')} {fl}",
+        f"Friction method: {'Hazen–Williams' if p.friction_method == 'hazen_williams' else 'Darcy–Weisbach with Colebrook–White'}",
+        "",
+        "Segments at design flow (new pipe):",
+    ]
+    rows = [[s.name, s.side, d(s.internal_diameter_m, "diameter", "{:.1f}"), d(s.length_m, "length", "{:.1f}"),
+             str(s.parallel_pipes), d(s.velocity_m_s, "velocity"), f"{s.reynolds:.3g}",
+             f"{s.friction_factor:.5f}", d(s.friction_loss_m, "head", "{:.3f}"), f"{s.minor_k_total:.2f}",
+             d(s.minor_loss_m, "head", "{:.3f}")] for s in solution.segments]
+    out += ["  " + line for line in _table(
+        ["segment", "side", f"ID {dia}", f"length {unit_label('length', system)}", "pipes", f"v {vel}", "Re", "f",
+         f"friction {hd}", "ΣK", f"minor {hd}"], rows)]
+    out += ["", f"System curves (head in {hd}):"]
+    grid = solution.curves[0].flow_m3_s
+    targets = np.array([0.0, 0.25, 0.5, 0.75, 1.0, 1.25, 1.5]) * solution.design_flow_m3_s
+    targets = targets[targets <= grid[-1]]
+    headers = [f"flow {fl}"] + [f"{c.static} static, {c.pipe}" for c in solution.curves]
+    rows = []
+    for q in targets:
+        rows.append([d(q, "flow", "{:.1f}")] + [d(float(np.interp(q, c.flow_m3_s, c.head_m)), "head")
+                                                 for c in solution.curves])
+    out += ["  " + line for line in _table(headers, rows)]
+    if solution.operating_points:
+        out += ["", "Operating points:"]
+        rows = []
+        for op in solution.operating_points:
+            scenario = f"{op.static} static, {op.pipe}"
+            if not op.found:
+                rows.append([scenario, str(op.pumps_running), f"{op.speed_ratio * 100:.0f}", "—", "—", "—", "—",
+                             "—", "—", "—", op.reason or "no point"])
+                continue
+            eff = "—" if op.efficiency is None else f"{op.efficiency * 100:.1f}"
+            bep = "—" if op.bep_flow_ratio is None else f"{op.bep_flow_ratio * 100:.0f}"
+            margin = "—" if op.npsh_margin_m is None else d(op.npsh_margin_m, "head", "{:.1f}")
+            rows.append([scenario, str(op.pumps_running), f"{op.speed_ratio * 100:.0f}",
+                         d(op.flow_m3_s, "flow", "{:.1f}"), d(op.head_m, "head", "{:.1f}"), eff,
+                         d(op.input_power_w, "power", "{:.1f}"),
+                         "—" if op.specific_energy_kwh_m3 is None else f"{op.specific_energy_kwh_m3:.3f}",
+                         margin, bep, "extrapolated" if op.extrapolated else ""])
+        out += ["  " + line for line in _table(
+            ["scenario", "pumps", "speed %", f"flow {fl}", f"head {hd}", "eff %", f"input {unit_label('power', system)}",
+             "kWh/m³", f"NPSH margin {hd}", "% BEP", "note"], rows)]
+    if solution.energy is not None and hasattr(solution.energy, "to_json_dict"):
+        e = solution.energy.to_json_dict()
+        parts = [f"{k.replace('_', ' ')}: {v:.4g}" for k, v in e.items() if isinstance(v, (int, float)) and not isinstance(v, bool)]
+        out += ["", "Energy: " + "; ".join(parts)]
+    out += ["", f"Checks ({len(solution.findings)}):"]
+    if not solution.findings:
+        out.append("  none")
+    for finding in solution.findings:
+        out.append(f"  [{finding.severity.upper()}] {finding.code}: {finding.message}")
+        out.append(f"      where: {finding.where}" + (f" — {finding.remedy}" if finding.remedy else ""))
+    return "\n".join(out) + "\n"

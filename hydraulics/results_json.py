@@ -1,0 +1,98 @@
+"""The machine-readable results (``pumpsketch solve FILE --json``), all in SI.
+
+Top-level keys (a contract: later versions add keys, never rename these):
+``format`` ("pumpsketch-results"), ``version``, ``project``, ``cautions``, ``fluid``,
+``atmospheric_pressure_pa``, ``static_head_m`` (``min``, ``max``), ``design_flow_m3_s``,
+``system_curves``, ``segments``, ``findings``, ``pumps``, ``operating_points``,
+``variable_speed``, ``energy``.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+import numpy as np
+
+from hydraulics.results import Solution
+
+RESULTS_FORMAT = "pumpsketch-results"
+RESULTS_VERSION = 1
+
+CAUTIONS = (
+    "Preliminary design aid. Results are preliminary and depend on the data entered; "
+    "surge (water hammer), structural and electrical checks need specialist analysis; "
+    "local codes and a licensed engineer govern the design."
+)
+
+
+def _clean(value: Any) -> Any:
+    """JSON-safe: numpy to Python, NaN/inf to None, tuples to lists."""
+    if isinstance(value, dict):
+        return {k: _clean(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_clean(v) for v in value]
+    if isinstance(value, np.ndarray):
+        return [_clean(v) for v in value.tolist()]
+    if isinstance(value, (np.floating, float)):
+        f = float(value)
+        return f if math.isfinite(f) else None
+    if isinstance(value, np.integer):
+        return int(value)
+    if isinstance(value, np.bool_):
+        return bool(value)
+    return value
+
+
+def _to_dict(obj: Any) -> Any:
+    if obj is None:
+        return None
+    if hasattr(obj, "to_json_dict"):
+        return obj.to_json_dict()
+    return obj
+
+
+def solution_to_json_dict(solution: Solution) -> dict:
+    """The results dictionary of one solved project."""
+    fluid = solution.fluid
+    data = {
+        "format": RESULTS_FORMAT,
+        "version": RESULTS_VERSION,
+        "project": solution.project.name,
+        "cautions": CAUTIONS,
+        "fluid": {
+            "description": fluid.description,
+            "temperature_c": fluid.temperature_c,
+            "density_kg_m3": fluid.density_kg_m3,
+            "kinematic_viscosity_m2_s": fluid.kinematic_viscosity_m2_s,
+            "vapour_pressure_pa": fluid.vapour_pressure_pa,
+        },
+        "atmospheric_pressure_pa": solution.atmospheric_pressure_pa,
+        "static_head_m": {"min": solution.static_head_min_m, "max": solution.static_head_max_m},
+        "design_flow_m3_s": solution.design_flow_m3_s,
+        "friction_method": solution.project.friction_method,
+        "system_curves": [
+            {"static": c.static, "pipe": c.pipe, "flow_m3_s": c.flow_m3_s, "head_m": c.head_m,
+             "static_m": c.static_m, "friction_m": c.friction_m, "minor_m": c.minor_m}
+            for c in solution.curves
+        ],
+        "segments": [
+            {"name": s.name, "side": s.side, "length_m": s.length_m,
+             "internal_diameter_m": s.internal_diameter_m, "roughness_m": s.roughness_m,
+             "parallel_pipes": s.parallel_pipes, "velocity_m_s": s.velocity_m_s,
+             "reynolds": s.reynolds, "friction_factor": s.friction_factor, "regime": s.regime,
+             "friction_loss_m": s.friction_loss_m, "minor_k_total": s.minor_k_total,
+             "minor_loss_m": s.minor_loss_m}
+            for s in solution.segments
+        ],
+        "findings": [
+            {"severity": f.severity, "code": f.code, "message": f.message, "where": f.where,
+             "remedy": f.remedy}
+            for f in solution.findings
+        ],
+        "pumps": [_to_dict(p) for p in solution.pump_fits],
+        "operating_points": [_to_dict(p) for p in solution.operating_points],
+        "variable_speed": _to_dict(solution.variable_speed),
+        "energy": _to_dict(solution.energy),
+    }
+    return _clean(data)
