@@ -46,8 +46,9 @@ V = 1.318 C R^0.63 S^0.54 (US customary units: ft, s), converted to SI
 (V = 0.849 C R^0.63 S^0.54 with R = D/4) and solved for S = h_f / L; the rounded
 value 10.67 is the one tabulated in hydraulic handbooks for SI use (e.g. the
 water-supply chapters of Mays, *Water Distribution Systems Handbook*, 2000; from
-memory).  The exact conversion gives 10.675 (see the tests); the rounding is worth
-0.04 % of the loss, far inside the uncertainty of the C factor.
+memory).  The exact conversion (1.318 = 0.001^-0.04, 1 ft = 0.3048 m) gives 10.666
+(see the tests); the rounding is worth 0.04 % of the loss, far inside the uncertainty
+of the C factor.
 """
 
 HAZEN_WILLIAMS_FLOW_EXPONENT = 1.852
