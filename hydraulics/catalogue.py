@@ -55,6 +55,7 @@ SUPPORTED_VERSION = 1
 _ID_PATTERN = re.compile(r"^[a-z0-9][a-z0-9_]*$")
 _MM_PER_M = 1000.0
 _GPA = 1.0e9
+_TIE_M = 1.0e-9
 _BORE_TOLERANCE_MM = 0.05
 """Allowed difference between a listed bore and OD − 2·(wall + lining), for rounding."""
 
@@ -210,7 +211,8 @@ class PipeSeries:
     def nearest(self, internal_diameter_m: float) -> PipeSize:
         """The size whose bore is closest to ``internal_diameter_m`` (m).
 
-        A tie goes to the larger bore (lower velocity and head loss).
+        A tie (bores within a nanometre of equally close) goes to the larger bore,
+        which has the lower velocity and head loss.
 
         >>> series("steel_asme_b36_10_sch40").nearest(0.150).nominal
         'NPS 6'
@@ -219,7 +221,9 @@ class PipeSeries:
         if isinstance(d, bool) or not isinstance(d, (int, float)) or not math.isfinite(d) or d <= 0.0:
             raise ModelError(
                 "internal_diameter_m", "must be a positive, finite length in metres", internal_diameter_m)
-        return min(self.sizes, key=lambda s: (abs(s.internal_diameter_m - d), -s.internal_diameter_m))
+        gap = min(abs(s.internal_diameter_m - d) for s in self.sizes)
+        return max((s for s in self.sizes if abs(s.internal_diameter_m - d) <= gap + _TIE_M),
+                   key=lambda s: s.internal_diameter_m)
 
     def _nearby_text(self, query: tuple[float, str] | None) -> str:
         names = self.nominals()
