@@ -419,15 +419,29 @@ def _finite(value: Any, path: str) -> float:
 _FACTOR_CACHE: dict[tuple[str, str], tuple[float, float]] = {}
 
 
+FILE_UNITS: dict[str, str] = {
+    "flow": "m3/s", "head": "m", "length": "m", "elevation": "m", "diameter": "m", "roughness": "m",
+    "velocity": "m/s", "pressure": "Pa", "power": "W", "temperature": "degC", "density": "kg/m3",
+    "kinematic_viscosity": "m2/s", "volume": "m3", "speed": "rpm", "dimensionless": "1",
+}
+"""The unit the writer uses for each quantity (SI; °C and rpm as stored in the model)."""
+
+
+def _file_unit(quantity: str) -> str:
+    return FILE_UNITS[quantity]
+
+
 def _unit_factor(unit: str, quantity: str, path: str) -> tuple[float, float]:
     """``(factor, offset)`` so that ``si = value * factor + offset`` for ``unit``."""
     key = (unit, quantity)
     if key not in _FACTOR_CACHE:
         try:
-            zero = units.convert_to_si(0.0, unit, quantity)
-            one = units.convert_to_si(1.0, unit, quantity)
-        except units.UnitInputError as exc:
-            raise ProjectFileError(path, exc.problem) from None
+            zero = float(units.convert_to_si(0.0, quantity, unit))
+            one = float(units.convert_to_si(1.0, quantity, unit))
+        except Exception:  # pint raises several error types for unknown or wrong units
+            expected = FILE_UNITS[quantity]
+            raise ProjectFileError(path, f"{unit!r} is not a unit of {quantity.replace('_', ' ')} "
+                                         f"(for example {expected!r})") from None
         _FACTOR_CACHE[key] = (one - zero, zero)
     return _FACTOR_CACHE[key]
 
@@ -441,7 +455,7 @@ def _quantity_to_si(node: Any, path: str, quantity: str) -> float:
     unit = node.get("unit")
     if not isinstance(unit, str):
         raise ProjectFileError(f"{path}.unit", f"expected a unit as text, got {_kind(unit)}")
-    if unit == units.si_unit(quantity):
+    if unit == _file_unit(quantity):
         return value
     factor, offset = _unit_factor(unit, quantity, f"{path}.unit")
     return value * factor + offset
@@ -504,13 +518,13 @@ def load_project(path: str | os.PathLike) -> Project:
 def _q(value: float | None, quantity: str) -> dict | None:
     if value is None:
         return None
-    return {"value": float(value), "unit": units.si_unit(quantity)}
+    return {"value": float(value), "unit": _file_unit(quantity)}
 
 
 def _qlist(values: tuple[float, ...], quantity: str) -> dict | None:
     if not values:
         return None
-    return {"unit": units.si_unit(quantity), "values": [float(v) for v in values]}
+    return {"unit": _file_unit(quantity), "values": [float(v) for v in values]}
 
 
 def _drop_none(d: dict) -> dict:

@@ -103,15 +103,25 @@ class SystemHydraulics:
         aged = aged[..., None]
         if self.method == "hazen_williams":
             c = np.where(aged, self.hw_c_aged, self.hw_c_new)
-            result = friction.hazen_williams(q, self.diameter_m, self.length_m, c, self.parallel_pipes)
+            result = friction.hazen_williams(q, self.diameter_m, self.length_m, c, self.parallel_pipes,
+                                             kinematic_viscosity_m2_s=self.kinematic_viscosity_m2_s)
         else:
             eps = np.where(aged, self.roughness_aged_m, self.roughness_new_m)
             result = friction.darcy_weisbach(
                 q, self.diameter_m, self.length_m, eps, self.kinematic_viscosity_m2_s, self.parallel_pipes
             )
-        velocity = result.velocity_m_s
-        minor = self.k_total * velocity * velocity / (2.0 * G)
-        return result.head_loss_m, minor
+        return result.head_loss_m, fittings.minor_loss(self.k_total, result.velocity_m_s)
+
+    def segment_friction(self, flow_m3_s, aged) -> friction.PipeFriction:
+        """Velocity, Reynolds number, friction factor and friction loss per segment."""
+        q = np.asarray(flow_m3_s, dtype=float)[..., None]
+        if self.method == "hazen_williams":
+            c = self.hw_c_aged if aged else self.hw_c_new
+            return friction.hazen_williams(q, self.diameter_m, self.length_m, c, self.parallel_pipes,
+                                           kinematic_viscosity_m2_s=self.kinematic_viscosity_m2_s)
+        eps = self.roughness_aged_m if aged else self.roughness_new_m
+        return friction.darcy_weisbach(q, self.diameter_m, self.length_m, eps,
+                                       self.kinematic_viscosity_m2_s, self.parallel_pipes)
 
     def losses(self, flow_m3_s, aged) -> tuple[np.ndarray, np.ndarray]:
         """Total friction and total minor loss over all segments (shape ``S``)."""
@@ -204,16 +214,11 @@ def system_curves(system: SystemHydraulics, flow_m3_s: np.ndarray) -> tuple[Syst
 def segment_results(system: SystemHydraulics, flow_m3_s: float, aged: bool = False) -> tuple[SegmentResult, ...]:
     """Velocity, Reynolds number, friction factor and losses of every segment at one flow."""
     q = float(flow_m3_s)
-    velocity = system.segment_velocities(q)
-    reynolds = velocity * system.diameter_m / system.kinematic_viscosity_m2_s
     eps = system.roughness_aged_m if aged else system.roughness_new_m
-    fric, minor = system.segment_losses(q, aged)
-    if system.method == "hazen_williams":
-        # The equivalent Darcy factor that gives the Hazen–Williams loss.
-        with np.errstate(divide="ignore", invalid="ignore"):
-            f = np.where(velocity > 0, fric * system.diameter_m * 2 * G / (system.length_m * velocity**2 + 1e-300), 0.0)
-    else:
-        f = friction.darcy_friction_factor(reynolds, eps / system.diameter_m)
+    result = system.segment_friction(q, aged)
+    velocity, reynolds, f = result.velocity_m_s, result.reynolds, result.friction_factor
+    fric = result.head_loss_m
+    minor = fittings.minor_loss(system.k_total, velocity)
     regimes = friction.flow_regime(reynolds)
     out = []
     for i, name in enumerate(system.segment_names):
