@@ -26,6 +26,7 @@ Stable codes (never renamed; scripts and tests rely on them):
 ``unstable_parallel``     head curve rises then falls: unstable in parallel
 ``large_trim``            impeller trim beyond the affinity-law range
 ``design_flow_unreachable``  no speed in range delivers the design flow
+``high_point_above_delivery``  the main rises above the lowest delivery level
 ========================  =========================================================
 """
 
@@ -79,6 +80,32 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
                 f"Velocity {seg_high.velocity_m_s:.2f} m/s at {seg_high.flow_m3_s * 1000:.1f} L/s is above "
                 f"the maximum {v_max:.2f} m/s.",
                 where, "Try a larger diameter; high velocity costs energy and raises surge.", target))
+    return out
+
+
+def profile_findings(project: Project, static_head_min_m: float) -> list[Finding]:
+    """A delivery main whose profile rises above the lowest delivery level.
+
+    Hydrostatics: beyond such a crest the main can run partly full or under sub-atmospheric
+    pressure (air release, possible column separation), and at low flow the static head to
+    the crest, not to the delivery level, governs.  Elevations come from the segments'
+    optional start and end elevations.
+    """
+    lowest_delivery = static_head_min_m + project.site.suction_level_high_m
+    out = []
+    for i, seg in enumerate(project.segments):
+        if seg.side != "delivery":
+            continue
+        crest = max((e for e in (seg.start_elevation_m, seg.end_elevation_m) if e is not None), default=None)
+        if crest is not None and crest > lowest_delivery:
+            out.append(Finding(
+                "warning", "high_point_above_delivery",
+                f"The main reaches {crest:.1f} m, {crest - lowest_delivery:.1f} m above the lowest delivery "
+                f"level {lowest_delivery:.1f} m: beyond the crest it may run partly full or below atmospheric "
+                "pressure, and at low flow the static head to the crest governs.",
+                f"segment '{seg.name}' (delivery)",
+                "Check the hydraulic grade line over the crest; plan air valves; a surge specialist should "
+                "check column separation.", ("segment", i)))
     return out
 
 

@@ -467,9 +467,8 @@ def _catalogue_diameter(series_id: str, nominal: str, path: str) -> float:
     try:
         return series(series_id).size(nominal).internal_diameter_m
     except ModelError as exc:
-        raise ProjectFileError(_join(path, "nominal_size"), exc.problem) from None
-    except KeyError:
-        raise ProjectFileError(_join(path, "pipe_series"), f"unknown pipe series {series_id!r}") from None
+        field = exc.field_path if exc.field_path in ("pipe_series", "nominal_size") else "nominal_size"
+        raise ProjectFileError(_join(path, field), exc.problem) from None
 
 
 def _check_pump_points(pump: PumpModel, path: str) -> None:

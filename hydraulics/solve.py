@@ -61,6 +61,7 @@ def solve(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> Solutio
     curves = system_curves(system, flows)
 
     findings = checks.regime_findings(at_design)
+    findings += checks.profile_findings(project, system.static_head_m["min"])
     if pump_part is None:
         findings += checks.velocity_findings(project, at_design)
         return Solution(
