@@ -23,10 +23,13 @@ USER_FLUID_RANGES: Final[dict[str, tuple[float, float, str]]] = {
 }
 """Allowed ranges of a user fluid's properties (SI) and the field each error names."""
 
-_RANGE_WORDS: Final[dict[str, str]] = {
-    "density_kg_m3": "density: allowed 500 to 2500 kg/m³",
-    "kinematic_viscosity_m2_s": "kinematic viscosity: allowed 1e-7 to 1e-2 m²/s (0.1 to 10 000 mm²/s)",
-    "vapour_pressure_pa": "vapour pressure: allowed 0 to 200 kPa",
+_RANGE_WORDS: Final[dict[str, tuple[str, str, float, str]]] = {
+    # attribute: (name, allowed range in words, factor SI -> shown unit, shown unit)
+    "density_kg_m3": ("density", "allowed 500 to 2500 kg/m³", 1.0, "kg/m³"),
+    "kinematic_viscosity_m2_s": (
+        "kinematic viscosity", "allowed 1e-7 to 1e-2 m²/s (0.1 to 10 000 mm²/s)", 1.0e6, "mm²/s"
+    ),
+    "vapour_pressure_pa": ("vapour pressure", "allowed 0 to 200 kPa", 1.0e-3, "kPa"),
 }
 
 
@@ -92,11 +95,10 @@ def water_properties_at(temperature_c: float) -> FluidProperties:
 def _user_fluid_properties(fluid: UserFluid) -> FluidProperties:
     values: dict[str, float] = {}
     for attribute, (low, high, field_path) in USER_FLUID_RANGES.items():
-        words = _RANGE_WORDS[attribute]
-        what = words.split(":", 1)[0]
+        what, allowed, factor, unit = _RANGE_WORDS[attribute]
         number = _finite_number(getattr(fluid, attribute), field_path, what)
         if not low <= number <= high:
-            raise ModelError(field_path, f"{words}; got {number:g} (SI units)", number)
+            raise ModelError(field_path, f"{what}: {allowed}; got {number * factor:g} {unit}", number)
         values[attribute] = number
     temperature_c = _finite_number(fluid.temperature_c, "fluid.temperature", "temperature")
     name = fluid.name.strip() or "user fluid"
