@@ -1,0 +1,1 @@
+"""Plots of a solution: head against flow, efficiency and power, NPSH (pyqtgraph)."""

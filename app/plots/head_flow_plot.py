@@ -1,0 +1,457 @@
+"""Head against flow: system curves, pump curves and the operating points where they meet.
+
+:class:`HeadFlowPlot` only draws what the engine computed (a
+:class:`~hydraulics.results.Solution`); stored data stays SI and is converted to the
+chosen unit system when drawn.  Every curve item is created once and updated with
+``setData``; pump-curve and label items come from pools that grow on demand and hide
+what is not used.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+import pyqtgraph as pg
+from PySide6.QtWidgets import QVBoxLayout, QWidget
+
+from app import style
+from app.plots.plot_base import (
+    HoverReadout,
+    LegendSync,
+    ViewFollower,
+    add_legend_row,
+    add_plot,
+    empty_array,
+    make_canvas,
+    make_points_item,
+    make_readout_label,
+    nice_range,
+    place_labels,
+    set_axis_title,
+)
+from app.results import solution_reading as read
+from app.results.formatting import format_number
+from hydraulics.units import to_display, unit_label
+
+SYSTEM_CASES: tuple[tuple[str, str], ...] = (("max", "aged"), ("max", "new"), ("min", "aged"), ("min", "new"))
+"""(static extreme, pipe state) of the four system curves, in legend order."""
+
+IDLE_READOUT = "Point at the plot to read flow and head."
+
+
+def _system_curve_name(static: str, pipe: str) -> str:
+    return f"System: {static} static, {pipe} pipe"
+
+
+class _PumpCurveItems:
+    """The items drawn for one number of pumps running."""
+
+    def __init__(self, plot_item: pg.PlotItem, pumps_running: int, with_region_name: bool):
+        self.pumps_running = pumps_running
+        region_name = "Preferred operating region" if with_region_name else None
+        self.region = pg.PlotDataItem(empty_array(), empty_array(), name=region_name,
+                                      pen=style.preferred_region_pen(pumps_running))
+        self.region.setZValue(5)
+        self.curve = pg.PlotDataItem(empty_array(), empty_array(),
+                                     name=f"Pump curve: {read.pumps_phrase(pumps_running)}",
+                                     pen=style.pump_pen(pumps_running))
+        self.curve.setZValue(10)
+        self.end_label = pg.TextItem(read.pumps_phrase(pumps_running), color=style.pump_colour(pumps_running),
+                                     anchor=(1.0, 1.1))
+        self.end_label.setFont(style.annotation_font())
+        self.end_label.setZValue(30)
+        plot_item.addItem(self.region)
+        plot_item.addItem(self.curve)
+        plot_item.addItem(self.end_label, ignoreBounds=True)
+
+    def set_visible(self, visible: bool) -> None:
+        for item in (self.region, self.curve, self.end_label):
+            item.setVisible(visible)
+
+
+class HeadFlowPlot(QWidget):
+    """Live plot of head against flow with a hover readout and a pinnable snapshot.
+
+    Call :meth:`show_solution` whenever the engine produces a new solution or the unit
+    system changes.
+    """
+
+    def __init__(self, parent: QWidget | None = None):
+        super().__init__(parent)
+        self._solution: Any = None
+        self._unit_system = "SI"
+        self._snapshot_si: list[tuple[np.ndarray, np.ndarray]] = []
+        self._pinned_label_positions: list[tuple[float, float]] = []
+
+        self.readout = make_readout_label(self)
+        self.canvas = make_canvas()
+        self.plot_item: pg.PlotItem = add_plot(self.canvas, row=0)
+        self.view_box: pg.ViewBox = self.plot_item.getViewBox()
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.setSpacing(2)
+        layout.addWidget(self.readout)
+        layout.addWidget(self.canvas, 1)
+
+        self.legend = add_legend_row(self.canvas, row=1, columns=3)
+        self._legend_sync = LegendSync(self.legend)
+        self._view = ViewFollower(self.plot_item)
+
+        # System curves and the band between the lowest and the highest of them.
+        self._band_low = pg.PlotCurveItem(empty_array(), empty_array(), pen=pg.mkPen(None))
+        self._band_high = pg.PlotCurveItem(empty_array(), empty_array(), pen=pg.mkPen(None))
+        for edge in (self._band_low, self._band_high):
+            self.plot_item.addItem(edge)
+        self.system_band = pg.FillBetweenItem(self._band_low, self._band_high, brush=style.SYSTEM_BAND_BRUSH)
+        self.plot_item.addItem(self.system_band)
+        self._system_items: dict[tuple[str, str], pg.PlotDataItem] = {}
+        for static, pipe in SYSTEM_CASES:
+            item = pg.PlotDataItem(empty_array(), empty_array(), name=_system_curve_name(static, pipe),
+                                   pen=style.system_pen(static, pipe))
+            item.setZValue(8)
+            self.plot_item.addItem(item)
+            self._system_items[(static, pipe)] = item
+
+        self._pump_items: dict[int, _PumpCurveItems] = {}
+
+        self.points_item = make_points_item()
+        self.plot_item.addItem(self.points_item)
+        self._point_labels: list[pg.TextItem] = []
+        self._marked: list[tuple[float, float, str]] = []
+
+        self.design_flow_line = pg.InfiniteLine(
+            angle=90, movable=False, pen=style.design_flow_pen(), label="design flow",
+            labelOpts={"position": 0.96, "color": style.PLOT_FOREGROUND, "anchors": [(0, 0), (0, 0)],
+                       "fill": pg.mkBrush(255, 255, 255, 200)})
+        self.design_flow_line.setVisible(False)
+        self.design_flow_line.setZValue(20)
+        self.plot_item.addItem(self.design_flow_line, ignoreBounds=True)
+
+        self._snapshot_items: list[pg.PlotDataItem] = []
+
+        self.hover = HoverReadout([self.plot_item], self.readout, self._describe_position, IDLE_READOUT)
+        self.view_box.sigTransformChanged.connect(self._place_point_labels)
+        self.view_box.sigResized.connect(self._place_point_labels)
+        self._apply_axis_titles()
+        self._sync_legend()
+
+    # ------------------------------------------------------------------ public API
+    @property
+    def unit_system(self) -> str:
+        """The unit system on display ("SI" or "US")."""
+        return self._unit_system
+
+    @property
+    def has_snapshot(self) -> bool:
+        """True while a pinned snapshot is drawn."""
+        return bool(self._snapshot_si)
+
+    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+        """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
+        self._solution = solution
+        self._unit_system = unit_system
+        self._apply_axis_titles()
+        self._update_system_curves()
+        self._update_pump_curves()
+        self._update_points()
+        self._update_design_flow()
+        self._update_snapshot()
+        self._sync_legend()
+        self._follow_data()
+        self.hover.refresh()
+
+    def fit_view(self) -> None:
+        """Return to the automatic view of the data after the user zoomed or panned."""
+        self._view.reset()
+
+    def pin_snapshot(self) -> None:
+        """Keep a faint grey copy of the system and pump curves now drawn, to compare against."""
+        snapshot: list[tuple[np.ndarray, np.ndarray]] = []
+        for curve in self._system_curves_si():
+            snapshot.append((curve[0].copy(), curve[1].copy()))
+        for pump_curve in read.pump_curves_at_current_speed(self._solution):
+            flow = read.as_array(read.field(pump_curve, "flow_m3_s"))
+            head = read.as_array(read.field(pump_curve, "head_m"))
+            if flow is not None and head is not None and flow.size == head.size:
+                snapshot.append((flow.copy(), head.copy()))
+        self._snapshot_si = snapshot
+        self._update_snapshot()
+        self._sync_legend()
+
+    def clear_snapshot(self) -> None:
+        """Remove the pinned snapshot."""
+        self._snapshot_si = []
+        self._update_snapshot()
+        self._sync_legend()
+
+    def curve_data(self, static: str, pipe: str) -> tuple[np.ndarray, np.ndarray]:
+        """The (flow, head) arrays drawn for one system curve, in display units."""
+        x, y = self._system_items[(static, pipe)].getData()
+        return _copy_or_empty(x), _copy_or_empty(y)
+
+    def pump_curve_data(self, pumps_running: int) -> tuple[np.ndarray, np.ndarray]:
+        """The (flow, head) arrays drawn for the curve of ``pumps_running`` pumps, in display units."""
+        items = self._pump_items.get(pumps_running)
+        if items is None or not items.curve.isVisible():
+            return empty_array(), empty_array()
+        x, y = items.curve.getData()
+        return _copy_or_empty(x), _copy_or_empty(y)
+
+    def preferred_region_data(self, pumps_running: int) -> tuple[np.ndarray, np.ndarray]:
+        """The (flow, head) arrays of the preferred-region stroke for ``pumps_running`` pumps."""
+        items = self._pump_items.get(pumps_running)
+        if items is None or not items.region.isVisible():
+            return empty_array(), empty_array()
+        x, y = items.region.getData()
+        return _copy_or_empty(x), _copy_or_empty(y)
+
+    def marked_points(self) -> list[tuple[float, float, str]]:
+        """The operating points marked, as (flow, head, label) in display units."""
+        return list(self._marked)
+
+    def snapshot_data(self) -> list[tuple[np.ndarray, np.ndarray]]:
+        """The snapshot curves drawn, as (flow, head) arrays in display units."""
+        out = []
+        for item in self._snapshot_items:
+            if item.isVisible():
+                x, y = item.getData()
+                out.append((_copy_or_empty(x), _copy_or_empty(y)))
+        return out
+
+    def legend_names(self) -> list[str]:
+        """The legend entries now listed, top to bottom."""
+        return self._legend_sync.names()
+
+    # ------------------------------------------------------------------ drawing
+    def _flow(self, values):
+        return to_display(values, "flow", self._unit_system)
+
+    def _head(self, values):
+        return to_display(values, "head", self._unit_system)
+
+    def _apply_axis_titles(self) -> None:
+        set_axis_title(self.plot_item, "bottom", f"Flow ({unit_label('flow', self._unit_system)})")
+        set_axis_title(self.plot_item, "left", f"Head ({unit_label('head', self._unit_system)})")
+
+    def _system_curves_si(self) -> list[tuple[np.ndarray, np.ndarray]]:
+        out = []
+        for curve in read.field(self._solution, "curves", ()) or ():
+            flow = read.as_array(read.field(curve, "flow_m3_s"))
+            head = read.as_array(read.field(curve, "head_m"))
+            if flow is not None and head is not None and flow.size == head.size:
+                out.append((flow, head))
+        return out
+
+    def _update_system_curves(self) -> None:
+        by_case = {}
+        for curve in read.field(self._solution, "curves", ()) or ():
+            by_case[(read.field(curve, "static"), read.field(curve, "pipe"))] = curve
+        drawn: list[tuple[np.ndarray, np.ndarray]] = []
+        for case, item in self._system_items.items():
+            curve = by_case.get(case)
+            flow = read.as_array(read.field(curve, "flow_m3_s"))
+            head = read.as_array(read.field(curve, "head_m"))
+            if flow is None or head is None or flow.size != head.size:
+                item.setData(empty_array(), empty_array())
+                item.setVisible(False)
+                continue
+            x, y = self._flow(flow), self._head(head)
+            item.setData(x, y)
+            item.setVisible(True)
+            drawn.append((x, y))
+        self._update_band(drawn)
+
+    def _update_band(self, drawn: list[tuple[np.ndarray, np.ndarray]]) -> None:
+        if len(drawn) < 2:
+            self._band_low.setData(empty_array(), empty_array())
+            self._band_high.setData(empty_array(), empty_array())
+            self.system_band.setVisible(False)
+            return
+        grid = drawn[0][0]
+        order = np.argsort(grid)
+        grid = grid[order]
+        stack = np.vstack([np.interp(grid, *_sorted_xy(x, y)) for x, y in drawn])
+        self._band_low.setData(grid, stack.min(axis=0))
+        self._band_high.setData(grid, stack.max(axis=0))
+        self.system_band.setVisible(True)
+
+    def _pump_items_for(self, pumps_running: int) -> _PumpCurveItems:
+        items = self._pump_items.get(pumps_running)
+        if items is None:
+            items = _PumpCurveItems(self.plot_item, pumps_running, with_region_name=not self._pump_items)
+            self._pump_items[pumps_running] = items
+        return items
+
+    def _update_pump_curves(self) -> None:
+        shown: set[int] = set()
+        region_name_holder = None
+        for pump_curve in read.pump_curves_at_current_speed(self._solution):
+            pumps = int(read.field(pump_curve, "pumps_running", 1) or 1)
+            flow = read.as_array(read.field(pump_curve, "flow_m3_s"))
+            head = read.as_array(read.field(pump_curve, "head_m"))
+            if flow is None or head is None or flow.size != head.size or pumps in shown:
+                continue
+            items = self._pump_items_for(pumps)
+            x, y = self._flow(flow), self._head(head)
+            items.curve.setData(x, y)
+            items.end_label.setPos(float(x[-1]), float(y[-1]))
+            bounds = read.preferred_flow_bounds(pump_curve)
+            if bounds is not None:
+                inside = (flow >= bounds[0]) & (flow <= bounds[1])
+                rx, ry = self._region_stroke(flow, head, bounds)
+                items.region.setData(self._flow(rx), self._head(ry))
+                items.region.setVisible(bool(inside.any()) or rx.size > 0)
+                if region_name_holder is None and items.region.isVisible():
+                    region_name_holder = items
+            else:
+                items.region.setData(empty_array(), empty_array())
+                items.region.setVisible(False)
+            items.curve.setVisible(True)
+            items.end_label.setVisible(True)
+            shown.add(pumps)
+        for pumps, items in self._pump_items.items():
+            if pumps not in shown:
+                items.curve.setData(empty_array(), empty_array())
+                items.region.setData(empty_array(), empty_array())
+                items.set_visible(False)
+        self._set_region_legend_name(region_name_holder)
+
+    @staticmethod
+    def _region_stroke(flow: np.ndarray, head: np.ndarray, bounds: tuple[float, float]):
+        """The part of a pump curve between the preferred-region flows, ends interpolated."""
+        xs, ys = _sorted_xy(flow, head)
+        low, high = max(bounds[0], xs[0]), min(bounds[1], xs[-1])
+        if high <= low:
+            return empty_array(), empty_array()
+        inner = (xs > low) & (xs < high)
+        x = np.concatenate(([low], xs[inner], [high]))
+        return x, np.interp(x, xs, ys)
+
+    def _set_region_legend_name(self, holder: _PumpCurveItems | None) -> None:
+        percent = read.preferred_region_percent(self._solution)
+        text = "Preferred operating region"
+        if percent is not None:
+            text += f" ({percent[0]:.0f}–{percent[1]:.0f} % of BEP flow)"
+        for items in self._pump_items.values():
+            items.region.opts["name"] = text if items is holder else None
+
+    def _update_points(self) -> None:
+        points = read.found_points(read.operating_points(self._solution, current_speed_only=True))
+        spots = []
+        self._marked = []
+        for point in points:
+            x = float(self._flow(float(point.flow_m3_s)))
+            y = float(self._head(float(point.head_m)))
+            static, pipe = str(read.field(point, "static", "")), str(read.field(point, "pipe", ""))
+            pumps = int(read.field(point, "pumps_running", 1) or 1)
+            look = style.operating_point_style(static, pipe, pumps)
+            label = read.point_label(point)
+            spots.append({"pos": (x, y), "symbol": look.symbol, "brush": look.brush, "pen": look.pen,
+                          "size": look.size, "data": label})
+            self._marked.append((x, y, label))
+        self.points_item.setData(spots)
+        while len(self._point_labels) < len(self._marked):
+            text_item = pg.TextItem("", color=style.PLOT_FOREGROUND, fill=pg.mkBrush(255, 255, 255, 150))
+            text_item.setFont(style.annotation_font())
+            text_item.setZValue(45)
+            self.plot_item.addItem(text_item, ignoreBounds=True)
+            self._point_labels.append(text_item)
+        for index, text_item in enumerate(self._point_labels):
+            if index < len(self._marked):
+                x, y, label = self._marked[index]
+                text_item.setText(label)
+                text_item.setPos(x, y)
+                text_item.setVisible(True)
+            else:
+                text_item.setVisible(False)
+        self._place_point_labels()
+
+    def _place_point_labels(self, *_args) -> None:
+        labels = [(self._point_labels[i], x, y) for i, (x, y, _) in enumerate(self._marked)]
+        if labels:
+            place_labels(self.view_box, labels, obstacles=[(x, y) for x, y, _ in self._marked])
+
+    def _update_design_flow(self) -> None:
+        design = read.finite_float(read.field(self._solution, "design_flow_m3_s"))
+        if design is None or design <= 0:
+            self.design_flow_line.setVisible(False)
+            return
+        self.design_flow_line.setVisible(True)  # the label only redraws while visible
+        self.design_flow_line.setPos(float(self._flow(design)))
+        self.design_flow_line.label.setFormat(
+            f"design flow {format_number(float(self._flow(design)), 3)} {unit_label('flow', self._unit_system)}")
+
+    def _update_snapshot(self) -> None:
+        while len(self._snapshot_items) < len(self._snapshot_si):
+            name = "Pinned snapshot" if not self._snapshot_items else None
+            item = pg.PlotDataItem(empty_array(), empty_array(), name=name, pen=style.snapshot_pen())
+            item.setZValue(2)
+            self.plot_item.addItem(item)
+            self._snapshot_items.append(item)
+        for index, item in enumerate(self._snapshot_items):
+            if index < len(self._snapshot_si):
+                flow, head = self._snapshot_si[index]
+                item.setData(self._flow(flow), self._head(head))
+                item.setVisible(True)
+            else:
+                item.setData(empty_array(), empty_array())
+                item.setVisible(False)
+
+    def _follow_data(self) -> None:
+        """Flow from zero to the end of the curves; head up to a margin above the pump curves.
+
+        System curves rise far beyond the pumps at high flow; the view stops at about a
+        fifth above the highest pump head (or the static head, if that is higher), where
+        the operating points are.  Without a pump the whole system curves are shown.
+        """
+        xs: list[float] = [0.0]
+        ys_low: list[float] = [0.0]
+        system_top: list[float] = []
+        for item in self._system_items.values():
+            if item.isVisible():
+                x, y = item.getData()
+                if x is not None and len(x):
+                    xs.append(float(np.nanmax(x)))
+                    ys_low.append(float(np.nanmin(y)))
+                    system_top.append(float(np.nanmax(y)))
+        pump_top: list[float] = []
+        for items in self._pump_items.values():
+            if items.curve.isVisible():
+                x, y = items.curve.getData()
+                if x is not None and len(x):
+                    xs.append(float(np.nanmax(x)))
+                    pump_top.append(float(np.nanmax(y)))
+        point_heads = [y for _, y, _ in self._marked]
+        if pump_top:
+            static = [float(self._head(v)) for v in (read.field(self._solution, "static_head_max_m"),)
+                      if read.finite_float(v) is not None]
+            top = 1.2 * max(pump_top + point_heads + static)
+        elif system_top:
+            top = max(system_top)
+        else:
+            return
+        self._view.follow(nice_range(0.0, max(xs), headroom=0.02), nice_range(min(ys_low), top, headroom=0.0))
+
+    def _sync_legend(self) -> None:
+        ordered: list[pg.GraphicsObject] = [self._system_items[case] for case in SYSTEM_CASES]
+        for pumps in sorted(self._pump_items):
+            ordered.append(self._pump_items[pumps].curve)
+        ordered.extend(items.region for items in self._pump_items.values())
+        if self._snapshot_items:
+            ordered.append(self._snapshot_items[0])
+        self._legend_sync.sync(ordered)
+
+    def _describe_position(self, _index: int, x: float, y: float) -> str:
+        flow_unit = unit_label("flow", self._unit_system)
+        head_unit = unit_label("head", self._unit_system)
+        return f"Pointer: flow {format_number(x)} {flow_unit}   ·   head {format_number(y)} {head_unit}"
+
+
+def _sorted_xy(x: np.ndarray, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    order = np.argsort(x, kind="stable")
+    return x[order], y[order]
+
+
+def _copy_or_empty(values) -> np.ndarray:
+    return empty_array() if values is None else np.array(values, dtype=float)

@@ -1,0 +1,262 @@
+"""NPSH available against NPSH required, with the margin at every operating point.
+
+The flow axis is the station flow, as for the system curves: NPSH available falls with
+the suction losses at that flow (new and aged pipe, lowest suction level), and NPSH
+required for N pumps running is each pump's requirement at its share of the flow.  At
+every operating point a thin vertical bar joins the two, and the smallest margin for
+each number of pumps running is written beside its bar.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+import pyqtgraph as pg
+from PySide6.QtCore import Qt
+from PySide6.QtWidgets import QVBoxLayout, QWidget
+
+from app import style
+from app.plots.plot_base import (
+    HoverReadout,
+    LegendSync,
+    PointKey,
+    ViewFollower,
+    add_legend_row,
+    add_plot,
+    empty_array,
+    make_canvas,
+    make_points_item,
+    make_readout_label,
+    nice_range,
+    place_labels,
+    point_spots,
+    set_axis_title,
+)
+from app.results import solution_reading as read
+from app.results.formatting import format_number
+from hydraulics.units import to_display, unit_label
+
+IDLE_READOUT = "Point at the plot to read flow and NPSH."
+
+
+class NpshPlot(QWidget):
+    """NPSH available (new and aged pipe) and NPSH required (1..N pumps) against flow."""
+
+    def __init__(self, parent: QWidget | None = None):
+        super().__init__(parent)
+        self._solution: Any = None
+        self._unit_system = "SI"
+        self.readout = make_readout_label(self)
+        self.canvas = make_canvas()
+        self.plot_item = add_plot(self.canvas, row=0)
+        self.legend = add_legend_row(self.canvas, row=1, columns=3)
+        self._legend_sync = LegendSync(self.legend)
+        self._view = ViewFollower(self.plot_item)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.setSpacing(2)
+        layout.addWidget(self.readout)
+        layout.addWidget(self.canvas, 1)
+
+        self.available_items: dict[str, pg.PlotDataItem] = {}
+        for pipe in ("new", "aged"):
+            item = pg.PlotDataItem(empty_array(), empty_array(), name=f"NPSH available, {pipe} pipe",
+                                   pen=style.make_pen(style.NPSH_AVAILABLE_COLOUR, 2.0, style.PIPE_LINE_STYLES[pipe]))
+            self.plot_item.addItem(item)
+            self.available_items[pipe] = item
+        self._required_items: dict[int, pg.PlotDataItem] = {}
+        self.margin_bars = pg.PlotDataItem(empty_array(), empty_array(), connect="pairs",
+                                           pen=style.make_pen(style.GREY, 1.5),
+                                           name="Margin at each operating point (◆ required)")
+        self.margin_bars.setZValue(30)
+        self.plot_item.addItem(self.margin_bars)
+        self.available_points = make_points_item()
+        self.required_points = pg.ScatterPlotItem(pxMode=True, symbol="d", size=8,
+                                                  brush=pg.mkBrush(style.NPSH_REQUIRED_COLOUR),
+                                                  pen=pg.mkPen(style.NPSH_REQUIRED_COLOUR))
+        self.required_points.setZValue(39)
+        self.plot_item.addItem(self.required_points)
+        self.plot_item.addItem(self.available_points)
+        self._margin_labels: list[pg.TextItem] = []
+        self._margin_marks: list[tuple[float, float, str]] = []
+        self._key = PointKey()
+        self._pump_counts: list[int] = []
+
+        self.hover = HoverReadout([self.plot_item], self.readout, self._describe_position, IDLE_READOUT)
+        self.plot_item.getViewBox().sigTransformChanged.connect(self._place_margin_labels)
+        self._apply_titles()
+        self._sync_legend()
+
+    # ------------------------------------------------------------------ public API
+    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+        """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
+        self._solution = solution
+        self._unit_system = unit_system
+        self._apply_titles()
+        npsh = read.field(solution, "npsh_available_curve")
+        flow = read.as_array(read.field(npsh, "flow_m3_s"))
+        for pipe, item in self.available_items.items():
+            self._set_curve(item, flow, read.as_array(read.field(npsh, f"available_{pipe}_m")))
+        self._update_required(npsh)
+        self._update_points()
+        has_data = any(item.isVisible() for item in self.available_items.values()) or any(
+            item.isVisible() for item in self._required_items.values())
+        self.plot_item.setTitle(None if has_data or solution is None else "No pump: no NPSH to show",
+                                color=style.GREY)
+        self._follow_data()
+        self._sync_legend()
+        self.hover.refresh()
+
+    def fit_view(self) -> None:
+        """Return to the automatic view of the data after the user zoomed or panned."""
+        self._view.reset()
+
+    def available_data(self, pipe: str) -> tuple[np.ndarray, np.ndarray]:
+        """(flow, NPSH available) drawn for ``pipe`` ("new" or "aged"), display units."""
+        return _data(self.available_items[pipe])
+
+    def required_data(self, pumps_running: int) -> tuple[np.ndarray, np.ndarray]:
+        """(station flow, NPSH required) drawn for ``pumps_running`` pumps, display units."""
+        item = self._required_items.get(pumps_running)
+        return (empty_array(), empty_array()) if item is None else _data(item)
+
+    def margin_marks(self) -> list[tuple[float, float, str]]:
+        """(flow, NPSH available, text) of each margin written on the plot, display units."""
+        return list(self._margin_marks)
+
+    # ------------------------------------------------------------------ drawing
+    def _flow(self, values):
+        return to_display(values, "flow", self._unit_system)
+
+    def _head(self, values):
+        return to_display(values, "head", self._unit_system)
+
+    def _set_curve(self, item: pg.PlotDataItem, flow, values) -> None:
+        if flow is None or values is None or flow.size != values.size:
+            item.setData(empty_array(), empty_array())
+            item.setVisible(False)
+            return
+        item.setData(self._flow(flow), self._head(values))
+        item.setVisible(True)
+
+    def _required_item(self, pumps: int) -> pg.PlotDataItem:
+        item = self._required_items.get(pumps)
+        if item is None:
+            pen = style.make_pen(style.pump_colour(pumps), 2.0, Qt.PenStyle.DashDotLine)
+            item = pg.PlotDataItem(empty_array(), empty_array(),
+                                   name=f"NPSH required, {read.pumps_phrase(pumps)}", pen=pen)
+            self.plot_item.addItem(item)
+            self._required_items[pumps] = item
+        return item
+
+    def _update_required(self, npsh: Any) -> None:
+        shown: set[int] = set()
+        for curve in read.pump_curves_at_current_speed(self._solution):
+            pumps = int(read.field(curve, "pumps_running", 1) or 1)
+            required = read.as_array(read.field(curve, "npsh_required_m"))
+            if required is None or pumps in shown:
+                continue
+            self._set_curve(self._required_item(pumps), read.as_array(read.field(curve, "flow_m3_s")), required)
+            shown.add(pumps)
+        if not shown:  # an NPSH curve object may carry the one-pump requirement itself
+            required = read.as_array(read.field(npsh, "required_m"))
+            flow = read.as_array(read.field(npsh, "required_flow_m3_s"))
+            if required is not None and flow is not None:
+                self._set_curve(self._required_item(1), flow, required)
+                shown.add(1)
+        for pumps, item in self._required_items.items():
+            if pumps not in shown:
+                item.setData(empty_array(), empty_array())
+                item.setVisible(False)
+
+    def _update_points(self) -> None:
+        points = [p for p in read.found_points(read.operating_points(self._solution, current_speed_only=True))
+                  if read.finite_float(read.field(p, "npsh_available_m")) is not None]
+        self._pump_counts = sorted({int(read.field(p, "pumps_running", 1) or 1) for p in points})
+        x_of = lambda p: self._flow(float(p.flow_m3_s))  # noqa: E731
+        self.available_points.setData(point_spots(
+            points, x_of, lambda p: self._head(float(p.npsh_available_m)), read.point_label))
+        with_required = [p for p in points if read.finite_float(read.field(p, "npsh_required_m")) is not None]
+        self.required_points.setData(
+            [x_of(p) for p in with_required], [self._head(float(p.npsh_required_m)) for p in with_required])
+        bars_x, bars_y = [], []
+        for p in with_required:
+            x = x_of(p)
+            bars_x += [x, x]
+            bars_y += [self._head(float(p.npsh_available_m)), self._head(float(p.npsh_required_m))]
+        self.margin_bars.setData(np.array(bars_x, dtype=float), np.array(bars_y, dtype=float))
+        self._update_margin_labels(with_required, x_of)
+
+    def _update_margin_labels(self, points: list, x_of) -> None:
+        least: dict[int, Any] = {}
+        for point in points:
+            margin = read.finite_float(read.field(point, "npsh_margin_m"))
+            if margin is None:
+                margin = float(point.npsh_available_m) - float(point.npsh_required_m)
+            pumps = int(read.field(point, "pumps_running", 1) or 1)
+            if pumps not in least or margin < least[pumps][0]:
+                least[pumps] = (margin, point)
+        head_unit = unit_label("head", self._unit_system)
+        self._margin_marks = []
+        for pumps in sorted(least):
+            margin, point = least[pumps]
+            ratio = read.finite_float(read.field(point, "npsh_margin_ratio"))
+            text = (f"least margin, {read.pumps_phrase(pumps)}: {format_number(self._head(margin), 3)} {head_unit}"
+                    + (f" (ratio {ratio:.2f})" if ratio is not None else ""))
+            self._margin_marks.append((x_of(point), self._head(float(point.npsh_available_m)), text))
+        while len(self._margin_labels) < len(self._margin_marks):
+            label = pg.TextItem("", color=style.PLOT_FOREGROUND, fill=pg.mkBrush(255, 255, 255, 170))
+            label.setFont(style.annotation_font())
+            label.setZValue(45)
+            self.plot_item.addItem(label, ignoreBounds=True)
+            self._margin_labels.append(label)
+        for index, label in enumerate(self._margin_labels):
+            if index < len(self._margin_marks):
+                x, y, text = self._margin_marks[index]
+                label.setText(text)
+                label.setPos(x, y)
+                label.setVisible(True)
+            else:
+                label.setVisible(False)
+        self._place_margin_labels()
+
+    def _place_margin_labels(self, *_args) -> None:
+        labels = [(self._margin_labels[i], x, y) for i, (x, y, _) in enumerate(self._margin_marks)]
+        if labels:
+            obstacles = [(s.pos().x(), s.pos().y()) for s in self.available_points.points()]
+            place_labels(self.plot_item.getViewBox(), labels, obstacles=obstacles)
+
+    def _follow_data(self) -> None:
+        xs, ys = [0.0], [0.0]
+        for item in [*self.available_items.values(), *self._required_items.values()]:
+            x, y = item.getData()
+            if item.isVisible() and x is not None and len(x):
+                xs.append(float(np.nanmax(x)))
+                ys.extend([float(np.nanmin(y)), float(np.nanmax(y))])
+        if len(xs) == 1:
+            return
+        self._view.follow(nice_range(0.0, max(xs), headroom=0.02), nice_range(min(ys), max(ys), headroom=0.12))
+
+    def _apply_titles(self) -> None:
+        set_axis_title(self.plot_item, "bottom", f"Flow ({unit_label('flow', self._unit_system)})")
+        set_axis_title(self.plot_item, "left", f"NPSH ({unit_label('head', self._unit_system)})")
+
+    def _sync_legend(self) -> None:
+        ordered = [self.available_items["new"], self.available_items["aged"]]
+        ordered += [self._required_items[n] for n in sorted(self._required_items)]
+        if len(self.margin_bars.getData()[0] if self.margin_bars.getData()[0] is not None else ()):
+            ordered.append(self.margin_bars)
+        ordered += self._key.items(self._pump_counts)
+        self._legend_sync.sync(ordered)
+
+    def _describe_position(self, _index: int, x: float, y: float) -> str:
+        return (f"Pointer: flow {format_number(x)} {unit_label('flow', self._unit_system)}   ·   "
+                f"NPSH {format_number(y)} {unit_label('head', self._unit_system)}")
+
+
+def _data(item: pg.PlotDataItem) -> tuple[np.ndarray, np.ndarray]:
+    x, y = item.getData()
+    if not item.isVisible() or x is None:
+        return empty_array(), empty_array()
+    return np.array(x, dtype=float), np.array(y, dtype=float)

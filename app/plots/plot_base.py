@@ -1,0 +1,339 @@
+"""Building blocks shared by the plots: a styled plot widget, a hover readout, a legend
+that lists only what is shown, and a placer that keeps point labels from overlapping."""
+
+from __future__ import annotations
+
+from typing import Callable, Iterable, Sequence
+
+import numpy as np
+import pyqtgraph as pg
+from PySide6.QtCore import QObject, QPointF, QRectF, Qt
+from PySide6.QtWidgets import QLabel, QSizePolicy, QWidget
+
+from app import style
+
+
+def make_readout_label(parent: QWidget) -> QLabel:
+    """The one-line label above a plot that shows the hover readout.
+
+    Its width is ignored by the layout, so a longer readout never resizes the window.
+    """
+    label = QLabel(parent)
+    label.setObjectName("plotReadout")
+    label.setSizePolicy(QSizePolicy.Policy.Ignored, QSizePolicy.Policy.Fixed)
+    label.setContentsMargins(6, 2, 6, 2)
+    label.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+    return label
+
+
+def make_canvas() -> pg.GraphicsLayoutWidget:
+    """A white GraphicsLayoutWidget to hold one or more plots and a legend row."""
+    canvas = pg.GraphicsLayoutWidget()
+    canvas.setBackground(style.PLOT_BACKGROUND)
+    canvas.ci.setContentsMargins(4, 4, 8, 4)
+    canvas.ci.setSpacing(4)
+    return canvas
+
+
+def add_plot(canvas: pg.GraphicsLayoutWidget, row: int) -> pg.PlotItem:
+    """A styled PlotItem in ``row`` of ``canvas``."""
+    plot_item = canvas.addPlot(row=row, col=0)
+    style_plot_item(plot_item)
+    return plot_item
+
+
+class FixedItemSample(pg.ItemSample):
+    """A legend sample that does not hide its curve when clicked.
+
+    The plots decide what is shown (an unused pump curve is hidden and leaves the
+    legend); a click that hid a curve behind the plot's back would lose it from view.
+    """
+
+    def mouseClickEvent(self, event) -> None:
+        event.ignore()
+
+
+def add_legend_row(canvas: pg.GraphicsLayoutWidget, row: int, columns: int = 3) -> pg.LegendItem:
+    """A legend laid out below the plots (so it never hides a curve), ``columns`` wide."""
+    legend = pg.LegendItem(colCount=columns, labelTextColor=style.PLOT_FOREGROUND, labelTextSize="8.5pt",
+                           brush=pg.mkBrush(255, 255, 255, 0), pen=pg.mkPen(None), verSpacing=-6,
+                           horSpacing=16, sampleType=FixedItemSample)
+    canvas.addItem(legend, row=row, col=0)
+    canvas.ci.layout.setRowStretchFactor(row, 0)
+    return legend
+
+
+def style_plot_item(plot_item: pg.PlotItem) -> None:
+    """Apply the PumpSketch axis style to one PlotItem."""
+    for name in ("left", "bottom", "right", "top"):
+        axis = plot_item.getAxis(name)
+        axis.setPen(pg.mkPen(style.PLOT_FOREGROUND))
+        axis.setTextPen(pg.mkPen(style.PLOT_FOREGROUND))
+        axis.setTickFont(style.tick_font())
+        axis.enableAutoSIPrefix(False)
+    plot_item.showGrid(x=True, y=True, alpha=0.15)
+    plot_item.hideButtons()
+
+
+def set_axis_title(plot_item: pg.PlotItem, axis: str, text: str) -> None:
+    """Axis title in the PumpSketch font, without pyqtgraph's automatic SI prefixes."""
+    plot_item.setLabel(axis, text, **{"color": style.PLOT_FOREGROUND, "font-size": style.LABEL_FONT_SIZE})
+
+
+def empty_array() -> np.ndarray:
+    return np.empty(0, dtype=float)
+
+
+class ViewFollower(QObject):
+    """Sets a plot's range to what the data needs, until the user zooms or pans.
+
+    After a manual zoom the view stays where the user put it; :meth:`reset` (the window's
+    "fit view" command) returns to following the data.
+    """
+
+    def __init__(self, plot_item: pg.PlotItem):
+        super().__init__(plot_item)
+        self._view_box = plot_item.getViewBox()
+        self._view_box.disableAutoRange()
+        self._wanted: tuple[tuple[float, float], tuple[float, float]] | None = None
+        self.user_moved = False
+        self._view_box.sigRangeChangedManually.connect(self._on_manual)
+
+    def _on_manual(self, *_args) -> None:
+        self.user_moved = True
+
+    def follow(self, x_range: tuple[float, float] | None, y_range: tuple[float, float] | None) -> None:
+        """Show ``x_range`` × ``y_range`` (display units) unless the user has moved the view."""
+        if x_range is None or y_range is None:
+            return
+        self._wanted = (x_range, y_range)
+        if not self.user_moved:
+            self._view_box.setRange(xRange=x_range, yRange=y_range, padding=0.0)
+
+    def reset(self) -> None:
+        """Forget the user's zoom and show the data range again."""
+        self.user_moved = False
+        if self._wanted is not None:
+            self._view_box.setRange(xRange=self._wanted[0], yRange=self._wanted[1], padding=0.0)
+
+
+def nice_range(low: float, high: float, headroom: float = 0.06) -> tuple[float, float] | None:
+    """``(low, high)`` widened by ``headroom`` of the span at the top and 3 % at the bottom.
+
+    The small margin below keeps the tick label of the lower end (usually zero) in view.
+    Returns ``None`` for a non-finite range.
+    """
+    if not (np.isfinite(low) and np.isfinite(high)):
+        return None
+    if high <= low:
+        high = low + 1.0
+    span = high - low
+    return low - 0.03 * span, high + headroom * span
+
+
+class LegendSync:
+    """Keep a legend listing exactly the visible items that carry a name, in a fixed order."""
+
+    def __init__(self, legend: pg.LegendItem):
+        self._legend = legend
+        self._shown: list[tuple[int, str]] = []
+
+    def sync(self, ordered_items: Iterable[pg.GraphicsObject]) -> None:
+        wanted = []
+        for item in ordered_items:
+            name = item.name() if hasattr(item, "name") else None
+            if name and item.isVisible():
+                wanted.append((item, name))
+        signature = [(id(item), name) for item, name in wanted]
+        if signature == self._shown:
+            return
+        self._legend.clear()
+        for item, name in wanted:
+            self._legend.addItem(item, name)
+        self._shown = signature
+
+    def names(self) -> list[str]:
+        """The entries now listed, top to bottom."""
+        return [label.text for _, label in self._legend.items]
+
+
+class HoverReadout(QObject):
+    """A crosshair following the pointer and a text label saying where it is.
+
+    Works over one or several PlotItems that share a scene and a flow axis (stacked
+    plots): the vertical line follows the pointer in every plot, the horizontal line only
+    in the plot under the pointer.  ``describe(index, x, y)`` receives the index of that
+    plot and the view (display-unit) coordinates and returns the readout text.  Mouse
+    moves arrive through a rate-limited :class:`pyqtgraph.SignalProxy`.
+    """
+
+    def __init__(self, plot_items: Sequence[pg.PlotItem], label: QLabel,
+                 describe: Callable[[int, float, float], str], idle_text: str):
+        super().__init__(label)
+        self._plot_items = list(plot_items)
+        self._label = label
+        self._describe = describe
+        self._idle_text = idle_text
+        self._last: tuple[int, float, float] | None = None
+        self.verticals: list[pg.InfiniteLine] = []
+        self.horizontals: list[pg.InfiniteLine] = []
+        for plot_item in self._plot_items:
+            vertical = pg.InfiniteLine(angle=90, movable=False, pen=style.crosshair_pen())
+            horizontal = pg.InfiniteLine(angle=0, movable=False, pen=style.crosshair_pen())
+            for line in (vertical, horizontal):
+                line.setVisible(False)
+                line.setZValue(50)
+                plot_item.addItem(line, ignoreBounds=True)
+            self.verticals.append(vertical)
+            self.horizontals.append(horizontal)
+        scene = self._plot_items[0].scene()
+        self._proxy = pg.SignalProxy(scene.sigMouseMoved, rateLimit=60, slot=self._on_moved)
+        label.setText(idle_text)
+
+    @property
+    def active(self) -> bool:
+        """True while the pointer is over one of the plots."""
+        return self._last is not None
+
+    def refresh(self) -> None:
+        """Describe the last position again (after a change of units or data)."""
+        if self._last is None:
+            self._label.setText(self._idle_text)
+        else:
+            self.show_at(*self._last)
+
+    def show_at(self, index: int, x: float, y: float) -> None:
+        """Put the crosshair at (x, y) of plot ``index`` and describe that point."""
+        self._last = (index, x, y)
+        for i, (vertical, horizontal) in enumerate(zip(self.verticals, self.horizontals)):
+            vertical.setPos(x)
+            vertical.setVisible(True)
+            horizontal.setPos(y)
+            horizontal.setVisible(i == index)
+        self._label.setText(self._describe(index, x, y))
+
+    def hide(self) -> None:
+        """Remove the crosshair and show the idle text."""
+        self._last = None
+        for line in self.verticals + self.horizontals:
+            line.setVisible(False)
+        self._label.setText(self._idle_text)
+
+    def _on_moved(self, event: tuple) -> None:
+        scene_pos = event[0]
+        for index, plot_item in enumerate(self._plot_items):
+            view_box = plot_item.getViewBox()
+            if view_box.sceneBoundingRect().contains(scene_pos):
+                point = view_box.mapSceneToView(scene_pos)
+                self.show_at(index, point.x(), point.y())
+                return
+        self.hide()
+
+
+_CANDIDATE_ANCHORS: tuple[tuple[float, float], ...] = (
+    (1.04, 1.08),   # above left of the point
+    (-0.04, -0.08),  # below right
+    (-0.04, 1.08),  # above right
+    (1.04, -0.08),  # below left
+    (1.06, 0.5),    # left, level with the point
+    (-0.06, 0.5),   # right, level with the point
+    (0.5, 1.3),     # above, centred
+    (0.5, -0.3),    # below, centred
+    (1.04, 2.1),    # one line higher, left
+    (-0.04, -1.1),  # one line lower, right
+)
+
+
+def place_labels(view_box: pg.ViewBox, labels: Sequence[tuple[pg.TextItem, float, float]],
+                 obstacles: Sequence[tuple[float, float]] = (), marker_px: float = 7.0) -> None:
+    """Anchor each text label next to its point so that labels do not overlap.
+
+    Greedy: every label tries places around its point in turn and takes the first
+    whose box stays inside the plot and clears the labels already placed and the markers
+    in ``obstacles`` (view coordinates); failing that, the corner with the least overlap.
+    """
+    bounds = view_box.sceneBoundingRect()
+    placed: list[QRectF] = []
+    markers = []
+    for x, y in obstacles:
+        p = view_box.mapViewToScene(QPointF(x, y))
+        markers.append(QRectF(p.x() - marker_px, p.y() - marker_px, 2 * marker_px, 2 * marker_px))
+    for text_item, x, y in labels:
+        p = view_box.mapViewToScene(QPointF(x, y))
+        rect = text_item.textItem.boundingRect()
+        width, height = rect.width(), rect.height()
+        best_anchor, best_cost = _CANDIDATE_ANCHORS[0], float("inf")
+        best_box = None
+        for ax, ay in _CANDIDATE_ANCHORS:
+            box = QRectF(p.x() - ax * width, p.y() - ay * height, width, height)
+            cost = 0.0
+            for other in placed + markers:
+                inter = box.intersected(other)
+                if not inter.isEmpty():
+                    cost += inter.width() * inter.height()
+            outside = box.width() * box.height() - box.intersected(bounds).width() * box.intersected(bounds).height()
+            cost += 4.0 * max(outside, 0.0)
+            if cost < best_cost:
+                best_anchor, best_cost, best_box = (ax, ay), cost, box
+            if cost == 0.0:
+                break
+        text_item.setAnchor(best_anchor)
+        if best_box is not None:
+            placed.append(best_box)
+
+
+class PointKey:
+    """Legend entries that explain the operating-point markers of plots without point labels.
+
+    Colour tells the static extreme, a filled marker new pipe and a hollow one aged pipe,
+    the marker shape the number of pumps running (see :func:`app.style.operating_point_style`).
+    The sample items are never drawn in a plot; they only lend their look to the legend.
+    """
+
+    def __init__(self):
+        self.scenario_items: list[pg.PlotDataItem] = []
+        for static in ("max", "min"):
+            for pipe in ("new", "aged"):
+                look = style.operating_point_style(static, pipe, 1)
+                self.scenario_items.append(pg.PlotDataItem(
+                    [0.0], [0.0], pen=None, symbol="o", symbolBrush=look.brush,
+                    symbolPen=look.pen, symbolSize=look.size, name=f"{static} static, {pipe} pipe"))
+        self._pump_items: dict[int, pg.PlotDataItem] = {}
+
+    def items(self, pump_counts: Iterable[int]) -> list[pg.PlotDataItem]:
+        """Sample items for the scenarios and for each number of pumps in ``pump_counts``."""
+        out = list(self.scenario_items)
+        for count in sorted(set(pump_counts)):
+            item = self._pump_items.get(count)
+            if item is None:
+                item = pg.PlotDataItem([0.0], [0.0], pen=None, symbol=style.pump_symbol(count),
+                                       symbolBrush=pg.mkBrush(style.LIGHT_GREY), symbolPen=pg.mkPen(style.GREY),
+                                       symbolSize=10, name=f"{count} pump{'s' if count > 1 else ''} running")
+                self._pump_items[count] = item
+            out.append(item)
+        return out
+
+
+def point_spots(points: Iterable, x_of: Callable, y_of: Callable, label_of: Callable) -> list[dict]:
+    """ScatterPlotItem spots for operating points; points whose x or y is missing are skipped."""
+    spots = []
+    for point in points:
+        x, y = x_of(point), y_of(point)
+        if x is None or y is None or not (np.isfinite(x) and np.isfinite(y)):
+            continue
+        look = style.operating_point_style(str(getattr(point, "static", "")), str(getattr(point, "pipe", "")),
+                                           int(getattr(point, "pumps_running", 1) or 1))
+        spots.append({"pos": (float(x), float(y)), "symbol": look.symbol, "brush": look.brush,
+                      "pen": look.pen, "size": look.size, "data": label_of(point)})
+    return spots
+
+
+def make_points_item() -> pg.ScatterPlotItem:
+    """A scatter item for operating points whose tooltip names the point."""
+    item = pg.ScatterPlotItem(pxMode=True, hoverable=True, tip=_point_tip)
+    item.setZValue(40)
+    return item
+
+
+def _point_tip(x: float, y: float, data: object) -> str:
+    return str(data)

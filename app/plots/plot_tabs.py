@@ -1,0 +1,55 @@
+"""The plot area of the main window: head–flow, efficiency and power, NPSH, as tabs."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from PySide6.QtWidgets import QTabWidget, QWidget
+
+from app.plots.efficiency_power_plot import EfficiencyPowerPlot
+from app.plots.head_flow_plot import HeadFlowPlot
+from app.plots.npsh_plot import NpshPlot
+
+
+class PlotTabs(QTabWidget):
+    """Tabs holding :class:`HeadFlowPlot`, :class:`EfficiencyPowerPlot` and :class:`NpshPlot`."""
+
+    def __init__(self, parent: QWidget | None = None):
+        super().__init__(parent)
+        self.setDocumentMode(True)
+        self.head_flow = HeadFlowPlot()
+        self.efficiency_power = EfficiencyPowerPlot()
+        self.npsh = NpshPlot()
+        self.addTab(self.head_flow, "Head – flow")
+        self.addTab(self.efficiency_power, "Efficiency and power")
+        self.addTab(self.npsh, "NPSH")
+        self.setTabToolTip(0, "System curves, pump curves and operating points")
+        self.setTabToolTip(1, "Efficiency and shaft power of one pump against its flow")
+        self.setTabToolTip(2, "NPSH available against NPSH required, with the margin at each point")
+
+    def plots(self) -> tuple[HeadFlowPlot, EfficiencyPowerPlot, NpshPlot]:
+        """The three plot widgets, in tab order."""
+        return self.head_flow, self.efficiency_power, self.npsh
+
+    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+        """Draw ``solution`` in every tab (``None`` clears them)."""
+        for plot in self.plots():
+            plot.show_solution(solution, unit_system)
+
+    def pin_snapshot(self) -> None:
+        """Pin the head–flow curves now drawn as a faint snapshot."""
+        self.head_flow.pin_snapshot()
+
+    def clear_snapshot(self) -> None:
+        """Remove the pinned snapshot."""
+        self.head_flow.clear_snapshot()
+
+    @property
+    def has_snapshot(self) -> bool:
+        """True while a snapshot is pinned."""
+        return self.head_flow.has_snapshot
+
+    def fit_view(self) -> None:
+        """Return every plot to the automatic view of its data."""
+        for plot in self.plots():
+            plot.fit_view()

@@ -1,0 +1,1 @@
+"""Result panels of the window: the checks list and the operating-points table."""
