@@ -1,0 +1,144 @@
+"""The checks list: the engine's findings grouped by severity, each pointing at its cause.
+
+The panel only shows :class:`~hydraulics.results.Finding` objects from the solution; it
+never judges a value itself.  Clicking (or activating with the keyboard) a finding emits
+:attr:`ChecksPanel.findingActivated` with the finding's ``target`` — ``("segment", 2)``,
+``("pump", "P1")``, ``("site", "suction")``, ``("scenario", label)`` — so the window can
+select the row or panel concerned.
+"""
+
+from __future__ import annotations
+
+from typing import Any, Iterable
+
+from PySide6.QtCore import QModelIndex, Qt, Signal
+from PySide6.QtGui import QBrush, QColor, QFont, QStandardItem, QStandardItemModel
+from PySide6.QtWidgets import QAbstractItemView, QHeaderView, QTreeView, QVBoxLayout, QWidget
+
+from app import style
+from hydraulics.results import SEVERITY_ORDER
+
+FINDING_INDEX_ROLE = Qt.ItemDataRole.UserRole + 1
+"""Item data role holding the position of a finding in :attr:`ChecksPanel.findings`."""
+
+COLUMNS = ("Finding", "Where", "Remedy")
+SEVERITIES = tuple(sorted(SEVERITY_ORDER, key=SEVERITY_ORDER.get))
+
+
+def _group_title(severity: str, count: int) -> str:
+    noun = style.SEVERITY_TITLES.get(severity, severity.title())
+    return f"{noun} ({count})"
+
+
+class ChecksPanel(QWidget):
+    """Findings in a tree: one group per severity (critical, warning, information)."""
+
+    findingActivated = Signal(object)
+    """Emitted with ``finding.target`` (a tuple, or ``None``) when a finding is clicked or activated."""
+
+    def __init__(self, parent: QWidget | None = None):
+        super().__init__(parent)
+        self._findings: list[Any] = []
+        self._unit_system = "SI"
+        self._shown = False
+        self.model = QStandardItemModel(0, len(COLUMNS), self)
+        self.model.setHorizontalHeaderLabels(list(COLUMNS))
+        self.view = QTreeView(self)
+        self.view.setModel(self.model)
+        self.view.setEditTriggers(QAbstractItemView.EditTrigger.NoEditTriggers)
+        self.view.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectRows)
+        self.view.setUniformRowHeights(False)
+        self.view.setWordWrap(True)
+        self.view.setAlternatingRowColors(True)
+        self.view.setExpandsOnDoubleClick(True)
+        header = self.view.header()
+        header.setStretchLastSection(True)
+        header.setSectionResizeMode(0, QHeaderView.ResizeMode.Interactive)
+        self.view.setColumnWidth(0, 380)
+        self.view.setColumnWidth(1, 260)
+        self.view.clicked.connect(self._on_index)
+        self.view.activated.connect(self._on_index)
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(0, 0, 0, 0)
+        layout.addWidget(self.view)
+        self.show_findings((), "SI", solved=False)
+
+    # ------------------------------------------------------------------ public API
+    @property
+    def findings(self) -> tuple[Any, ...]:
+        """The findings shown, most serious first."""
+        return tuple(self._findings)
+
+    def show_findings(self, findings: Iterable[Any] | None, unit_system: str = "SI", solved: bool = True) -> None:
+        """Show ``findings`` (from ``solution.findings``).
+
+        ``unit_system`` is kept for the day findings carry their numbers separately;
+        today the engine writes each message complete, in SI.  ``solved=False`` shows
+        that there is no result yet rather than "no findings".
+        """
+        self._unit_system = unit_system
+        self._findings = sorted(findings or (), key=lambda f: SEVERITY_ORDER.get(getattr(f, "severity", ""), 9))
+        self.model.removeRows(0, self.model.rowCount())
+        if not self._findings:
+            text = "Every check passed: no findings." if solved else "No results yet."
+            placeholder = QStandardItem(text)
+            placeholder.setEditable(False)
+            placeholder.setForeground(QBrush(QColor(style.GREY)))
+            self.model.appendRow([placeholder, _plain(""), _plain("")])
+            return
+        for severity in SEVERITIES + tuple(
+                s for s in {getattr(f, "severity", "") for f in self._findings} if s not in SEVERITY_ORDER):
+            members = [(i, f) for i, f in enumerate(self._findings) if getattr(f, "severity", "") == severity]
+            if not members:
+                continue
+            group = QStandardItem(style.severity_icon(severity), _group_title(severity, len(members)))
+            group.setEditable(False)
+            group.setSelectable(False)
+            font = QFont(group.font())
+            font.setBold(True)
+            group.setFont(font)
+            for index, finding in members:
+                group.appendRow(self._finding_row(index, finding))
+            self.model.appendRow([group, _plain(""), _plain("")])
+            self.view.setFirstColumnSpanned(self.model.rowCount() - 1, QModelIndex(), True)
+        self.view.expandAll()
+
+    def group_titles(self) -> list[str]:
+        """Titles of the severity groups shown, top to bottom (e.g. ``"Warning (2)"``)."""
+        return [self.model.item(row, 0).text() for row in range(self.model.rowCount())
+                if self.model.item(row, 0).hasChildren()]
+
+    def index_of_finding(self, position: int) -> QModelIndex:
+        """Model index (first column) of the finding at ``position`` in :attr:`findings`."""
+        for row in range(self.model.rowCount()):
+            group = self.model.item(row, 0)
+            for child in range(group.rowCount()):
+                item = group.child(child, 0)
+                if item.data(FINDING_INDEX_ROLE) == position:
+                    return item.index()
+        return QModelIndex()
+
+    # ------------------------------------------------------------------ internals
+    def _finding_row(self, index: int, finding: Any) -> list[QStandardItem]:
+        message = str(getattr(finding, "message", ""))
+        where = str(getattr(finding, "where", ""))
+        remedy = str(getattr(finding, "remedy", "") or "")
+        code = str(getattr(finding, "code", ""))
+        tooltip = message + (f"\n\nRemedy: {remedy}" if remedy else "") + (f"\n\nCheck: {code}" if code else "")
+        cells = [_plain(message), _plain(where), _plain(remedy)]
+        for cell in cells:
+            cell.setToolTip(tooltip)
+            cell.setData(index, FINDING_INDEX_ROLE)
+        return cells
+
+    def _on_index(self, index: QModelIndex) -> None:
+        position = index.data(FINDING_INDEX_ROLE)
+        if position is None or not 0 <= int(position) < len(self._findings):
+            return
+        self.findingActivated.emit(getattr(self._findings[int(position)], "target", None))
+
+
+def _plain(text: str) -> QStandardItem:
+    item = QStandardItem(text)
+    item.setEditable(False)
+    return item
