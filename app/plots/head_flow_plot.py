@@ -298,10 +298,9 @@ class HeadFlowPlot(QWidget):
             items.end_label.setPos(float(x[-1]), float(y[-1]))
             bounds = read.preferred_flow_bounds(pump_curve)
             if bounds is not None:
-                inside = (flow >= bounds[0]) & (flow <= bounds[1])
                 rx, ry = self._region_stroke(flow, head, bounds)
                 items.region.setData(self._flow(rx), self._head(ry))
-                items.region.setVisible(bool(inside.any()) or rx.size > 0)
+                items.region.setVisible(rx.size > 0)
                 if region_name_holder is None and items.region.isVisible():
                     region_name_holder = items
             else:
@@ -368,7 +367,14 @@ class HeadFlowPlot(QWidget):
         self._place_point_labels()
 
     def _place_point_labels(self, *_args) -> None:
-        labels = [(self._point_labels[i], x, y) for i, (x, y, _) in enumerate(self._marked)]
+        """Place the pump-curve end labels, then the point labels, clear of each other and the markers."""
+        labels = []
+        for pumps in sorted(self._pump_items):
+            items = self._pump_items[pumps]
+            if items.end_label.isVisible():
+                position = items.end_label.pos()
+                labels.append((items.end_label, position.x(), position.y()))
+        labels += [(self._point_labels[i], x, y) for i, (x, y, _) in enumerate(self._marked)]
         if labels:
             place_labels(self.view_box, labels, obstacles=[(x, y) for x, y, _ in self._marked])
 

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import re
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -286,6 +287,25 @@ def test_efficiency_plot_without_pump(qtbot):
     assert "No efficiency data" in plot.efficiency_plot.titleLabel.text
 
 
+def test_pump_without_efficiency_or_npsh_data(qtbot):
+    from dataclasses import replace
+
+    solution = make_solution(duty_count=2)
+    bare = tuple(replace(c, efficiency=None, shaft_power_w=None, npsh_required_m=None, bep_flow_m3_s=None,
+                         preferred_flow_min_m3_s=None, preferred_flow_max_m3_s=None)
+                 for c in solution.pump_curves)
+    solution = replace(solution, pump_curves=bare)
+    tabs = PlotTabs()
+    qtbot.addWidget(tabs)
+    tabs.show_solution(solution)
+    assert tabs.head_flow.pump_curve_data(2)[0].size > 0
+    assert tabs.head_flow.preferred_region_data(2)[0].size == 0
+    assert not any(n.startswith("Preferred") for n in tabs.head_flow.legend_names())
+    assert tabs.efficiency_power.efficiency_data()[0].size == 0
+    assert "No efficiency data" in tabs.efficiency_power.efficiency_plot.titleLabel.text
+    assert tabs.npsh.required_data(1)[0].size == 0
+
+
 # --------------------------------------------------------------------------- NPSH
 def test_npsh_available_required_and_margin(qtbot, unit_system):
     plot = NpshPlot()
@@ -359,3 +379,32 @@ def test_plots_render_to_png(qtbot, tmp_path):
         path = tmp_path / f"plot_{index}.png"
         assert plot.grab().save(str(path))
         assert _is_drawn(path)
+
+
+# --------------------------------------------------------------------------- with the real engine
+SAMPLES = sorted((Path(__file__).resolve().parents[2] / "sample_projects").glob("*.pumpsketch.json"))
+
+
+@pytest.mark.parametrize("sample", SAMPLES, ids=[p.name.split(".")[0] for p in SAMPLES])
+def test_sample_project_solutions_draw_in_every_tab(qtbot, sample):
+    from hydraulics.project_io import load_project
+    from hydraulics.solve import solve
+
+    solution = solve(load_project(sample))
+    tabs = PlotTabs()
+    qtbot.addWidget(tabs)
+    tabs.show_solution(solution, "US")
+    for curve in solution.curves:
+        x, y = tabs.head_flow.curve_data(curve.static, curve.pipe)
+        np.testing.assert_allclose(x, curve.flow_m3_s * FLOW_FACTOR["US"], rtol=1e-12)
+        np.testing.assert_allclose(y, curve.head_m * HEAD_FACTOR["US"], rtol=1e-12)
+    speed = solution.project.arrangement.speed_ratio
+    for pump_curve in solution.pump_curves:
+        if abs(pump_curve.speed_ratio - speed) < 1e-9:
+            x, _ = tabs.head_flow.pump_curve_data(pump_curve.pumps_running)
+            np.testing.assert_allclose(x, pump_curve.flow_m3_s * FLOW_FACTOR["US"], rtol=1e-12)
+    found = [p for p in solution.operating_points if p.found and abs(p.speed_ratio - speed) < 1e-9]
+    assert len(tabs.head_flow.marked_points()) == len(found)
+    assert len(tabs.efficiency_power.marked_points()) == len(
+        [p for p in found if p.efficiency is not None])
+    assert tabs.npsh.available_data("aged")[0].size == solution.npsh_available_curve.flow_m3_s.size
