@@ -35,7 +35,7 @@ from __future__ import annotations
 from typing import Iterable, Sequence
 
 from hydraulics.model import Project
-from hydraulics.results import SEVERITY_ORDER, Finding, SegmentResult
+from hydraulics.results import SEVERITY_ORDER, Finding, SegmentResult, finding
 
 
 def _scenario_label(point) -> str:
@@ -69,16 +69,16 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
         target = ("segment", seg_low.index)
         if seg_low.velocity_m_s < v_min:
             why = " (self-cleansing minimum for sewage)" if c.sewage and seg_low.side == "delivery" else ""
-            out.append(Finding(
-                "warning", "velocity_low",
-                f"Velocity {seg_low.velocity_m_s:.2f} m/s at {seg_low.flow_m3_s * 1000:.1f} L/s is below "
-                f"the minimum {v_min:.2f} m/s{why}.",
+            out.append(finding(
+                "warning", "velocity_low", "Velocity {v} at {q} is below the minimum {limit}" + why + ".",
+                {"v": (seg_low.velocity_m_s, "velocity"), "q": (seg_low.flow_m3_s, "flow"),
+                 "limit": (v_min, "velocity")},
                 where, "Try a smaller diameter, or plan flushing flows.", target))
         if seg_high.velocity_m_s > v_max:
-            out.append(Finding(
-                "warning", "velocity_high",
-                f"Velocity {seg_high.velocity_m_s:.2f} m/s at {seg_high.flow_m3_s * 1000:.1f} L/s is above "
-                f"the maximum {v_max:.2f} m/s.",
+            out.append(finding(
+                "warning", "velocity_high", "Velocity {v} at {q} is above the maximum {limit}.",
+                {"v": (seg_high.velocity_m_s, "velocity"), "q": (seg_high.flow_m3_s, "flow"),
+                 "limit": (v_max, "velocity")},
                 where, "Try a larger diameter; high velocity costs energy and raises surge.", target))
     return out
 
@@ -98,11 +98,13 @@ def profile_findings(project: Project, static_head_min_m: float) -> list[Finding
             continue
         crest = max((e for e in (seg.start_elevation_m, seg.end_elevation_m) if e is not None), default=None)
         if crest is not None and crest > lowest_delivery:
-            out.append(Finding(
+            out.append(finding(
                 "warning", "high_point_above_delivery",
-                f"The main reaches {crest:.1f} m, {crest - lowest_delivery:.1f} m above the lowest delivery "
-                f"level {lowest_delivery:.1f} m: beyond the crest it may run partly full or below atmospheric "
-                "pressure, and at low flow the static head to the crest governs.",
+                "The main reaches {crest}, {above} above the lowest delivery level {delivery}: beyond the "
+                "crest it may run partly full or below atmospheric pressure, and at low flow the static "
+                "head to the crest governs.",
+                {"crest": (crest, "elevation"), "above": (crest - lowest_delivery, "head"),
+                 "delivery": (lowest_delivery, "elevation")},
                 f"segment '{seg.name}' (delivery)",
                 "Check the hydraulic grade line over the crest; plan air valves; a surge specialist should "
                 "check column separation.", ("segment", i)))
@@ -136,10 +138,11 @@ def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m:
     scale = arrangement.speed_ratio * arrangement.trim_ratio
     shutoff = fitted.shutoff_head_m * scale**2 * arrangement.series_stages
     if shutoff < static_head_max_m:
-        out.append(Finding(
+        out.append(finding(
             "critical", "shutoff_below_static",
-            f"Shut-off head {shutoff:.1f} m is below the maximum static head {static_head_max_m:.1f} m: "
-            "the pumps cannot deliver when suction is lowest and delivery highest.",
+            "Shut-off head {shutoff} is below the maximum static head {static}: the pumps cannot deliver "
+            "when suction is lowest and delivery highest.",
+            {"shutoff": (shutoff, "head"), "static": (static_head_max_m, "head")},
             pump_where, "Choose a pump with a higher head, a higher speed or more series stages.", pump_target))
     if arrangement.duty_count > 1 and fitted.has_rising_then_falling_head:
         out.append(Finding(
@@ -165,10 +168,10 @@ def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m:
                 "Check the static head, the pump curve and the number of pumps running.", target))
             continue
         if point.extrapolated:
-            out.append(Finding(
+            out.append(finding(
                 "warning", "extrapolated_duty",
-                f"The duty point at {point.flow_per_pump_m3_s * 1000:.1f} L/s per pump lies beyond the pump's "
-                "tested data; the fitted curve is extrapolated there.",
+                "The duty point at {q} per pump lies beyond the pump's tested data; the fitted curve is "
+                "extrapolated there.", {"q": (point.flow_per_pump_m3_s, "flow")},
                 where, "Obtain pump data covering this flow, or change the system.", target))
         out.extend(_npsh_findings(point, criteria, where, target))
         out.extend(_region_findings(point, criteria, where, target))
@@ -181,16 +184,18 @@ def _npsh_findings(point, criteria, where, target) -> list[Finding]:
         return []
     required = max(criteria.npsh_margin_ratio * npshr, npshr + criteria.npsh_margin_min_m)
     if npsha < npshr:
-        return [Finding(
+        return [finding(
             "critical", "npsh_insufficient",
-            f"NPSH available {npsha:.1f} m is below NPSH required {npshr:.1f} m: the pump will cavitate.",
+            "NPSH available {a} is below NPSH required {r}: the pump will cavitate.",
+            {"a": (npsha, "head"), "r": (npshr, "head")},
             where, "Lower the pump, raise the minimum suction level, or shorten/enlarge the suction pipe.",
             target)]
     if npsha < required:
-        return [Finding(
+        return [finding(
             "warning", "npsh_margin_low",
-            f"NPSH available {npsha:.1f} m gives a margin of {npsha - npshr:.1f} m (ratio {npsha / npshr:.2f}) "
-            f"over NPSH required {npshr:.1f} m; the criteria ask for {required:.1f} m.",
+            "NPSH available {a} gives a margin of {m} (ratio " + f"{npsha / npshr:.2f}" + ") over NPSH "
+            "required {r}; the criteria ask for at least {need} available.",
+            {"a": (npsha, "head"), "m": (npsha - npshr, "head"), "r": (npshr, "head"), "need": (required, "head")},
             where, "Lower the pump, raise the minimum suction level, or reduce suction losses.", target)]
     return []
 

@@ -73,6 +73,11 @@ class Finding:
     ``code`` is stable (tests and scripts may rely on it).  ``target`` lets the window
     select what the finding is about: ``("segment", index)``, ``("pump", pump_id)``,
     ``("site", field)``, ``("scenario", label)`` or ``None``.
+
+    ``message`` is the text in SI units.  Where a finding quotes physical values,
+    ``template`` holds the same text with ``{name}`` placeholders and ``values`` the
+    ``(name, value_si, quantity)`` triples, so :meth:`text` can state it in any unit
+    system.  Build such findings with :func:`finding`.
     """
 
     severity: Severity
@@ -81,6 +86,39 @@ class Finding:
     where: str
     remedy: str = ""
     target: tuple[str, object] | None = None
+    template: str = ""
+    values: tuple[tuple[str, float, str], ...] = ()
+
+    def text(self, unit_system: str = "SI") -> str:
+        """The message with every quoted value in ``unit_system`` ("SI" or "US")."""
+        if not self.template:
+            return self.message
+        return render_template(self.template, self.values, unit_system)
+
+
+def render_template(template: str, values, unit_system: str) -> str:
+    """Fill ``{name}`` placeholders with values formatted in ``unit_system``."""
+    from hydraulics.units import format_quantity
+
+    return template.format(**{name: format_quantity(v, quantity, unit_system) for name, v, quantity in values})
+
+
+def finding(severity: Severity, code: str, template: str, values: dict[str, tuple[float, str]], where: str,
+            remedy: str = "", target: tuple[str, object] | None = None) -> Finding:
+    """A :class:`Finding` whose quoted values follow the display unit system.
+
+    ``values`` maps each placeholder to ``(value_si, quantity)``.
+
+    >>> f = finding("warning", "velocity_high", "Velocity {v} exceeds {limit}.",
+    ...             {"v": (2.9, "velocity"), "limit": (2.5, "velocity")}, "segment 'main'")
+    >>> f.message
+    'Velocity 2.90 m/s exceeds 2.50 m/s.'
+    >>> f.text("US")
+    'Velocity 9.51 ft/s exceeds 8.20 ft/s.'
+    """
+    triples = tuple((name, float(v), q) for name, (v, q) in values.items())
+    return Finding(severity, code, render_template(template, triples, "SI"), where, remedy, target,
+                   template=template, values=triples)
 
 
 SEVERITY_ORDER: dict[str, int] = {"critical": 0, "warning": 1, "info": 2}

@@ -72,8 +72,7 @@ class ChecksPanel(QWidget):
     def show_findings(self, findings: Iterable[Any] | None, unit_system: str = "SI", solved: bool = True) -> None:
         """Show ``findings`` (from ``solution.findings``).
 
-        ``unit_system`` is kept for the day findings carry their numbers separately;
-        today the engine writes each message complete, in SI.  ``solved=False`` shows
+        Quoted values are stated in ``unit_system`` (``Finding.text``).  ``solved=False`` shows
         that there is no result yet rather than "no findings".
         """
         self._unit_system = unit_system
@@ -120,7 +119,8 @@ class ChecksPanel(QWidget):
 
     # ------------------------------------------------------------------ internals
     def _finding_row(self, index: int, finding: Any) -> list[QStandardItem]:
-        message = str(getattr(finding, "message", ""))
+        text = getattr(finding, "text", None)
+        message = str(text(self._unit_system) if callable(text) else getattr(finding, "message", ""))
         where = str(getattr(finding, "where", ""))
         remedy = str(getattr(finding, "remedy", "") or "")
         code = str(getattr(finding, "code", ""))

@@ -207,3 +207,20 @@ def test_panels_render_to_png(qtbot, tmp_path):
         assert widget.grab().save(str(path))
         image = QImage(str(path))
         assert not image.isNull() and image.width() >= 800
+
+
+def test_checks_panel_states_quoted_values_in_the_unit_system(qtbot):
+    from hydraulics.results import finding
+
+    from app.results.checks_panel import ChecksPanel
+
+    panel = ChecksPanel()
+    qtbot.addWidget(panel)
+    item = finding("warning", "velocity_high", "Velocity {v} is above the maximum {limit}.",
+                   {"v": (3.048, "velocity"), "limit": (2.5, "velocity")}, "segment 'main'")
+    panel.show_findings([item], "US")
+    model = panel.model
+    shown = [model.index(child, 0, model.index(row, 0)).data()
+             for row in range(model.rowCount()) for child in range(model.rowCount(model.index(row, 0)))]
+    # 3.048 m/s = 10 ft/s exactly (1 ft = 0.3048 m, NIST SP 811)
+    assert shown == ["Velocity 10.00 ft/s is above the maximum 8.20 ft/s."]

@@ -1,0 +1,115 @@
+"""The command line: both forms of `solve` on every sample, import-pump, bad input."""
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parent.parent
+SAMPLES = sorted((ROOT / "sample_projects").glob("*.pumpsketch.json"))
+PUMP_FILES = sorted((ROOT / "sample_projects" / "pumps").glob("*.csv"))
+
+ENGINE_KEYS = {"format", "version", "fluid", "static_head_m", "design_flow_m3_s", "system_curves",
+               "segments", "findings"}
+PUMP_KEYS = {"pumps", "operating_points", "variable_speed", "energy"}
+SEGMENT_KEYS = {"name", "side", "length_m", "internal_diameter_m", "roughness_m", "parallel_pipes",
+                "velocity_m_s", "reynolds", "friction_factor", "friction_loss_m", "minor_k_total", "minor_loss_m"}
+POINT_KEYS = {"static", "pipe", "pumps_running", "speed_ratio", "flow_m3_s", "flow_per_pump_m3_s", "head_m",
+              "efficiency", "shaft_power_w", "input_power_w", "specific_energy_kwh_m3", "bep_flow_ratio",
+              "npsh_available_m", "npsh_required_m", "extrapolated"}
+
+
+def run(*args: str) -> subprocess.CompletedProcess:
+    return subprocess.run([sys.executable, "-m", "app", *args], capture_output=True, text=True, cwd=ROOT,
+                          timeout=120)
+
+
+@pytest.fixture(scope="module", params=SAMPLES, ids=lambda p: p.name)
+def solved(request):
+    result = run("solve", str(request.param), "--json")
+    assert result.returncode == 0, result.stderr
+    return json.loads(result.stdout)
+
+
+def test_json_has_the_contract_keys(solved):
+    assert ENGINE_KEYS | PUMP_KEYS <= set(solved)
+    assert solved["format"] == "pumpsketch-results"
+    assert set(solved["fluid"]) >= {"temperature_c", "density_kg_m3", "kinematic_viscosity_m2_s", "vapour_pressure_pa"}
+    assert solved["static_head_m"]["min"] <= solved["static_head_m"]["max"]
+    combos = {(c["static"], c["pipe"]) for c in solved["system_curves"]}
+    assert combos == {("min", "new"), ("min", "aged"), ("max", "new"), ("max", "aged")}
+    for curve in solved["system_curves"]:
+        assert set(curve) >= {"flow_m3_s", "head_m", "static_m", "friction_m", "minor_m"}
+        assert curve["flow_m3_s"][0] == 0.0 and max(curve["flow_m3_s"]) > solved["design_flow_m3_s"]
+    for segment in solved["segments"]:
+        assert SEGMENT_KEYS <= set(segment)
+    for finding in solved["findings"]:
+        assert set(finding) >= {"severity", "code", "message", "where"}
+
+
+def test_operating_points_at_both_extremes_for_every_pump_count(solved):
+    points = solved["operating_points"]
+    assert points and all(POINT_KEYS <= set(p) for p in points)
+    counts = {p["pumps_running"] for p in points}
+    assert counts == set(range(1, max(counts) + 1))
+    for n in counts:
+        assert {(p["static"], p["pipe"]) for p in points if p["pumps_running"] == n} == {
+            ("min", "new"), ("min", "aged"), ("max", "new"), ("max", "aged")}
+    found = [p for p in points if p["flow_m3_s"] is not None]
+    assert found, "the sample pumps should deliver"
+    for p in found:
+        assert p["npsh_available_m"] is not None and p["npsh_required_m"] is not None
+
+
+@pytest.mark.parametrize("sample", SAMPLES, ids=lambda p: p.name)
+def test_human_summary(sample):
+    result = run("solve", str(sample))
+    assert result.returncode == 0, result.stderr
+    out = result.stdout
+    for text in ("Static head", "Segments at design flow", "System curves", "Operating points", "Checks",
+                 "Preliminary design aid", "licensed engineer"):
+        assert text in out
+
+
+def test_us_units_summary():
+    result = run("solve", str(SAMPLES[0]), "--units", "US")
+    assert result.returncode == 0 and "gpm" in result.stdout and "ft" in result.stdout
+
+
+@pytest.mark.parametrize("content, needle", [
+    ('{"format": "pumpsketch-project", "version": 99}', "version"),
+    ('{"format": "pumpsketch-project", "version": 1, "segm', "not valid JSON"),
+    ('[1, 2]', "expected an object"),
+    ('{"format": "pumpsketch-project", "version": 1, "fluid": {"kind": "water", "temperature": '
+     '{"value": 20, "unit": "degC"}}, "site": 3, "segments": []}', "site"),
+])
+def test_bad_files_exit_2_with_one_line(tmp_path, content, needle):
+    path = tmp_path / "bad.pumpsketch.json"
+    path.write_text(content)
+    result = run("solve", str(path), "--json")
+    assert result.returncode == 2
+    assert result.stdout == ""
+    lines = result.stderr.strip().splitlines()
+    assert len(lines) == 1 and needle in lines[0] and "Traceback" not in result.stderr
+
+
+def test_missing_file_exit_2():
+    result = run("solve", "no/such/file.pumpsketch.json")
+    assert result.returncode == 2 and len(result.stderr.strip().splitlines()) == 1
+
+
+@pytest.mark.parametrize("csv", PUMP_FILES, ids=lambda p: p.name)
+def test_import_pump_shows_the_fit(csv):
+    result = run("import-pump", str(csv))
+    assert result.returncode == 0, result.stderr
+    assert "RMS residual" in result.stdout and "Best-efficiency point" in result.stdout
+
+
+def test_import_pump_bad_file(tmp_path):
+    path = tmp_path / "bad.csv"
+    path.write_text("flow [L/s],head [m]\n0,50\n10,abc\n20,40\n30,30\n")
+    result = run("import-pump", str(path))
+    assert result.returncode == 2
+    assert "line 3" in result.stderr and len(result.stderr.strip().splitlines()) == 1
