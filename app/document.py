@@ -1,0 +1,272 @@
+"""The open project: current model, undo stack, file, unit system and live recompute.
+
+:class:`ProjectDocument` is the one place the window's state lives.  Panels and table
+models read ``document.project`` and hand candidate projects to :meth:`apply`; they
+never keep data of their own.  After every change the document restarts a short
+single-shot timer and, when it fires, calls :func:`hydraulics.solve.solve` and emits
+``solutionChanged`` — a burst of edits (mouse-wheel steps, a paste) costs one solve.
+
+Changing the unit system changes only what is shown: the stored project stays in SI.
+"""
+
+from __future__ import annotations
+
+import logging
+import time
+from pathlib import Path
+
+from PySide6.QtCore import QObject, QTimer, Signal
+from PySide6.QtGui import QUndoStack
+from PySide6.QtWidgets import QApplication
+
+from app.commands import ReplaceProjectCommand, check_candidate
+from hydraulics.model import ModelError, Project
+from hydraulics.project_io import FILE_SUFFIX, load_project, new_project, save_project
+from hydraulics.results import Solution
+from hydraulics.solve import solve
+from hydraulics.units import UNIT_SYSTEMS
+
+log = logging.getLogger(__name__)
+
+RECOMPUTE_DELAY_MS = 30
+"""Debounce of the live recompute after an edit."""
+
+
+def describe_model_error(exc: ModelError) -> str:
+    """A ModelError as one plain sentence naming the field."""
+    return f"{exc.problem} ({exc.field_path})" if exc.field_path else exc.problem
+
+
+class ProjectDocument(QObject):
+    """The project being edited (see the module docstring).
+
+    Signals
+    -------
+    projectChanged()
+        The project was replaced (an edit, undo, redo, open or new).
+    solutionChanged(object)
+        A fresh :class:`~hydraulics.results.Solution` of the current project.
+    solveFailed(str)
+        The current project could not be solved; the message says why.
+    unitSystemChanged(str)
+        The display unit system changed ("SI" or "US").
+    fileStateChanged()
+        The file path or the saved/unsaved state changed.
+    editRefused(str)
+        An edit was refused; the message names the field and the allowed range.
+    focusRequested(object)
+        Undo or redo changed something the window should bring into view, e.g.
+        ``("segment", 2)``.
+    """
+
+    projectChanged = Signal()
+    solutionChanged = Signal(object)
+    solveFailed = Signal(str)
+    unitSystemChanged = Signal(str)
+    fileStateChanged = Signal()
+    editRefused = Signal(str)
+    focusRequested = Signal(object)
+
+    def __init__(self, project: Project | None = None, unit_system: str = "SI", parent: QObject | None = None):
+        super().__init__(parent)
+        self._project = project if project is not None else new_project()
+        self._unit_system = unit_system if unit_system in UNIT_SYSTEMS else "SI"
+        self._file_path: Path | None = None
+        self._solution: Solution | None = None
+        self._solve_error: str | None = None
+        self._refusals = 0
+        self.undo_stack = QUndoStack(self)
+        self.undo_stack.cleanChanged.connect(self._on_clean_changed)
+        self._timer = QTimer(self)
+        self._timer.setSingleShot(True)
+        self._timer.setInterval(RECOMPUTE_DELAY_MS)
+        self._timer.timeout.connect(self.recompute_now)
+
+    def _on_clean_changed(self, _clean: bool) -> None:
+        self.fileStateChanged.emit()
+
+    # ------------------------------------------------------------------ state
+    @property
+    def project(self) -> Project:
+        """The current (immutable) project."""
+        return self._project
+
+    @property
+    def solution(self) -> Solution | None:
+        """The solution of the current project, ``None`` before the first solve or after a failure."""
+        return self._solution
+
+    @property
+    def solve_error(self) -> str | None:
+        """Why the current project could not be solved, or ``None``."""
+        return self._solve_error
+
+    @property
+    def file_path(self) -> Path | None:
+        return self._file_path
+
+    @property
+    def unit_system(self) -> str:
+        return self._unit_system
+
+    @property
+    def is_modified(self) -> bool:
+        """True when there are edits not saved to :attr:`file_path`."""
+        return not self.undo_stack.isClean()
+
+    def display_name(self) -> str:
+        """The file name without the project suffix, or the project name for an unsaved project."""
+        if self._file_path is None:
+            return self._project.name or "Untitled"
+        name = self._file_path.name
+        return name[: -len(FILE_SUFFIX)] if name.endswith(FILE_SUFFIX) else name
+
+    def set_unit_system(self, system: str) -> None:
+        """Show values in ``system``; the stored project does not change."""
+        if system not in UNIT_SYSTEMS:
+            raise ValueError(f"unknown unit system {system!r}; known: {', '.join(UNIT_SYSTEMS)}")
+        if system != self._unit_system:
+            self._unit_system = system
+            self.unitSystemChanged.emit(system)
+
+    # ------------------------------------------------------------------ edits
+    def apply(self, candidate: Project, description: str, focus: tuple[str, object] | None = None) -> bool:
+        """Replace the project by ``candidate`` as one undoable step.
+
+        The candidate is checked first (:func:`app.commands.check_candidate`); a refusal
+        emits ``editRefused`` with the reason and leaves the project unchanged.  Returns
+        whether the edit was applied (an edit that changes nothing counts as applied).
+        """
+        if candidate == self._project:
+            return True
+        try:
+            check_candidate(candidate)
+        except ModelError as exc:
+            self.refuse(f"Not applied — {describe_model_error(exc)}")
+            return False
+        self.undo_stack.push(ReplaceProjectCommand(self, self._project, candidate, description, focus))
+        return True
+
+    def refuse(self, message: str) -> None:
+        """Tell the window an edit was refused (the project is unchanged)."""
+        self._refusals += 1
+        self.editRefused.emit(message)
+
+    @property
+    def refusal_count(self) -> int:
+        """How many edits were refused so far (lets a view tell whether its last commit was)."""
+        return self._refusals
+
+    def _install(self, project: Project, focus: tuple[str, object] | None) -> None:
+        """Make ``project`` current (called by the undo commands only)."""
+        self._project = project
+        self.projectChanged.emit()
+        if focus is not None:
+            self.focusRequested.emit(focus)
+        self.schedule_recompute()
+
+    # ------------------------------------------------------------------ files
+    def replace_project(self, project: Project, path: Path | None) -> None:
+        """Start over on ``project`` (open or new): clears the undo history, marks it saved."""
+        self._project = project
+        self._file_path = Path(path).resolve() if path is not None else None
+        self.undo_stack.clear()
+        self.undo_stack.setClean()
+        self.projectChanged.emit()
+        self.fileStateChanged.emit()
+        self.schedule_recompute()
+
+    def new(self) -> None:
+        """A fresh editable project, not yet saved anywhere."""
+        self.replace_project(new_project(), None)
+
+    def open(self, path: str | Path) -> None:
+        """Read a project file (raises :class:`hydraulics.project_io.ProjectFileError`)."""
+        project = load_project(path)
+        self.replace_project(project, Path(path))
+
+    def save(self, path: str | Path | None = None) -> Path:
+        """Save atomically to ``path`` (or the current file); mark the project saved.
+
+        Raises ``ValueError`` when there is no path, and passes on the errors of
+        :func:`hydraulics.project_io.save_project` (OSError, ModelError).
+        """
+        target = Path(path) if path is not None else self._file_path
+        if target is None:
+            raise ValueError("the project has no file yet; choose where to save it")
+        save_project(self._project, target)
+        self._file_path = target.resolve()
+        self.undo_stack.setClean()
+        self.fileStateChanged.emit()
+        return self._file_path
+
+    # ------------------------------------------------------------------ recompute
+    def schedule_recompute(self) -> None:
+        """Solve after :data:`RECOMPUTE_DELAY_MS` without further edits."""
+        self._timer.start()
+
+    def recompute_now(self) -> Solution | None:
+        """Solve the current project now (cancels a pending debounced solve).
+
+        A project the engine refuses emits ``solveFailed`` with the reason; it never
+        raises.
+        """
+        self._timer.stop()
+        project = self._project
+        try:
+            solution = solve(project)
+        except ModelError as exc:
+            self._fail(f"Results not updated — {describe_model_error(exc)}")
+            return None
+        except Exception as exc:  # an engine fault is reported, never allowed to close the window
+            log.exception("solve failed")
+            self._fail(f"Results not updated — the calculation failed: {exc}")
+            return None
+        self._solution = solution
+        self._solve_error = None
+        self.solutionChanged.emit(solution)
+        return solution
+
+    def _fail(self, message: str) -> None:
+        self._solution = None
+        self._solve_error = message
+        self.solveFailed.emit(message)
+
+    @property
+    def recompute_pending(self) -> bool:
+        """True while a debounced solve is waiting."""
+        return self._timer.isActive()
+
+
+def measure_edit_to_redraw(window, n: int = 50) -> list[float]:
+    """Milliseconds from pushing an edit command to the plots showing its solution.
+
+    Alternately steps the first segment with a pipe series one size up and back (or,
+    without one, changes the last segment's length by 1 % and back), solving at once
+    (the debounce is bypassed) and processing the paint events.  The edits are undone
+    afterwards, so the project is left as it was.
+    """
+    document: ProjectDocument = window.document
+    app = QApplication.instance()
+    start_index = document.undo_stack.index()
+    series_rows = [i for i, s in enumerate(document.project.segments) if s.pipe_series is not None]
+    timings: list[float] = []
+    for k in range(n):
+        t0 = time.perf_counter()
+        if series_rows:
+            window.pipework.step_size(series_rows[0], 1 if k % 2 == 0 else -1)
+        else:
+            from dataclasses import replace
+
+            project = document.project
+            last = project.segments[-1]
+            factor = 1.01 if k % 2 == 0 else 1 / 1.01
+            segments = project.segments[:-1] + (replace(last, length_m=last.length_m * factor),)
+            document.apply(replace(project, segments=segments), "Benchmark edit")
+        document.recompute_now()
+        if app is not None:
+            app.processEvents()
+        timings.append((time.perf_counter() - t0) * 1000.0)
+    document.undo_stack.setIndex(start_index)
+    document.recompute_now()
+    return timings

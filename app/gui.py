@@ -1,0 +1,42 @@
+"""Start the window: ``run_gui(path)`` is what ``pumpsketch`` and ``pumpsketch FILE`` call."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from PySide6.QtWidgets import QApplication
+
+from app import settings
+from app.main_window import APP_TITLE, MainWindow
+
+
+def application() -> QApplication:
+    """The running QApplication, created (with PumpSketch's names) if there is none."""
+    existing = QApplication.instance()
+    if existing is not None:
+        return existing
+    created = QApplication(sys.argv[:1])
+    created.setApplicationName(APP_TITLE)
+    created.setOrganizationName(settings.ORGANISATION)
+    created.setApplicationDisplayName(APP_TITLE)
+    return created
+
+
+def open_window(path: str | Path | None) -> MainWindow:
+    """A main window on ``path``; on the last project when ``path`` is None and one is
+    remembered; else on a new project.  A file that cannot be read leaves a new project
+    open and says why."""
+    window = MainWindow()
+    target = path if path is not None else settings.last_project()
+    if target is not None:
+        window.files.open_path(target, ask=False)
+    return window
+
+
+def run_gui(path: str | None) -> int:
+    """Open the window (see :func:`open_window`) and run until it closes; the exit code."""
+    app = application()
+    window = open_window(path)
+    window.show()
+    return int(app.exec())

@@ -1,0 +1,1 @@
+"""Input panels of the main window: Site & fluid, Pipework, Pumps, Criteria."""

@@ -1,0 +1,145 @@
+"""The window's actions declared as data, and the menus and tool bar built from them.
+
+Each :class:`ActionSpec` names the window method it calls, its shortcut and where it
+appears.  :func:`build_actions` makes the :class:`QAction` objects once; the menus and
+the tool bar only arrange them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from PySide6.QtCore import Qt
+from PySide6.QtGui import QAction, QKeySequence
+from PySide6.QtWidgets import QMenu, QToolBar
+
+Shortcut = QKeySequence.StandardKey | str | None
+
+LARGER_PIPE_SHORTCUT = "Ctrl+Up"
+SMALLER_PIPE_SHORTCUT = "Ctrl+Down"
+
+
+@dataclass(frozen=True)
+class ActionSpec:
+    """One command of the window: ``slot`` is the name of a window method."""
+
+    key: str
+    text: str
+    slot: str
+    shortcut: Shortcut = None
+    tip: str = ""
+    toolbar: bool = False
+
+
+ACTIONS: tuple[ActionSpec, ...] = (
+    ActionSpec("new", "&New", "new_project", QKeySequence.StandardKey.New, "Start a new project", True),
+    ActionSpec("open", "&Open…", "open_project", QKeySequence.StandardKey.Open, "Open a project file", True),
+    ActionSpec("save", "&Save", "save_project", QKeySequence.StandardKey.Save, "Save the project", True),
+    ActionSpec("save_as", "Save &As…", "save_project_as", QKeySequence.StandardKey.SaveAs,
+               "Save the project to a new file"),
+    ActionSpec("quit", "&Quit", "close", QKeySequence.StandardKey.Quit),
+    ActionSpec("copy", "&Copy", "copy_cells", QKeySequence.StandardKey.Copy,
+               "Copy the selected cells as tab-separated text (for spreadsheets)"),
+    ActionSpec("paste", "&Paste", "paste_cells", QKeySequence.StandardKey.Paste,
+               "Paste tab-separated cells from a spreadsheet at the current cell (one undo step)"),
+    ActionSpec("larger_pipe", "&Larger pipe size", "larger_pipe", LARGER_PIPE_SHORTCUT,
+               "Step the selected segment one nominal size up its pipe series", True),
+    ActionSpec("smaller_pipe", "S&maller pipe size", "smaller_pipe", SMALLER_PIPE_SHORTCUT,
+               "Step the selected segment one nominal size down its pipe series", True),
+    ActionSpec("pin", "&Pin curves", "pin_curves", "Ctrl+B",
+               "Keep the present curves as a faint snapshot to compare with", True),
+    ActionSpec("clear_pin", "C&lear pinned curves", "clear_pinned", "Ctrl+Shift+B",
+               "Remove the pinned snapshot", True),
+    ActionSpec("fit_view", "&Fit plots to data", "fit_plots", "Ctrl+0",
+               "Return the plots to the automatic view of their data"),
+    ActionSpec("methods", "&Methods and references", "show_methods", QKeySequence.StandardKey.HelpContents,
+               "The methods used, with their references, and the cautions"),
+    ActionSpec("shortcuts", "&Keyboard shortcuts", "show_shortcuts"),
+    ActionSpec("about", "&About PumpSketch", "show_about"),
+)
+
+MENUS: tuple[tuple[str, tuple[str | None, ...]], ...] = (
+    ("&File", ("new", "open", "@samples", "@recent", None, "save", "save_as", None, "quit")),
+    ("&Edit", ("undo", "redo", None, "copy", "paste", None, "larger_pipe", "smaller_pipe")),
+    ("&View", ("@units", None, "pin", "clear_pin", "fit_view")),
+    ("&Help", ("methods", "shortcuts", None, "about")),
+)
+"""Menu titles and their entries: action keys, ``None`` for a separator, ``@name`` for a submenu."""
+
+TOOLBAR: tuple[str | None, ...] = ("new", "open", "save", None, "undo", "redo", None,
+                                  "smaller_pipe", "larger_pipe", None, "pin", "clear_pin", None, "@units")
+
+
+def build_actions(window) -> dict[str, QAction]:
+    """Make the window's actions from :data:`ACTIONS` plus undo/redo from its undo stack."""
+    actions: dict[str, QAction] = {}
+    for spec in ACTIONS:
+        action = QAction(spec.text.replace("&&", "&"), window)
+        action.setObjectName(f"action_{spec.key}")
+        if spec.shortcut is not None:
+            action.setShortcut(QKeySequence(spec.shortcut))
+            action.setShortcutContext(Qt.ShortcutContext.WindowShortcut)
+        if spec.tip:
+            action.setStatusTip(spec.tip)
+            action.setToolTip(f"{spec.tip} ({action.shortcut().toString(QKeySequence.SequenceFormat.NativeText)})"
+                              if spec.shortcut is not None else spec.tip)
+        action.triggered.connect(getattr(window, spec.slot))
+        actions[spec.key] = action
+    stack = window.document.undo_stack
+    undo = stack.createUndoAction(window, "&Undo")
+    undo.setShortcut(QKeySequence(QKeySequence.StandardKey.Undo))
+    redo = stack.createRedoAction(window, "&Redo")
+    redo.setShortcut(QKeySequence(QKeySequence.StandardKey.Redo))
+    for key, action in (("undo", undo), ("redo", redo)):
+        action.setObjectName(f"action_{key}")
+        actions[key] = action
+    return actions
+
+
+def build_menus(window, actions: dict[str, QAction], submenus: dict[str, QMenu]) -> None:
+    """Fill the window's menu bar from :data:`MENUS`."""
+    bar = window.menuBar()
+    for title, entries in MENUS:
+        menu = bar.addMenu(title)
+        for entry in entries:
+            if entry is None:
+                menu.addSeparator()
+            elif entry.startswith("@"):
+                menu.addMenu(submenus[entry[1:]])
+            else:
+                menu.addAction(actions[entry])
+
+
+def build_toolbar(window, actions: dict[str, QAction], widgets: dict) -> QToolBar:
+    """The main tool bar from :data:`TOOLBAR` (``@name`` entries are widgets)."""
+    toolbar = QToolBar("Main", window)
+    toolbar.setObjectName("main_toolbar")
+    toolbar.setToolButtonStyle(Qt.ToolButtonStyle.ToolButtonTextOnly)
+    toolbar.setMovable(False)
+    for entry in TOOLBAR:
+        if entry is None:
+            toolbar.addSeparator()
+        elif entry.startswith("@"):
+            toolbar.addWidget(widgets[entry[1:]])
+        else:
+            toolbar.addAction(actions[entry])
+    window.addToolBar(toolbar)
+    return toolbar
+
+
+def shortcut_rows(actions: dict[str, QAction]) -> list[tuple[str, str]]:
+    """``(command, shortcut)`` for every action that has one, plus the table keys."""
+    rows = []
+    for key in ("new", "open", "save", "save_as", "undo", "redo", "copy", "paste", "larger_pipe",
+                "smaller_pipe", "pin", "clear_pin", "fit_view", "methods", "quit"):
+        action = actions[key]
+        shortcut = action.shortcut().toString(QKeySequence.SequenceFormat.NativeText)
+        if shortcut:
+            rows.append((action.text().replace("&", ""), shortcut))
+    rows += [
+        ("Edit the current cell (typing replaces it)", "any key; F2 keeps the text"),
+        ("Commit and move down / right / left", "Enter / Tab / Shift+Tab"),
+        ("Clear the selected optional cells", "Delete"),
+        ("Step the pipe size in the size box", "Up / Down, or the mouse wheel over it"),
+    ]
+    return rows

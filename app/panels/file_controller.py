@@ -1,0 +1,124 @@
+"""File commands of the window: new, open, open sample, recent files, save, save as.
+
+The questions the user is asked (save changes? which file?) are methods of the main
+window (``ask_save_changes``, ``ask_open_path``, ``ask_save_path``, ``show_error``) so
+tests can replace them.  A sample opens as an unsaved copy: saving asks where, and the
+sample itself is never overwritten.
+"""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+from PySide6.QtCore import QObject
+
+import app
+from app import settings
+from hydraulics.model import ModelError
+from hydraulics.project_io import FILE_SUFFIX, ProjectFileError, load_project
+
+SAMPLE_DIR = Path(app.__file__).resolve().parent.parent / "sample_projects"
+
+
+def sample_projects() -> list[tuple[str, Path]]:
+    """``(title, path)`` of every sample project, in file-name order."""
+    found = []
+    for path in sorted(SAMPLE_DIR.glob(f"*{FILE_SUFFIX}")):
+        title = path.name[: -len(FILE_SUFFIX)].replace("_", " ")
+        try:
+            name = json.loads(path.read_text(encoding="utf-8")).get("name")
+        except (OSError, ValueError, AttributeError):
+            name = None
+        found.append((name if isinstance(name, str) and name else title, path))
+    return found
+
+
+def with_suffix(path: str | Path) -> Path:
+    """``path`` ending in ``.pumpsketch.json`` (added when missing)."""
+    path = Path(path)
+    if path.name.endswith(FILE_SUFFIX):
+        return path
+    if path.suffix == ".json":
+        path = path.with_suffix("")
+    return path.with_name(path.name + FILE_SUFFIX)
+
+
+class FileController(QObject):
+    """Carries out the File menu for a main window (see the module docstring)."""
+
+    def __init__(self, window):
+        super().__init__(window)
+        self._window = window
+        self._document = window.document
+
+    # ------------------------------------------------------------------ guarding unsaved work
+    def maybe_save(self) -> bool:
+        """True when it is safe to drop the current project (saved, discarded or unchanged)."""
+        if not self._document.is_modified:
+            return True
+        answer = self._window.ask_save_changes()
+        if answer == "save":
+            return self.save()
+        return answer == "discard"
+
+    # ------------------------------------------------------------------ commands
+    def new(self) -> bool:
+        if not self.maybe_save():
+            return False
+        self._document.new()
+        self._window.show_status("New project: edit the inputs on the left.")
+        return True
+
+    def open(self) -> bool:
+        if not self.maybe_save():
+            return False
+        path = self._window.ask_open_path()
+        return self.open_path(path, ask=False) if path else False
+
+    def open_path(self, path: str | Path, ask: bool = True) -> bool:
+        """Open the project file ``path`` (after the unsaved-changes question when ``ask``)."""
+        if ask and not self.maybe_save():
+            return False
+        try:
+            self._document.open(path)
+        except ProjectFileError as exc:
+            self._window.show_error("Cannot open the project", str(exc))
+            return False
+        settings.add_recent_file(path)
+        self._window.show_status(f"Opened {Path(path).name}")
+        return True
+
+    def open_sample(self, path: str | Path) -> bool:
+        """Open a sample project as an unsaved copy."""
+        if not self.maybe_save():
+            return False
+        try:
+            project = load_project(path)
+        except ProjectFileError as exc:
+            self._window.show_error("Cannot open the sample", str(exc))
+            return False
+        self._document.replace_project(project, None)
+        self._window.show_status(f"Sample '{project.name}' opened as a copy: Save As to keep your changes.")
+        return True
+
+    def save(self) -> bool:
+        if self._document.file_path is None:
+            return self.save_as()
+        return self._save_to(self._document.file_path)
+
+    def save_as(self) -> bool:
+        path = self._window.ask_save_path()
+        if not path:
+            return False
+        return self._save_to(with_suffix(path))
+
+    def _save_to(self, path: Path) -> bool:
+        try:
+            saved = self._document.save(path)
+        except (OSError, ModelError, ValueError) as exc:
+            self._window.show_error("Cannot save the project", f"{path}: {exc}")
+            return False
+        settings.add_recent_file(saved)
+        self._window.show_status(f"Saved {saved.name}")
+        return True

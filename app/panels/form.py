@@ -1,0 +1,306 @@
+"""Forms declared as data: labelled fields bound to one value of the project each.
+
+A field says how to read its value from a :class:`~hydraulics.model.Project` and how to
+build the project with a new value; the form makes the editor, shows the value in the
+units on display, parses what is typed (:func:`app.table_models.cells.parse_value`,
+the same limits as the file reader) and hands the candidate project to the document.
+A refused entry is put back to the stored value and the document says why.
+Forms hold no data: :meth:`FormPanel.refresh` re-reads everything from the project.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any, Callable, Sequence
+
+from PySide6.QtCore import QSignalBlocker
+from PySide6.QtWidgets import (
+    QCheckBox,
+    QComboBox,
+    QFormLayout,
+    QGroupBox,
+    QHBoxLayout,
+    QLabel,
+    QLineEdit,
+    QVBoxLayout,
+    QWidget,
+)
+
+from app.table_models.cells import CellError, edit_text, parse_value, range_text, same_value, unit_suffix
+from hydraulics.model import Project
+from hydraulics.validation import LIMITS
+
+Getter = Callable[[Project], Any]
+Setter = Callable[[Project, Any], Project]
+Condition = Callable[[Project], bool]
+
+
+def _always(_project: Project) -> bool:
+    return True
+
+
+@dataclass(frozen=True)
+class NumberField:
+    """A number typed with units, checked against ``LIMITS[limit]``."""
+
+    key: str
+    label: str
+    quantity: str
+    limit: str
+    get: Getter
+    set: Setter
+    optional: bool = False
+    tooltip: str = ""
+    visible: Condition = _always
+    enabled: Condition = _always
+    placeholder: Callable[[Any], str] | None = None
+    """Grey text shown when an optional value is blank; receives the document."""
+
+
+@dataclass(frozen=True)
+class ChoiceField:
+    """A drop-down of ``(value, label)`` choices."""
+
+    key: str
+    label: str
+    choices: Callable[[Project], list[tuple[Any, str]]]
+    get: Getter
+    set: Setter
+    tooltip: str = ""
+    visible: Condition = _always
+    enabled: Condition = _always
+
+
+@dataclass(frozen=True)
+class CheckField:
+    """A yes/no box."""
+
+    key: str
+    label: str
+    get: Getter
+    set: Setter
+    tooltip: str = ""
+    visible: Condition = _always
+    enabled: Condition = _always
+
+
+@dataclass(frozen=True)
+class TextField:
+    """A line of free text (a name, a currency)."""
+
+    key: str
+    label: str
+    get: Getter
+    set: Setter
+    tooltip: str = ""
+    visible: Condition = _always
+    enabled: Condition = _always
+    allow_empty: bool = False
+
+
+Field = NumberField | ChoiceField | CheckField | TextField
+
+
+@dataclass(frozen=True)
+class Section:
+    """A titled group of fields."""
+
+    title: str
+    fields: Sequence[Field]
+    note: str = ""
+    visible: Condition = _always
+
+
+@dataclass
+class _Bound:
+    spec: Field
+    editor: QWidget
+    row_widget: QWidget
+    form: QFormLayout
+    unit_label: QLabel | None = None
+    choice_values: list = field(default_factory=list)
+
+
+class FormPanel(QWidget):
+    """Group boxes of fields bound to the document's project.
+
+    ``area`` names the panel in focus targets: an edit of field ``k`` is undone with
+    focus ``(area, k)`` so the window can bring the field back into view.
+    """
+
+    def __init__(self, document, area: str, sections: Sequence[Section], parent: QWidget | None = None):
+        super().__init__(parent)
+        self._document = document
+        self._area = area
+        self._bound: dict[str, _Bound] = {}
+        self._groups: list[tuple[Section, QGroupBox]] = []
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(4, 4, 4, 4)
+        for section in sections:
+            box = QGroupBox(section.title)
+            form = QFormLayout(box)
+            form.setFieldGrowthPolicy(QFormLayout.FieldGrowthPolicy.AllNonFixedFieldsGrow)
+            if section.note:
+                note = QLabel(section.note)
+                note.setWordWrap(True)
+                note.setStyleSheet("color: #505050;")
+                form.addRow(note)
+            for spec in section.fields:
+                self._add_field(form, spec)
+            layout.addWidget(box)
+            self._groups.append((section, box))
+        layout.addStretch(1)
+        document.projectChanged.connect(self.refresh)
+        document.unitSystemChanged.connect(self.refresh)
+        document.solutionChanged.connect(self._refresh_placeholders)
+        self.refresh()
+
+    # ------------------------------------------------------------------ building
+    def _add_field(self, form: QFormLayout, spec: Field) -> None:
+        if isinstance(spec, NumberField):
+            editor = QLineEdit()
+            editor.setObjectName(f"field_{spec.key}")
+            editor.editingFinished.connect(lambda s=spec: self._commit_number(s))
+            unit = QLabel()
+            unit.setMinimumWidth(42)
+            row = QWidget()
+            box = QHBoxLayout(row)
+            box.setContentsMargins(0, 0, 0, 0)
+            box.addWidget(editor, 1)
+            box.addWidget(unit)
+            form.addRow(spec.label, row)
+            self._bound[spec.key] = _Bound(spec, editor, row, form, unit)
+        elif isinstance(spec, ChoiceField):
+            editor = QComboBox()
+            editor.setObjectName(f"field_{spec.key}")
+            editor.activated.connect(lambda i, s=spec: self._commit_choice(s, i))
+            form.addRow(spec.label, editor)
+            self._bound[spec.key] = _Bound(spec, editor, editor, form)
+        elif isinstance(spec, CheckField):
+            editor = QCheckBox(spec.label)
+            editor.setObjectName(f"field_{spec.key}")
+            editor.clicked.connect(lambda checked, s=spec: self._commit(s, bool(checked)))
+            form.addRow("", editor)
+            self._bound[spec.key] = _Bound(spec, editor, editor, form)
+        else:
+            editor = QLineEdit()
+            editor.setObjectName(f"field_{spec.key}")
+            editor.editingFinished.connect(lambda s=spec: self._commit_text(s))
+            form.addRow(spec.label, editor)
+            self._bound[spec.key] = _Bound(spec, editor, editor, form)
+        editor.setToolTip(spec.tooltip)
+
+    # ------------------------------------------------------------------ reading
+    def editor(self, key: str) -> QWidget:
+        """The editor widget of field ``key`` (for tests and focus)."""
+        return self._bound[key].editor
+
+    def keys(self) -> list[str]:
+        return list(self._bound)
+
+    def refresh(self, *_args) -> None:
+        """Show the project's current values (and hide fields that do not apply)."""
+        project = self._document.project
+        system = self._document.unit_system
+        for section, box in self._groups:
+            box.setVisible(section.visible(project))
+        for bound in self._bound.values():
+            spec = bound.spec
+            shown = spec.visible(project)
+            bound.form.setRowVisible(bound.row_widget, shown)
+            bound.editor.setEnabled(spec.enabled(project))
+            if not shown:
+                continue
+            if isinstance(spec, NumberField):
+                bound.editor.setText(edit_text(spec.get(project), spec.quantity, system))
+                bound.unit_label.setText(unit_suffix(spec.quantity, system).replace("–", ""))
+                help_text = f"Allowed: {range_text(LIMITS[spec.limit], spec.quantity, system)}."
+                bound.editor.setToolTip(f"{spec.tooltip} {help_text}".strip())
+            elif isinstance(spec, ChoiceField):
+                with QSignalBlocker(bound.editor):
+                    bound.editor.clear()
+                    bound.choice_values = []
+                    for value, label in spec.choices(project):
+                        bound.editor.addItem(label)
+                        bound.choice_values.append(value)
+                    current = spec.get(project)
+                    bound.editor.setCurrentIndex(
+                        bound.choice_values.index(current) if current in bound.choice_values else -1)
+            elif isinstance(spec, CheckField):
+                with QSignalBlocker(bound.editor):
+                    bound.editor.setChecked(bool(spec.get(project)))
+            else:
+                bound.editor.setText(str(spec.get(project) or ""))
+        self._refresh_placeholders()
+
+    def _refresh_placeholders(self, *_args) -> None:
+        for bound in self._bound.values():
+            spec = bound.spec
+            if isinstance(spec, NumberField) and spec.placeholder is not None:
+                bound.editor.setPlaceholderText(spec.placeholder(self._document))
+
+    # ------------------------------------------------------------------ writing
+    def _commit(self, spec: Field, value: Any) -> bool:
+        project = self._document.project
+        try:
+            candidate = spec.set(project, value)
+        except CellError as exc:
+            self._document.refuse(str(exc))
+            self.refresh()
+            return False
+        applied = self._document.apply(candidate, f"Set {spec.label.lower()}", (self._area, spec.key))
+        if not applied:
+            self.refresh()
+        return applied
+
+    def _commit_number(self, spec: NumberField) -> None:
+        bound = self._bound[spec.key]
+        project = self._document.project
+        try:
+            value = parse_value(bound.editor.text(), label=spec.label, quantity=spec.quantity,
+                                limit_key=spec.limit, system=self._document.unit_system,
+                                field_path=f"{self._area}.{spec.key}", optional=spec.optional)
+        except CellError as exc:
+            self._document.refuse(str(exc))
+            self.refresh()
+            return
+        if same_value(value, spec.get(project)):
+            return
+        self._commit(spec, value)
+
+    def _commit_text(self, spec: TextField) -> None:
+        text = self._bound[spec.key].editor.text().strip()
+        if text == (spec.get(self._document.project) or ""):
+            return
+        if not text and not spec.allow_empty:
+            self._document.refuse(f"{spec.label}: cannot be empty")
+            self.refresh()
+            return
+        self._commit(spec, text)
+
+    def _commit_choice(self, spec: ChoiceField, position: int) -> None:
+        values = self._bound[spec.key].choice_values
+        if not 0 <= position < len(values):
+            return
+        if values[position] == spec.get(self._document.project):
+            return
+        self._commit(spec, values[position])
+
+    def set_text(self, key: str, text: str) -> None:
+        """Type ``text`` into a number or text field and commit it (as Enter would)."""
+        bound = self._bound[key]
+        bound.editor.setText(text)
+        bound.editor.editingFinished.emit()
+
+    def choose(self, key: str, value: Any) -> None:
+        """Pick the choice ``value`` of a drop-down field (as a user would)."""
+        bound = self._bound[key]
+        self._commit_choice(bound.spec, bound.choice_values.index(value))
+
+    def focus_field(self, key: str) -> bool:
+        """Give keyboard focus to field ``key`` if this form has it."""
+        bound = self._bound.get(key)
+        if bound is None:
+            return False
+        bound.editor.setFocus()
+        return True

@@ -1,0 +1,261 @@
+"""The "Pumps" panel: the pump model used, its curve points, and how the station runs it.
+
+The chooser picks the pump model the station uses (``arrangement.pump_id``); the data
+and points below are that pump's.  The arrangement says how many identical pumps run in
+parallel (duty), how many stand by, series stages, speed and impeller trim.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from PySide6.QtCore import QSignalBlocker, Signal
+from PySide6.QtWidgets import (
+    QComboBox,
+    QFileDialog,
+    QGroupBox,
+    QHBoxLayout,
+    QInputDialog,
+    QLabel,
+    QPushButton,
+    QVBoxLayout,
+    QWidget,
+)
+
+from app.panels import pump_edits
+from app.panels.form import FormPanel, NumberField, Section, TextField
+from app.panels.table_view import SpreadsheetView
+from app.table_models.pump_points import PumpPointsModel
+from hydraulics.model import Project, PumpModel
+from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
+
+
+def _pump(project: Project) -> PumpModel | None:
+    return project.duty_pump
+
+
+def _has_pump(project: Project) -> bool:
+    return project.duty_pump is not None
+
+
+def _pump_field(key: str, label: str, quantity: str, limit: str, attribute: str, **extra) -> NumberField:
+    return NumberField(
+        key, label, quantity, limit,
+        lambda p: getattr(p.duty_pump, attribute) if p.duty_pump is not None else None,
+        lambda p, v: pump_edits.with_pump_changes(p, p.duty_pump.pump_id, **{attribute: v}),
+        visible=_has_pump, **extra)
+
+
+def _arrangement_field(key: str, label: str, quantity: str, limit: str, attribute: str, **extra) -> NumberField:
+    return NumberField(
+        key, label, quantity, limit,
+        lambda p: getattr(p.arrangement, attribute) if p.arrangement is not None else None,
+        lambda p, v: pump_edits.with_arrangement_changes(p, **{attribute: v}),
+        visible=_has_pump, **extra)
+
+
+PUMP_SECTIONS = (
+    Section("Pump data", (
+        TextField("pump_name", "Name", lambda p: p.duty_pump.name if p.duty_pump else "",
+                  lambda p, v: pump_edits.with_pump_changes(p, p.duty_pump.pump_id, name=v), visible=_has_pump),
+        _pump_field("rated_speed", "Rated (test) speed", "speed", "pump.rated_speed_rpm", "rated_speed_rpm",
+                    tooltip="Speed at which the curve points were measured."),
+        _pump_field("impeller_diameter", "Impeller diameter", "diameter", "segment.internal_diameter_m",
+                    "impeller_diameter_m", optional=True, tooltip="Tested impeller diameter (optional)."),
+        _pump_field("head_fit_order", "Fit order: head", "dimensionless", "pump.fit_order", "head_fit_order",
+                    tooltip="Polynomial order of the head curve fit (1–4)."),
+        _pump_field("efficiency_fit_order", "Fit order: efficiency", "dimensionless", "pump.fit_order",
+                    "efficiency_fit_order"),
+        _pump_field("power_fit_order", "Fit order: power", "dimensionless", "pump.fit_order", "power_fit_order"),
+    ), visible=_has_pump),
+)
+
+ARRANGEMENT_SECTIONS = (
+    Section("How the station runs it", (
+        _arrangement_field("duty_count", "Duty pumps (in parallel)", "dimensionless", "arrangement.duty_count",
+                           "duty_count", tooltip="Curves are drawn for 1 up to this many identical pumps."),
+        _arrangement_field("standby_count", "Standby pumps", "dimensionless", "arrangement.standby_count",
+                           "standby_count"),
+        _arrangement_field("series_stages", "Pumps in series per line", "dimensionless",
+                           "arrangement.series_stages", "series_stages"),
+        _arrangement_field("speed_ratio", "Running speed (% of rated)", "ratio_percent", "arrangement.speed_ratio",
+                           "speed_ratio"),
+        _arrangement_field("min_speed_ratio", "Variable speed from (% of rated)", "ratio_percent",
+                           "arrangement.speed_ratio", "min_speed_ratio"),
+        _arrangement_field("max_speed_ratio", "Variable speed to (% of rated)", "ratio_percent",
+                           "arrangement.speed_ratio", "max_speed_ratio"),
+        _arrangement_field("trim_ratio", "Impeller trim (% of tested diameter)", "ratio_percent",
+                           "arrangement.trim_ratio", "trim_ratio"),
+        _arrangement_field("motor_efficiency", "Motor efficiency", "ratio_percent", "arrangement.efficiency",
+                           "motor_efficiency"),
+        _arrangement_field("drive_efficiency", "Drive (VSD) efficiency", "ratio_percent", "arrangement.efficiency",
+                           "drive_efficiency", tooltip="100 % for a direct-on-line motor."),
+    ), visible=_has_pump),
+)
+
+NO_PUMP_TEXT = ("No pump yet. Import a manufacturer's curve (CSV with a header naming each column and its "
+                "unit, e.g. \"flow [L/s], head [m], efficiency [%]\"), or start a new pump from an example "
+                "curve and type its points.")
+
+
+class PumpsPanel(QWidget):
+    """The "Pumps" input panel.  ``message(str)`` reports notes made while importing."""
+
+    message = Signal(str)
+
+    def __init__(self, document, parent: QWidget | None = None):
+        super().__init__(parent)
+        self._document = document
+        layout = QVBoxLayout(self)
+        layout.setContentsMargins(4, 4, 4, 4)
+
+        chooser_row = QHBoxLayout()
+        chooser_row.addWidget(QLabel("Pump model"))
+        self.chooser = QComboBox()
+        self.chooser.setObjectName("pump_chooser")
+        self.chooser.setToolTip("The pump model the station uses.")
+        self.chooser.activated.connect(self._on_chosen)
+        chooser_row.addWidget(self.chooser, 1)
+        layout.addLayout(chooser_row)
+        buttons = QHBoxLayout()
+        self.import_button = QPushButton("Import CSV…")
+        self.import_button.clicked.connect(lambda: self.import_csv())
+        self.new_button = QPushButton("New pump")
+        self.new_button.setToolTip("Add a pump with an example curve meeting the design flow, to edit.")
+        self.new_button.clicked.connect(self.add_example_pump)
+        self.remove_button = QPushButton("Remove pump")
+        self.remove_button.clicked.connect(self.remove_pump)
+        for button in (self.import_button, self.new_button, self.remove_button):
+            buttons.addWidget(button)
+        buttons.addStretch(1)
+        layout.addLayout(buttons)
+
+        self.no_pump_label = QLabel(NO_PUMP_TEXT)
+        self.no_pump_label.setWordWrap(True)
+        layout.addWidget(self.no_pump_label)
+
+        self.pump_form = FormPanel(document, "pump", PUMP_SECTIONS)
+        layout.addWidget(self.pump_form)
+
+        self.points_box = QGroupBox("Curve points at rated speed (one pump)")
+        points_layout = QVBoxLayout(self.points_box)
+        self.points_model = PumpPointsModel(document, self)
+        self.points_view = SpreadsheetView()
+        self.points_view.setObjectName("pump_points_table")
+        self.points_view.setModel(self.points_model)
+        self.points_view.setMinimumHeight(180)
+        points_layout.addWidget(self.points_view)
+        point_buttons = QHBoxLayout()
+        add_point = QPushButton("Add point")
+        add_point.clicked.connect(self._add_point)
+        remove_point = QPushButton("Remove point")
+        remove_point.clicked.connect(self._remove_points)
+        point_buttons.addWidget(add_point)
+        point_buttons.addWidget(remove_point)
+        point_buttons.addStretch(1)
+        points_layout.addLayout(point_buttons)
+        hint = QLabel("Efficiency, NPSH required and power are optional: give each at every point or "
+                      "none (paste a whole column from a spreadsheet).")
+        hint.setWordWrap(True)
+        hint.setStyleSheet("color: #505050;")
+        points_layout.addWidget(hint)
+        layout.addWidget(self.points_box)
+
+        self.arrangement_form = FormPanel(document, "arrangement", ARRANGEMENT_SECTIONS)
+        layout.addWidget(self.arrangement_form)
+        layout.addStretch(1)
+
+        document.projectChanged.connect(self.refresh)
+        self.refresh()
+
+    # ------------------------------------------------------------------ display
+    def refresh(self) -> None:
+        project = self._document.project
+        pump = project.duty_pump
+        with QSignalBlocker(self.chooser):
+            self.chooser.clear()
+            for p in project.pumps:
+                self.chooser.addItem(p.name, p.pump_id)
+            self.chooser.setCurrentIndex(self.chooser.findData(pump.pump_id) if pump is not None else -1)
+        self.chooser.setEnabled(bool(project.pumps))
+        self.remove_button.setEnabled(pump is not None)
+        self.no_pump_label.setVisible(pump is None)
+        self.points_box.setVisible(pump is not None)
+        self.points_model.set_pump(pump.pump_id if pump is not None else None)
+
+    def show_pump(self, pump_id: str) -> None:
+        """Bring a pump into view (the chooser shows the station's pump)."""
+        self.points_view.setFocus()
+
+    # ------------------------------------------------------------------ edits
+    def _on_chosen(self, position: int) -> None:
+        pump_id = self.chooser.itemData(position)
+        if pump_id is None:
+            return
+        project = self._document.project
+        self._document.apply(pump_edits.with_duty_pump(project, pump_id), "Choose pump model", ("pump", pump_id))
+
+    def add_example_pump(self) -> bool:
+        project = self._document.project
+        pump = pump_edits.example_pump(project, self._document.solution)
+        return self._document.apply(pump_edits.with_added_pump(project, pump), "New pump", ("pump", pump.pump_id))
+
+    def remove_pump(self) -> bool:
+        project = self._document.project
+        pump = project.duty_pump
+        if pump is None:
+            return False
+        return self._document.apply(pump_edits.with_removed_pump(project, pump.pump_id),
+                                    f"Remove pump '{pump.name}'", ("pump", pump.pump_id))
+
+    def ask_csv_path(self) -> str:
+        """Ask for a pump data file (tests replace this method)."""
+        path, _filter = QFileDialog.getOpenFileName(self, "Import pump curve", "",
+                                                    "Pump data (*.csv *.txt);;All files (*)")
+        return path
+
+    def ask_rated_speed(self, file_name: str) -> float | None:
+        """Ask the rated speed when a file does not give it (tests replace this method)."""
+        value, ok = QInputDialog.getDouble(
+            self, "Rated speed", f"{file_name} does not give the speed of the test (rpm):",
+            1450.0, 100.0, 10000.0, 0)
+        return value if ok else None
+
+    def import_csv(self, path: str | None = None) -> bool:
+        """Read a pump data file and make it the station's pump (one undo step)."""
+        path = path or self.ask_csv_path()
+        if not path:
+            return False
+        project = self._document.project
+        file_name = Path(path).name
+        pump_id = pump_edits.imported_pump_id(project, Path(path))
+        name = Path(path).stem
+        try:
+            try:
+                pump, notes = read_pump_csv_with_messages(Path(path), pump_id, name)
+            except PumpCsvError as exc:
+                if "speed" not in str(exc):
+                    raise
+                speed = self.ask_rated_speed(file_name)
+                if speed is None:
+                    return False
+                pump, notes = read_pump_csv_with_messages(Path(path), pump_id, name, rated_speed_rpm=speed)
+        except (PumpCsvError, OSError, ValueError) as exc:
+            self._document.refuse(f"Pump data not imported — {file_name}: {exc}")
+            return False
+        applied = self._document.apply(pump_edits.with_added_pump(project, pump),
+                                       f"Import pump curve {file_name}", ("pump", pump_id))
+        if applied:
+            summary = f"Imported {len(pump.flow_m3_s)} points from {file_name}."
+            self.message.emit(" ".join([summary] + [f"Note: {n}." for n in notes]))
+        return applied
+
+    def _add_point(self) -> None:
+        row = self.points_view.current_row()
+        self.points_model.insert_row(row + 1 if row >= 0 else self.points_model.rowCount())
+
+    def _remove_points(self) -> None:
+        rows = {i.row() for i in self.points_view.selectionModel().selectedIndexes()}
+        if not rows and self.points_view.current_row() >= 0:
+            rows = {self.points_view.current_row()}
+        self.points_model.remove_rows(sorted(rows))

@@ -1,0 +1,182 @@
+"""The "Site & fluid" panel: levels, delivery, pump datum, design flow, atmosphere, fluid, friction method.
+
+All elevations are above one common datum of the user's choosing.  Static head is taken
+at both extremes: maximum = highest delivery level − lowest suction level; minimum =
+lowest delivery level − highest suction level.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+
+from hydraulics.atmosphere import standard_atmosphere_pressure
+from hydraulics.fluid import fluid_properties
+from hydraulics.model import PressurisedDelivery, Project, TankDelivery, UserFluid, WaterFluid
+from hydraulics.units import format_quantity
+
+from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
+
+
+def _site(project: Project, **changes) -> Project:
+    return replace(project, site=replace(project.site, **changes))
+
+
+def _delivery(project: Project, **changes) -> Project:
+    return _site(project, delivery=replace(project.site.delivery, **changes))
+
+
+def _fluid(project: Project, **changes) -> Project:
+    return replace(project, fluid=replace(project.fluid, **changes))
+
+
+def _is_tank(project: Project) -> bool:
+    return isinstance(project.site.delivery, TankDelivery)
+
+
+def _is_pressurised(project: Project) -> bool:
+    return isinstance(project.site.delivery, PressurisedDelivery)
+
+
+def _is_water(project: Project) -> bool:
+    return isinstance(project.fluid, WaterFluid)
+
+
+def _is_user_fluid(project: Project) -> bool:
+    return isinstance(project.fluid, UserFluid)
+
+
+def _pressure_given(project: Project) -> bool:
+    return project.site.atmospheric_pressure_pa is not None
+
+
+# ---------------------------------------------------------------------- switching kinds
+def with_delivery_kind(project: Project, kind: str) -> Project:
+    """Switch between an open tank and a pressurised point, keeping the elevation."""
+    delivery = project.site.delivery
+    if kind == "tank" and isinstance(delivery, PressurisedDelivery):
+        return _site(project, delivery=TankDelivery(delivery.elevation_m, delivery.elevation_m))
+    if kind == "pressurised" and isinstance(delivery, TankDelivery):
+        return _site(project, delivery=PressurisedDelivery(elevation_m=delivery.level_high_m, pressure_pa=0.0))
+    return project
+
+
+def with_atmosphere_mode(project: Project, mode: str) -> Project:
+    """Atmospheric pressure from the altitude (standard atmosphere) or given; a given value
+    starts from the standard atmosphere at the site altitude."""
+    if mode == "altitude":
+        return _site(project, atmospheric_pressure_pa=None)
+    if project.site.atmospheric_pressure_pa is None:
+        return _site(project, atmospheric_pressure_pa=float(standard_atmosphere_pressure(project.site.altitude_m)))
+    return project
+
+
+def with_fluid_kind(project: Project, kind: str) -> Project:
+    """Water from temperature, or a user fluid starting from water's properties at that temperature."""
+    fluid = project.fluid
+    if kind == "user" and isinstance(fluid, WaterFluid):
+        water = fluid_properties(fluid)
+        return replace(project, fluid=UserFluid(
+            name="user fluid", density_kg_m3=water.density_kg_m3,
+            kinematic_viscosity_m2_s=water.kinematic_viscosity_m2_s,
+            vapour_pressure_pa=water.vapour_pressure_pa, temperature_c=fluid.temperature_c))
+    if kind == "water" and isinstance(fluid, UserFluid):
+        temperature = min(max(fluid.temperature_c, 0.0), 100.0)
+        return replace(project, fluid=WaterFluid(temperature_c=temperature))
+    return project
+
+
+def _atmosphere_placeholder(document) -> str:
+    solution = document.solution
+    if solution is None:
+        return ""
+    return "standard atmosphere: " + format_quantity(solution.atmospheric_pressure_pa, "pressure", document.unit_system)
+
+
+SECTIONS = (
+    Section("Project", (
+        TextField("name", "Project name", lambda p: p.name, lambda p, v: replace(p, name=v)),
+    )),
+    Section("Suction (source) water level", (
+        NumberField("suction_level_low", "Lowest level", "elevation", "site.level_m",
+                    lambda p: p.site.suction_level_low_m, lambda p, v: _site(p, suction_level_low_m=v),
+                    tooltip="Lowest water level at the source (gives the maximum static head)."),
+        NumberField("suction_level_high", "Highest level", "elevation", "site.level_m",
+                    lambda p: p.site.suction_level_high_m, lambda p, v: _site(p, suction_level_high_m=v),
+                    tooltip="Highest water level at the source (gives the minimum static head)."),
+    ), note="Elevations above one common datum."),
+    Section("Delivery", (
+        ChoiceField("delivery_kind", "Delivers into",
+                    lambda p: [("tank", "an open tank (level varies)"),
+                               ("pressurised", "a pressurised point")],
+                    lambda p: p.site.delivery.kind, with_delivery_kind),
+        NumberField("delivery_level_low", "Lowest level", "elevation", "site.level_m",
+                    lambda p: p.site.delivery.level_low_m, lambda p, v: _delivery(p, level_low_m=v),
+                    visible=_is_tank, tooltip="Lowest water level in the receiving tank."),
+        NumberField("delivery_level_high", "Highest level", "elevation", "site.level_m",
+                    lambda p: p.site.delivery.level_high_m, lambda p, v: _delivery(p, level_high_m=v),
+                    visible=_is_tank, tooltip="Highest (overflow) level in the receiving tank."),
+        NumberField("delivery_elevation", "Point elevation", "elevation", "site.level_m",
+                    lambda p: p.site.delivery.elevation_m, lambda p, v: _delivery(p, elevation_m=v),
+                    visible=_is_pressurised),
+        NumberField("delivery_pressure", "Required pressure (gauge)", "pressure", "site.delivery_pressure_pa",
+                    lambda p: p.site.delivery.pressure_pa, lambda p, v: _delivery(p, pressure_pa=v),
+                    visible=_is_pressurised, tooltip="Gauge pressure needed at the delivery point."),
+    )),
+    Section("Pump and duty", (
+        NumberField("pump_datum", "Pump datum elevation", "elevation", "site.level_m",
+                    lambda p: p.site.pump_datum_m, lambda p, v: _site(p, pump_datum_m=v),
+                    tooltip="Elevation of the pump's NPSH datum (impeller eye centre line)."),
+        NumberField("design_flow", "Design flow", "flow", "site.design_flow_m3_s",
+                    lambda p: p.site.design_flow_m3_s, lambda p, v: _site(p, design_flow_m3_s=v),
+                    tooltip="Station flow the scheme is designed for."),
+    )),
+    Section("Atmosphere", (
+        ChoiceField("atmosphere_mode", "Atmospheric pressure",
+                    lambda p: [("altitude", "from site altitude (standard atmosphere)"),
+                               ("given", "given value")],
+                    lambda p: "given" if p.site.atmospheric_pressure_pa is not None else "altitude",
+                    with_atmosphere_mode),
+        NumberField("altitude", "Site altitude", "elevation", "site.altitude_m",
+                    lambda p: p.site.altitude_m, lambda p, v: _site(p, altitude_m=v),
+                    tooltip="Altitude above sea level, for the standard atmosphere."),
+        NumberField("atmospheric_pressure", "Atmospheric pressure", "pressure", "site.atmospheric_pressure_pa",
+                    lambda p: p.site.atmospheric_pressure_pa, lambda p, v: _site(p, atmospheric_pressure_pa=v),
+                    visible=_pressure_given, placeholder=_atmosphere_placeholder),
+    )),
+    Section("Fluid", (
+        ChoiceField("fluid_kind", "Fluid",
+                    lambda p: [("water", "water (properties from temperature)"),
+                               ("user", "user fluid (properties given)")],
+                    lambda p: p.fluid.kind, with_fluid_kind),
+        NumberField("temperature", "Temperature", "temperature", "fluid.temperature_c",
+                    lambda p: p.fluid.temperature_c, lambda p, v: _fluid(p, temperature_c=v)),
+        TextField("fluid_name", "Fluid name", lambda p: getattr(p.fluid, "name", ""),
+                  lambda p, v: _fluid(p, name=v), visible=_is_user_fluid),
+        NumberField("density", "Density", "density", "fluid.density_kg_m3",
+                    lambda p: getattr(p.fluid, "density_kg_m3", None), lambda p, v: _fluid(p, density_kg_m3=v),
+                    visible=_is_user_fluid),
+        NumberField("kinematic_viscosity", "Kinematic viscosity", "kinematic_viscosity",
+                    "fluid.kinematic_viscosity_m2_s",
+                    lambda p: getattr(p.fluid, "kinematic_viscosity_m2_s", None),
+                    lambda p, v: _fluid(p, kinematic_viscosity_m2_s=v), visible=_is_user_fluid),
+        NumberField("vapour_pressure", "Vapour pressure", "pressure", "fluid.vapour_pressure_pa",
+                    lambda p: getattr(p.fluid, "vapour_pressure_pa", None),
+                    lambda p, v: _fluid(p, vapour_pressure_pa=v), visible=_is_user_fluid),
+    ), note="Water properties follow the IAPWS formulations (0–100 °C)."),
+    Section("Pipe friction", (
+        ChoiceField("friction_method", "Friction method",
+                    lambda p: [("darcy_weisbach", "Darcy–Weisbach with Colebrook–White"),
+                               ("hazen_williams", "Hazen–Williams (water, turbulent)")],
+                    lambda p: p.friction_method, lambda p, v: replace(p, friction_method=v)),
+    )),
+)
+
+
+class SiteFluidPanel(FormPanel):
+    """The "Site & fluid" input panel."""
+
+    def __init__(self, document, parent=None):
+        super().__init__(document, "site", SECTIONS, parent)
+
+
+__all__ = ["SiteFluidPanel", "with_delivery_kind", "with_atmosphere_mode", "with_fluid_kind"]

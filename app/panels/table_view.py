@@ -1,0 +1,126 @@
+"""A table view that moves like a spreadsheet.
+
+* typing starts editing the current cell (the typed text replaces it); F2 or a double
+  click edits the existing text;
+* Enter commits and moves down, Tab commits and moves right (Shift+Tab left); an entry
+  the model refuses keeps the cursor on its cell;
+* Delete clears the selected optional values;
+* copy and paste of cell blocks are driven by the window's Edit actions
+  (see :mod:`app.clipboard`).
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QItemSelectionModel, QModelIndex, Qt, Signal
+from PySide6.QtGui import QKeyEvent
+from PySide6.QtWidgets import QAbstractItemDelegate, QAbstractItemView, QHeaderView, QTableView, QWidget
+
+from app import clipboard
+from app.delegates import ProjectTableDelegate
+
+
+class SpreadsheetView(QTableView):
+    """A :class:`QTableView` over a :class:`~app.table_models.base.ProjectTableModel`.
+
+    ``currentRowChanged(int)`` is emitted when the current row changes (−1 for none).
+    """
+
+    currentRowChanged = Signal(int)
+
+    def __init__(self, parent: QWidget | None = None):
+        super().__init__(parent)
+        self.setItemDelegate(ProjectTableDelegate(self))
+        self.setEditTriggers(QAbstractItemView.EditTrigger.AnyKeyPressed
+                             | QAbstractItemView.EditTrigger.DoubleClicked
+                             | QAbstractItemView.EditTrigger.EditKeyPressed)
+        self.setSelectionBehavior(QAbstractItemView.SelectionBehavior.SelectItems)
+        self.setSelectionMode(QAbstractItemView.SelectionMode.ExtendedSelection)
+        self.setTabKeyNavigation(True)
+        self.setAlternatingRowColors(True)
+        self.setWordWrap(False)
+        header = self.horizontalHeader()
+        header.setDefaultAlignment(Qt.AlignmentFlag.AlignCenter)
+        header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
+        header.setHighlightSections(False)
+        self.verticalHeader().setDefaultSectionSize(self.fontMetrics().height() + 8)
+        self.verticalHeader().setSectionResizeMode(QHeaderView.ResizeMode.Fixed)
+        self._last_row = -1
+        self._refused = False
+
+    def setModel(self, model) -> None:  # noqa: N802 - Qt name
+        super().setModel(model)
+        self.selectionModel().currentRowChanged.connect(self._on_current_row)
+        model.modelReset.connect(self._after_reset)
+        model.rowsInserted.connect(self._after_insert)
+        self.resizeColumnsToContents()
+
+    def _after_reset(self) -> None:
+        self.resizeColumnsToContents()
+        self._on_current_row(self.currentIndex(), QModelIndex())
+
+    def _after_insert(self, _parent: QModelIndex, first: int, _last: int) -> None:
+        if first == 0:
+            self.resizeColumnsToContents()
+
+    def _on_current_row(self, current: QModelIndex, _previous: QModelIndex) -> None:
+        row = current.row() if current.isValid() else -1
+        if row != self._last_row:
+            self._last_row = row
+            self.currentRowChanged.emit(row)
+
+    # ------------------------------------------------------------------ navigation
+    def select_row(self, row: int) -> None:
+        """Make ``row`` current and selected (first column if none is current), and show it."""
+        model = self.model()
+        if model is None or not 0 <= row < model.rowCount():
+            return
+        column = max(self.currentIndex().column(), 0)
+        index = model.index(row, column)
+        self.selectionModel().setCurrentIndex(
+            index, QItemSelectionModel.SelectionFlag.ClearAndSelect | QItemSelectionModel.SelectionFlag.Rows)
+        self.scrollTo(index)
+
+    def current_row(self) -> int:
+        index = self.currentIndex()
+        return index.row() if index.isValid() else -1
+
+    def _move(self, rows: int, columns: int) -> None:
+        model = self.model()
+        current = self.currentIndex()
+        if model is None or not current.isValid():
+            return
+        row = min(max(current.row() + rows, 0), model.rowCount() - 1)
+        column = min(max(current.column() + columns, 0), model.columnCount() - 1)
+        self.setCurrentIndex(model.index(row, column))
+
+    def commitData(self, editor: QWidget) -> None:  # noqa: N802 - Qt name
+        document = getattr(self.model(), "document", None)
+        before = document.refusal_count if document is not None else 0
+        super().commitData(editor)
+        self._refused = document is not None and document.refusal_count != before
+
+    def closeEditor(self, editor: QWidget, hint: QAbstractItemDelegate.EndEditHint) -> None:  # noqa: N802
+        moves = {
+            QAbstractItemDelegate.EndEditHint.SubmitModelCache: (1, 0),
+            QAbstractItemDelegate.EndEditHint.EditNextItem: (0, 1),
+            QAbstractItemDelegate.EndEditHint.EditPreviousItem: (0, -1),
+        }
+        move = moves.get(hint)
+        super().closeEditor(editor, QAbstractItemDelegate.EndEditHint.NoHint)
+        if move is not None and not self._refused:
+            self._move(*move)
+        self._refused = False
+
+    def keyPressEvent(self, event: QKeyEvent) -> None:  # noqa: N802
+        if self.state() != QAbstractItemView.State.EditingState:
+            key = event.key()
+            if key in (Qt.Key.Key_Return, Qt.Key.Key_Enter) and event.modifiers() in (
+                    Qt.KeyboardModifier.NoModifier, Qt.KeyboardModifier.KeypadModifier):
+                self._move(1, 0)
+                event.accept()
+                return
+            if key in (Qt.Key.Key_Delete, Qt.Key.Key_Backspace) and event.modifiers() == Qt.KeyboardModifier.NoModifier:
+                clipboard.clear_selection(self)
+                event.accept()
+                return
+        super().keyPressEvent(event)
