@@ -92,23 +92,26 @@ def profile_findings(project: Project, static_head_min_m: float) -> list[Finding
     optional start and end elevations.
     """
     lowest_delivery = static_head_min_m + project.site.suction_level_high_m
-    out = []
+    crest, crest_index = None, None
     for i, seg in enumerate(project.segments):
         if seg.side != "delivery":
             continue
-        crest = max((e for e in (seg.start_elevation_m, seg.end_elevation_m) if e is not None), default=None)
-        if crest is not None and crest > lowest_delivery:
-            out.append(finding(
-                "warning", "high_point_above_delivery",
-                "The main reaches {crest}, {above} above the lowest delivery level {delivery}: beyond the "
-                "crest it may run partly full or below atmospheric pressure, and at low flow the static "
-                "head to the crest governs.",
-                {"crest": (crest, "elevation"), "above": (crest - lowest_delivery, "head"),
-                 "delivery": (lowest_delivery, "elevation")},
-                f"segment '{seg.name}' (delivery)",
-                "Check the hydraulic grade line over the crest; plan air valves; a surge specialist should "
-                "check column separation.", ("segment", i)))
-    return out
+        for elevation in (seg.start_elevation_m, seg.end_elevation_m):
+            if elevation is not None and (crest is None or elevation > crest):
+                crest, crest_index = elevation, i
+    if crest is None or crest <= lowest_delivery:
+        return []
+    seg = project.segments[crest_index]
+    return [finding(
+        "warning", "high_point_above_delivery",
+        "The main reaches {crest}, {above} above the lowest delivery level {delivery}: beyond the "
+        "crest it may run partly full or below atmospheric pressure, and at low flow the static "
+        "head to the crest governs.",
+        {"crest": (crest, "elevation"), "above": (crest - lowest_delivery, "head"),
+         "delivery": (lowest_delivery, "elevation")},
+        f"segment '{seg.name}' (delivery)",
+        "Check the hydraulic grade line over the crest; plan air valves; a surge specialist should "
+        "check column separation.", ("segment", crest_index))]
 
 
 def regime_findings(at_design: Iterable[SegmentResult]) -> list[Finding]:
