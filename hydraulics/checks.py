@@ -25,8 +25,16 @@ Stable codes (never renamed; scripts and tests rely on them):
 ``outside_allowable``     per-pump flow outside the allowable operating region
 ``unstable_parallel``     head curve rises then falls: unstable in parallel
 ``large_trim``            impeller trim beyond the affinity-law range
-``design_flow_unreachable``  no speed in range delivers the design flow
 ``high_point_above_delivery``  the main rises above the lowest delivery level
+========================  =========================================================
+
+Speed-control codes are raised by :func:`hydraulics.variable_speed.variable_speed_findings`:
+
+========================  =========================================================
+``speed_target_unreachable``  the design flow needs more than the maximum speed
+``speed_below_minimum``   even the minimum speed delivers more than the design flow
+``speed_extrapolated``    the speed found puts the pumps outside their tested data
+``minimum_speed_cannot_lift``  at the minimum speed the pumps cannot lift the static head
 ========================  =========================================================
 """
 

@@ -1,0 +1,132 @@
+"""Every finding is raised by a crafted project and absent from a clean one.
+
+The projects here are invented test data.  Pump curves are exact quadratics
+(H = 50 − 12 000 Q², Q in m³/s) so the duty points are easy to reason about:
+against a static head of 30–32 m and a short main the single pump runs near 37 L/s.
+"""
+
+from dataclasses import replace
+
+import numpy as np
+import pytest
+
+from hydraulics.model import (
+    Arrangement,
+    Criteria,
+    Fitting,
+    Project,
+    PumpModel,
+    Segment,
+    Site,
+    TankDelivery,
+    UserFluid,
+    WaterFluid,
+)
+from hydraulics.solve import solve
+
+FLOWS = tuple(np.linspace(0.0, 0.05, 11))
+
+
+def pump(peak_flow: float = 0.037, flows=FLOWS, rising: bool = False) -> PumpModel:
+    q = np.asarray(flows)
+    head = 50.0 - 12_000.0 * q**2
+    if rising:  # a head curve that rises from shut-off to a peak, then falls
+        head = 46.0 + 400.0 * q - 16_000.0 * q**2
+    efficiency = np.clip(0.80 * (1.0 - ((q - peak_flow) / peak_flow) ** 2), 0.0, None)
+    return PumpModel(pump_id="T1", name="test pump", rated_speed_rpm=1450.0, flow_m3_s=tuple(q),
+                     head_m=tuple(head), efficiency=tuple(efficiency),
+                     npsh_required_m=tuple(2.0 + 600.0 * q**2), efficiency_fit_order=2)
+
+
+def clean_project() -> Project:
+    return Project(
+        name="clean test project",
+        site=Site(suction_level_low_m=10.0, suction_level_high_m=11.0,
+                  delivery=TankDelivery(level_low_m=41.0, level_high_m=42.0),
+                  pump_datum_m=8.0, design_flow_m3_s=0.035),
+        fluid=WaterFluid(15.0),
+        segments=(
+            Segment("suction", "suction", "ductile_iron_cml", 5.0, 0.25,
+                    fittings=(Fitting("entrance_bellmouth"), Fitting("gate_valve_open"))),
+            Segment("main", "delivery", "ductile_iron_cml", 300.0, 0.2,
+                    fittings=(Fitting("swing_check_valve"), Fitting("elbow_90_long_radius", 2), Fitting("exit"))),
+        ),
+        pumps=(pump(),),
+        arrangement=Arrangement("T1", duty_count=1, standby_count=1, min_speed_ratio=0.9, max_speed_ratio=1.0),
+        criteria=Criteria(),
+    )
+
+
+def codes(project: Project) -> set[str]:
+    return {f.code for f in solve(project).findings}
+
+
+def with_segment(project: Project, index: int, **changes) -> Project:
+    segments = list(project.segments)
+    segments[index] = replace(segments[index], **changes)
+    return replace(project, segments=tuple(segments))
+
+
+def test_clean_project_has_no_findings():
+    solution = solve(clean_project())
+    assert [f.code for f in solution.findings] == []
+    assert all(p.found for p in solution.operating_points)
+
+
+CRAFTED = {
+    "velocity_low": lambda p: with_segment(p, 1, internal_diameter_m=0.45),
+    "velocity_high": lambda p: with_segment(p, 0, internal_diameter_m=0.15),
+    "laminar_flow": lambda p: replace(p, fluid=UserFluid("oil", 900.0, 5e-3, 100.0)),
+    "transition_flow": lambda p: replace(p, fluid=UserFluid("syrup", 1000.0, 6.5e-5, 1000.0)),
+    "no_operating_point": lambda p: replace(p, site=replace(p.site, delivery=TankDelivery(55.0, 62.0))),
+    "shutoff_below_static": lambda p: replace(p, site=replace(p.site, delivery=TankDelivery(55.0, 62.0))),
+    "extrapolated_duty": lambda p: replace(p, pumps=(pump(flows=FLOWS[:8]),)),
+    "speed_extrapolated": lambda p: replace(p, pumps=(pump(flows=FLOWS[:7]),)),
+    "npsh_margin_low": lambda p: replace(p, site=replace(p.site, pump_datum_m=17.0)),
+    "npsh_insufficient": lambda p: replace(p, site=replace(p.site, pump_datum_m=19.5)),
+    "outside_preferred": lambda p: replace(p, pumps=(pump(peak_flow=0.030),)),
+    "outside_allowable": lambda p: replace(p, pumps=(pump(peak_flow=0.024),)),
+    "unstable_parallel": lambda p: replace(
+        p, pumps=(pump(rising=True),), arrangement=replace(p.arrangement, duty_count=2)),
+    "large_trim": lambda p: replace(p, arrangement=replace(p.arrangement, trim_ratio=0.8)),
+    "high_point_above_delivery": lambda p: with_segment(p, 1, start_elevation_m=8.0, end_elevation_m=47.0),
+    "speed_target_unreachable": lambda p: replace(p, site=replace(p.site, design_flow_m3_s=0.045)),
+    "speed_below_minimum": lambda p: replace(p, site=replace(p.site, design_flow_m3_s=0.02)),
+    "minimum_speed_cannot_lift": lambda p: replace(p, arrangement=replace(p.arrangement, min_speed_ratio=0.6)),
+}
+
+
+@pytest.mark.parametrize("code", sorted(CRAFTED))
+def test_each_finding_is_raised_by_its_crafted_project(code):
+    assert code in codes(CRAFTED[code](clean_project()))
+
+
+def test_every_documented_code_is_crafted():
+    import hydraulics.checks as checks
+
+    documented = {line.split("``")[1] for line in checks.__doc__.splitlines() if line.startswith("``")}
+    assert documented <= set(CRAFTED)
+
+
+def test_sewage_option_raises_the_minimum_velocity():
+    # 0.2 m main at the clean duty (~37 L/s) runs near 1.1–1.2 m/s; raising the sewage minimum to
+    # 1.3 m/s (an editable criterion) must flag it, while the plain minimum of 0.6 m/s does not.
+    project = clean_project()
+    strict = replace(project, criteria=replace(project.criteria, sewage=True, sewage_velocity_min_m_s=1.3))
+    assert "velocity_low" not in codes(project)
+    assert "velocity_low" in codes(strict)
+
+
+def test_findings_name_where_and_remedy_and_select_a_target():
+    solution = solve(CRAFTED["velocity_low"](clean_project()))
+    finding = next(f for f in solution.findings if f.code == "velocity_low")
+    assert finding.where.startswith("segment 'main'")
+    assert finding.remedy
+    assert finding.target == ("segment", 1)
+    assert finding.severity in ("info", "warning", "critical")
+
+
+def test_no_operating_point_is_a_finding_not_an_exception():
+    solution = solve(CRAFTED["no_operating_point"](clean_project()))
+    assert not any(p.found for p in solution.operating_points if p.static == "max")
+    assert any(f.code == "no_operating_point" and f.severity == "critical" for f in solution.findings)
