@@ -1,0 +1,261 @@
+"""Variable speed: the speed that delivers the design flow, and the lowest speed that still lifts.
+
+For each static extreme and pipe state, with the duty pumps running in parallel, the speed
+ratio s that makes the pump set deliver the target flow Q_t solves
+
+    S (s t)² H_rated(Q_t / (N s t)) = H_system(Q_t)
+
+(affinity laws, :mod:`hydraulics.pump_arrangement`), by the bracketing root finder of
+:mod:`hydraulics.duty_point` over [min_speed_ratio, max_speed_ratio] for all scenarios at
+once.  Outside that range the flow is reported as not achievable, with the reason.
+
+A pump set can only deliver against a static head H_s when its shut-off head exceeds it;
+the shut-off head scales with s², so the lowest speed that still lifts against the maximum
+static head is
+
+    s_lift = √( H_s,max / (S t² H_shut-off) ).
+
+Because the system curve has a static part, a speed change does not move the duty point
+along a parabola through the origin; the operating points at every speed found are
+therefore **re-intersected** with the system curves (:func:`operating_points`), never
+scaled from the full-speed duty point.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from hydraulics.duty_point import bracketed_roots
+from hydraulics.model import Arrangement, ModelError
+from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, OperatingPoint, operating_points
+from hydraulics.pump_arrangement import arrangement_head, rated_equivalent_flow
+from hydraulics.pump_fit import FittedPump
+from hydraulics.results import Finding
+
+__all__ = ["SpeedForFlow", "VariableSpeedResult", "variable_speed", "variable_speed_findings",
+           "minimum_lift_speed_ratio", "SPEED_HEAD_TOLERANCE_M"]
+
+SPEED_HEAD_TOLERANCE_M = 1e-10
+"""The speed is converged until the pump head at the target flow matches the system head to this (m)."""
+
+LIMITED_BY_MAX = "max_speed"
+LIMITED_BY_MIN = "min_speed"
+
+
+@dataclass(frozen=True)
+class SpeedForFlow:
+    """The speed that delivers the target flow in one scenario (``None`` when not achievable).
+
+    ``limit`` is ``"max_speed"`` when the target needs more than the maximum speed ratio,
+    ``"min_speed"`` when even the minimum speed delivers more, else ``None``.
+    ``extrapolated`` is True when one pump's corresponding rated flow at that speed lies
+    outside the tested data.
+    """
+
+    static: str
+    pipe: str
+    pumps_running: int
+    target_flow_m3_s: float
+    system_head_m: float
+    achievable: bool
+    speed_ratio: float | None
+    limit: str | None
+    reason: str | None
+    extrapolated: bool
+
+    def to_json_dict(self) -> dict:
+        return {
+            "static": self.static, "pipe": self.pipe, "pumps_running": self.pumps_running,
+            "target_flow_m3_s": self.target_flow_m3_s, "system_head_m": self.system_head_m,
+            "achievable": self.achievable, "speed_ratio": self.speed_ratio, "limit": self.limit,
+            "reason": self.reason, "extrapolated": self.extrapolated,
+        }
+
+
+@dataclass(frozen=True)
+class VariableSpeedResult:
+    """Speeds for the target flow, the lowest lifting speed, and the points re-intersected there.
+
+    ``points`` are the operating points (every static × pipe × 1..N pumps) at each speed of
+    ``speeds_solved``; ``points_at_minimum_speed`` the same at the arrangement's minimum
+    speed ratio.
+    """
+
+    target_flow_m3_s: float
+    pumps_running: int
+    min_speed_ratio: float
+    max_speed_ratio: float
+    scenarios: tuple[SpeedForFlow, ...]
+    minimum_lift_speed_ratio: float | None
+    minimum_lift_reason: str | None
+    speeds_solved: tuple[float, ...]
+    points: tuple[OperatingPoint, ...]
+    points_at_minimum_speed: tuple[OperatingPoint, ...]
+
+    def scenario(self, static: str, pipe: str) -> SpeedForFlow:
+        """The result for one static extreme and pipe state."""
+        for item in self.scenarios:
+            if item.static == static and item.pipe == pipe:
+                return item
+        raise KeyError((static, pipe))
+
+    def to_json_dict(self) -> dict:
+        return {
+            "target_flow_m3_s": self.target_flow_m3_s,
+            "pumps_running": self.pumps_running,
+            "min_speed_ratio": self.min_speed_ratio,
+            "max_speed_ratio": self.max_speed_ratio,
+            "scenarios": [s.to_json_dict() for s in self.scenarios],
+            "minimum_lift_speed_ratio": self.minimum_lift_speed_ratio,
+            "minimum_lift_reason": self.minimum_lift_reason,
+            "speeds_solved": list(self.speeds_solved),
+            "points": [p.to_json_dict() for p in self.points],
+            "points_at_minimum_speed": [p.to_json_dict() for p in self.points_at_minimum_speed],
+        }
+
+
+def minimum_lift_speed_ratio(shutoff_head_m: float, static_head_max_m: float, series_stages: int = 1,
+                             trim_ratio: float = 1.0) -> float | None:
+    """Lowest speed ratio whose shut-off head reaches the maximum static head.
+
+    s_lift = √( H_s,max / (S t² H_0) ) (affinity law H ∝ s², heads of series stages add).
+    ``None`` when the pump has no positive shut-off head; 0 when there is no static lift.
+
+    >>> minimum_lift_speed_ratio(40.0, 22.5)
+    0.75
+    """
+    if not (math.isfinite(shutoff_head_m) and shutoff_head_m > 0.0):
+        return None
+    if static_head_max_m <= 0.0:
+        return 0.0
+    return math.sqrt(static_head_max_m / (series_stages * trim_ratio**2 * shutoff_head_m))
+
+
+def variable_speed(system, fitted: FittedPump, arrangement: Arrangement, target_flow_m3_s: float,
+                   npsh_static_head_m: float | None = None, density_kg_m3: float | None = None) -> VariableSpeedResult:
+    """Speed ratios that deliver ``target_flow_m3_s`` with the duty pumps, per static extreme and pipe state.
+
+    Parameters
+    ----------
+    system
+        A :class:`hydraulics.system_curve.SystemHydraulics` (or an object with the same methods).
+    fitted : FittedPump
+    arrangement : Arrangement
+        ``duty_count`` pumps run; speeds are searched in [min_speed_ratio, max_speed_ratio].
+    target_flow_m3_s : float
+        Station flow to deliver (m³/s), normally the design flow.
+    npsh_static_head_m, density_kg_m3
+        Passed to :func:`~hydraulics.operating_points.operating_points` for the
+        re-intersected points (density defaults to the one the pump was fitted with).
+    """
+    if not (math.isfinite(target_flow_m3_s) and target_flow_m3_s > 0.0):
+        raise ModelError("site.design_flow_m3_s", "must be a positive flow", target_flow_m3_s)
+    s_lo, s_hi = float(arrangement.min_speed_ratio), float(arrangement.max_speed_ratio)
+    if not (0.0 < s_lo <= s_hi):
+        raise ModelError("arrangement.min_speed_ratio",
+                         "must be positive and not above the maximum speed ratio", s_lo)
+    density = fitted.density_kg_m3 if density_kg_m3 is None else float(density_kg_m3)
+    n = int(arrangement.duty_count)
+    stages, trim = int(arrangement.series_stages), float(arrangement.trim_ratio)
+
+    labels = [(static, pipe) for static in STATIC_CASES for pipe in PIPE_STATES]
+    statics = np.array([system.static_head_m[static] for static, _ in labels], dtype=float)
+    aged = np.array([pipe == "aged" for _, pipe in labels], dtype=bool)
+    q = np.full(len(labels), float(target_flow_m3_s))
+    h_system = np.asarray(system.head(q, statics, aged), dtype=float)
+
+    def excess(s):
+        return arrangement_head(fitted, q, n, stages, s, trim) - h_system
+
+    lo, hi = np.full(q.shape, s_lo), np.full(q.shape, s_hi)
+    g_lo, g_hi = excess(lo), excess(hi)
+    too_much = g_lo > 0.0   # even the slowest speed delivers more than the target
+    too_little = g_hi < 0.0  # even the fastest speed delivers less
+    roots = bracketed_roots(excess, lo, hi, g_lo, g_hi, active=~too_much & ~too_little,
+                            ftol=SPEED_HEAD_TOLERANCE_M)
+    achievable = roots.converged & ~too_much & ~too_little
+    speed = np.where(achievable, roots.x, np.nan)
+    extrapolated = achievable & fitted.is_extrapolated(
+        rated_equivalent_flow(q, n, np.where(achievable, speed, 1.0), trim))
+
+    scenarios = []
+    for i, (static, pipe) in enumerate(labels):
+        if achievable[i]:
+            limit, reason = None, None
+        elif too_little[i]:
+            limit = LIMITED_BY_MAX
+            reason = (f"the duty pumps cannot deliver the target flow even at the maximum speed ratio "
+                      f"{s_hi * 100:.0f} %")
+        elif too_much[i]:
+            limit = LIMITED_BY_MIN
+            reason = (f"even at the minimum speed ratio {s_lo * 100:.0f} % the duty pumps deliver more than "
+                      "the target flow")
+        else:
+            limit, reason = None, "no speed found (the pump head does not vary steadily with speed)"
+        scenarios.append(SpeedForFlow(
+            static=static, pipe=pipe, pumps_running=n, target_flow_m3_s=float(target_flow_m3_s),
+            system_head_m=float(h_system[i]), achievable=bool(achievable[i]),
+            speed_ratio=float(speed[i]) if achievable[i] else None, limit=limit, reason=reason,
+            extrapolated=bool(extrapolated[i]),
+        ))
+
+    s_lift = minimum_lift_speed_ratio(fitted.shutoff_head_m, float(system.static_head_m["max"]), stages, trim)
+    lift_reason = None if s_lift is not None else "the fitted head curve has no positive shut-off head"
+
+    speeds = tuple(sorted({float(s) for s in speed[achievable].tolist()}, reverse=True))
+    points = operating_points(system, fitted, arrangement, npsh_static_head_m, density, speed_ratios=speeds) \
+        if speeds else ()
+    at_min = operating_points(system, fitted, arrangement, npsh_static_head_m, density, speed_ratios=(s_lo,))
+    return VariableSpeedResult(
+        target_flow_m3_s=float(target_flow_m3_s), pumps_running=n, min_speed_ratio=s_lo, max_speed_ratio=s_hi,
+        scenarios=tuple(scenarios), minimum_lift_speed_ratio=s_lift, minimum_lift_reason=lift_reason,
+        speeds_solved=speeds, points=points, points_at_minimum_speed=at_min,
+    )
+
+
+def variable_speed_findings(result: VariableSpeedResult, fitted: FittedPump) -> list[Finding]:
+    """Findings about speed control.
+
+    Codes: ``speed_target_unreachable`` (warning: the target flow needs more than the
+    maximum speed), ``speed_below_minimum`` (info: even the minimum speed delivers more
+    than the target), ``speed_extrapolated`` (warning: the speed found puts the pumps
+    outside their tested data), ``minimum_speed_cannot_lift`` (warning: at the drive's
+    minimum speed the pumps cannot lift against the maximum static head).
+    """
+    pump = fitted.pump
+    where = f"pump '{pump.name}'"
+    target = ("pump", pump.pump_id)
+    flow_l_s = result.target_flow_m3_s * 1000.0
+    out: list[Finding] = []
+    for item in result.scenarios:
+        label = f"{item.static} static, {item.pipe} pipe"
+        if item.limit == LIMITED_BY_MAX:
+            out.append(Finding(
+                "warning", "speed_target_unreachable",
+                f"With {item.pumps_running} duty pump(s) the target flow {flow_l_s:.1f} L/s needs more than the "
+                f"maximum speed ratio {result.max_speed_ratio * 100:.0f} % at {label}.",
+                f"{where}, {label}", "Choose a larger pump, more duty pumps or a higher maximum speed.", target))
+        elif item.limit == LIMITED_BY_MIN:
+            out.append(Finding(
+                "info", "speed_below_minimum",
+                f"At {label} even the minimum speed ratio {result.min_speed_ratio * 100:.0f} % delivers more than "
+                f"the target flow {flow_l_s:.1f} L/s.",
+                f"{where}, {label}", "Lower the minimum speed if the pump allows it, or accept the higher flow.",
+                target))
+        elif item.achievable and item.extrapolated:
+            out.append(Finding(
+                "warning", "speed_extrapolated",
+                f"At {label} the speed ratio {item.speed_ratio * 100:.1f} % puts each pump outside its tested "
+                "flow range; the fitted curve is extrapolated.",
+                f"{where}, {label}", "Obtain pump data covering this flow, or change the selection.", target))
+    s_lift = result.minimum_lift_speed_ratio
+    if s_lift is not None and result.min_speed_ratio < s_lift:
+        out.append(Finding(
+            "warning", "minimum_speed_cannot_lift",
+            f"At the minimum speed ratio {result.min_speed_ratio * 100:.0f} % the shut-off head is below the "
+            f"maximum static head; the pumps need at least {s_lift * 100:.1f} % to deliver at all.",
+            where, f"Set the minimum speed above {s_lift * 100:.0f} % with a margin for a stable flow.", target))
+    return out
