@@ -1,7 +1,7 @@
 """Identical pumps in parallel and in series, at reduced speed or with a trimmed impeller.
 
 Affinity laws (similarity of a pump with itself at another speed; e.g. Karassik et al.,
-*Pump Handbook*, 4th ed., ch. 2; Gülich, *Centrifugal Pumps*, 3rd ed., §3.4): for a speed
+*Pump Handbook*, 4th ed., ch. 2; Gülich, *Centrifugal Pumps*, 3rd ed., ch. 3): for a speed
 ratio s = n / n_rated, at corresponding points
 
     Q = s Q_rated,   H = s² H_rated,   P = s³ P_rated,   η = η_rated.
@@ -30,6 +30,7 @@ that broadcast against each other (one value per scenario).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -163,8 +164,8 @@ class PumpCurve:
     preferred_flow_max_m3_s: float | None
 
     def to_json_dict(self) -> dict:
-        def listed(a):
-            return None if a is None else [float(v) for v in a]
+        def listed(a):  # NaN (undefined, e.g. derived power at shut-off) becomes None
+            return None if a is None else [v if math.isfinite(v) else None for v in np.asarray(a, float).tolist()]
 
         return {
             "pumps_running": self.pumps_running, "series_stages": self.series_stages,

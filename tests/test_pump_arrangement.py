@@ -127,3 +127,10 @@ def test_arrangement_curve_without_efficiency():
     assert curve.bep_flow_m3_s is None and curve.preferred_flow_min_m3_s is None
     data = curve.to_json_dict()
     assert data["efficiency"] is None and len(data["head_m"]) == 101
+
+
+def test_curve_json_has_none_where_power_is_undefined():
+    eta = lambda q: 40.0 * q - 400.0 * q * q  # noqa: E731 - zero efficiency at shut-off: power undefined there
+    curve = arrangement_curve(fit_pump(quadratic_pump(A, B, q_max=0.05, n_points=6, efficiency=eta), RHO), 1)
+    data = json.loads(json.dumps(curve.to_json_dict(), allow_nan=False))
+    assert data["shaft_power_w"][0] is None and data["shaft_power_w"][50] is not None
