@@ -124,9 +124,51 @@ class SystemHydraulics:
                                        self.kinematic_viscosity_m2_s, self.parallel_pipes)
 
     def losses(self, flow_m3_s, aged) -> tuple[np.ndarray, np.ndarray]:
-        """Total friction and total minor loss over all segments (shape ``S``)."""
-        fric, minor = self.segment_losses(flow_m3_s, aged)
-        return fric.sum(axis=-1), minor.sum(axis=-1)
+        """Total friction and total minor loss over all segments (shape ``S``).
+
+        The sums over segments are taken without forming per-segment losses:
+        with the velocity per unit flow c_i = 1 / (n_i π D_i²/4), v_i = c_i Q, so
+
+        * Darcy–Weisbach: Σ f_i (L_i/D_i) v_i²/2g = (Q|Q|/2g) · Σ_i f_i c_i² L_i/D_i,
+          one matrix–vector product over the (flows × segments) friction factors;
+        * Hazen–Williams: Σ 10.67 L_i (Q/n_i)^1.852 / (C_i^1.852 D_i^4.8704)
+          = Q^1.852 · Σ_i (per-segment constant), no per-element work;
+        * minor losses: Σ K_i v_i²/2g = (Q|Q|/2g) · Σ_i K_i c_i².
+
+        Mixed ``aged`` arrays evaluate both pipe states and select.
+        """
+        q = np.asarray(flow_m3_s, dtype=float)
+        aged = np.asarray(aged, dtype=bool)
+        q, aged = np.broadcast_arrays(q, aged)
+        if aged.size and aged.all():
+            return self._total_losses(q, True)
+        if not aged.any():
+            return self._total_losses(q, False)
+        fric_new, minor = self._total_losses(q, False)
+        fric_aged, _ = self._total_losses(q, True)
+        return np.where(aged, fric_aged, fric_new), minor
+
+    def _velocity_per_flow(self) -> np.ndarray:
+        return 1.0 / (self.parallel_pipes * (np.pi / 4.0) * self.diameter_m**2)
+
+    def _total_losses(self, q: np.ndarray, aged: bool) -> tuple[np.ndarray, np.ndarray]:
+        flat = np.ravel(q)
+        c = self._velocity_per_flow()
+        q_abs_q = flat * np.abs(flat) / (2.0 * G)
+        minor = q_abs_q * float(np.dot(self.k_total, c * c))
+        if self.method == "hazen_williams":
+            c_hw = self.hw_c_aged if aged else self.hw_c_new
+            per_segment = (friction.HAZEN_WILLIAMS_SI_CONSTANT * self.length_m
+                           / (c_hw**friction.HAZEN_WILLIAMS_FLOW_EXPONENT
+                              * self.diameter_m**friction.HAZEN_WILLIAMS_DIAMETER_EXPONENT
+                              * self.parallel_pipes**friction.HAZEN_WILLIAMS_FLOW_EXPONENT))
+            fric = np.sign(flat) * np.abs(flat) ** friction.HAZEN_WILLIAMS_FLOW_EXPONENT * per_segment.sum()
+        else:
+            eps = self.roughness_aged_m if aged else self.roughness_new_m
+            reynolds = np.abs(flat)[:, None] * (c * self.diameter_m / self.kinematic_viscosity_m2_s)
+            f = friction.darcy_friction_factor_checked(reynolds, eps / self.diameter_m)
+            fric = q_abs_q * (f @ (c * c * self.length_m / self.diameter_m))
+        return fric.reshape(q.shape), minor.reshape(q.shape)
 
     def head(self, flow_m3_s, static_m, aged) -> np.ndarray:
         """Total system head H = H_static + h_friction + h_minor, elementwise."""
