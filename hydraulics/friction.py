@@ -378,8 +378,10 @@ def darcy_friction_factor(reynolds: ArrayLike, relative_roughness: ArrayLike) ->
     * Re = 0: 0.0.  There is no flow and no loss; returning 0 (not NaN or ∞) keeps
       f·v² = 0 at the start of a flow grid.
     * 0 < Re <= :data:`LAMINAR_LIMIT_RE` (2000): Hagen–Poiseuille, f = 64/Re.
-    * Re >= :data:`TURBULENT_LIMIT_RE` (4000): Colebrook–White
-      (:func:`colebrook_friction_factor`).
+    * Re >= :data:`TURBULENT_LIMIT_RE` (4000): Colebrook–White, solved by Clamond's
+      (2009) method (:func:`colebrook_fast`), which reaches machine precision everywhere
+      and is several times cheaper than the Lambert W form; the tests hold it equal to
+      the exact Lambert W closed form (:func:`colebrook_friction_factor`) to 1e-12.
     * 2000 < Re < 4000 (transition): **no published law is exact here** — the flow
       switches intermittently between laminar and turbulent.  PumpSketch interpolates
       linearly in Re between the laminar value 64/2000 = 0.032 at Re = 2000 and the
