@@ -10,6 +10,8 @@ pumps, variable speed, NPSH, energy and the checks.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from hydraulics import checks
@@ -107,7 +109,9 @@ def _solve_pumps(project: Project, system, fluid, p_atm: float) -> dict:
     speed = variable_speed(system, fitted, arrangement, project.site.design_flow_m3_s,
                            npsh_static_head_m=npsh_static, density_kg_m3=fluid.density_kg_m3)
     curves = tuple(
-        arrangement_curve(fitted, n, arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio)
+        arrangement_curve(fitted, n, arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
+                          preferred_region=(project.criteria.preferred_region_low,
+                                            project.criteria.preferred_region_high))
         for n in range(1, arrangement.duty_count + 1)
     )
     energy = annual_energy(points, project.energy, project.site.design_flow_m3_s)
@@ -120,15 +124,19 @@ def _solve_pumps(project: Project, system, fluid, p_atm: float) -> dict:
     }
 
 
+@dataclass(frozen=True, eq=False)
 class NpshCurve:
-    """NPSH available against flow for new and aged pipe, and NPSH required of one pump."""
+    """NPSH available against station flow (new and aged pipe), and NPSH required.
 
-    def __init__(self, flow_m3_s, available_new_m, available_aged_m, required_flow_m3_s, required_m):
-        self.flow_m3_s = flow_m3_s
-        self.available_new_m = available_new_m
-        self.available_aged_m = available_aged_m
-        self.required_flow_m3_s = required_flow_m3_s
-        self.required_m = required_m
+    ``required_flow_m3_s``/``required_m`` are those of one pump at the current speed
+    (the first pump curve), for comparison per pump.
+    """
+
+    flow_m3_s: np.ndarray
+    available_new_m: np.ndarray
+    available_aged_m: np.ndarray
+    required_flow_m3_s: np.ndarray
+    required_m: np.ndarray | None
 
 
 def _npsh_curve(system, pump_part, flows) -> NpshCurve:
