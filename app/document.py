@@ -43,7 +43,10 @@ class ProjectDocument(QObject):
     Signals
     -------
     projectChanged()
-        The project was replaced (an edit, undo, redo, open or new).
+        The project changed (an edit, undo, redo, open or new).
+    projectReplaced()
+        A different project was opened or started (emitted before ``projectChanged``);
+        tables reset rather than follow row by row.
     solutionChanged(object)
         A fresh :class:`~hydraulics.results.Solution` of the current project.
     solveFailed(str)
@@ -60,6 +63,7 @@ class ProjectDocument(QObject):
     """
 
     projectChanged = Signal()
+    projectReplaced = Signal()
     solutionChanged = Signal(object)
     solveFailed = Signal(str)
     unitSystemChanged = Signal(str)
@@ -172,6 +176,7 @@ class ProjectDocument(QObject):
         self._file_path = Path(path).resolve() if path is not None else None
         self.undo_stack.clear()
         self.undo_stack.setClean()
+        self.projectReplaced.emit()
         self.projectChanged.emit()
         self.fileStateChanged.emit()
         self.schedule_recompute()

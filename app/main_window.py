@@ -80,7 +80,7 @@ class MainWindow(QMainWindow):
         self.resize(1400, 900)
         if remember_layout:
             self._restore_state()
-        self.document.recompute_now()
+        self.document.schedule_recompute()
 
     # ------------------------------------------------------------------ assembly
     def _build_widgets(self) -> None:

@@ -35,8 +35,19 @@ Setter = Callable[[Project, Any], Project]
 Condition = Callable[[Project], bool]
 
 
+LABEL_WIDTH = 190
+"""Width of the field labels, the same in every group so the fields line up."""
+
+
 def _always(_project: Project) -> bool:
     return True
+
+
+def _label(text: str) -> QLabel:
+    label = QLabel(text)
+    label.setMinimumWidth(LABEL_WIDTH)
+    label.setWordWrap(True)
+    return label
 
 
 @dataclass(frozen=True)
@@ -168,25 +179,25 @@ class FormPanel(QWidget):
             box.setContentsMargins(0, 0, 0, 0)
             box.addWidget(editor, 1)
             box.addWidget(unit)
-            form.addRow(spec.label, row)
+            form.addRow(_label(spec.label), row)
             self._bound[spec.key] = _Bound(spec, editor, row, form, unit)
         elif isinstance(spec, ChoiceField):
             editor = QComboBox()
             editor.setObjectName(f"field_{spec.key}")
             editor.activated.connect(lambda i, s=spec: self._commit_choice(s, i))
-            form.addRow(spec.label, editor)
+            form.addRow(_label(spec.label), editor)
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
         elif isinstance(spec, CheckField):
             editor = QCheckBox(spec.label)
             editor.setObjectName(f"field_{spec.key}")
             editor.clicked.connect(lambda checked, s=spec: self._commit(s, bool(checked)))
-            form.addRow("", editor)
+            form.addRow(_label(""), editor)
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
         else:
             editor = QLineEdit()
             editor.setObjectName(f"field_{spec.key}")
             editor.editingFinished.connect(lambda s=spec: self._commit_text(s))
-            form.addRow(spec.label, editor)
+            form.addRow(_label(spec.label), editor)
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
         editor.setToolTip(spec.tooltip)
 

@@ -142,6 +142,7 @@ class PipeworkPanel(QWidget):
         splitter.setStretchFactor(1, 2)
 
         self.segments_view.currentRowChanged.connect(self._on_segment_selected)
+        self.segments_model.modelReset.connect(lambda: self.select_segment(0))
         document.projectChanged.connect(self._refresh_selected)
         document.unitSystemChanged.connect(self._refresh_selected)
         self.select_segment(0)

@@ -19,6 +19,10 @@ from app import clipboard
 from app.delegates import ProjectTableDelegate
 
 
+MAX_COLUMN_WIDTH = 230
+"""Widest a column grows when sized to its contents (px); long names show in full as tooltips."""
+
+
 class SpreadsheetView(QTableView):
     """A :class:`QTableView` over a :class:`~app.table_models.base.ProjectTableModel`.
 
@@ -52,15 +56,21 @@ class SpreadsheetView(QTableView):
         self.selectionModel().currentRowChanged.connect(self._on_current_row)
         model.modelReset.connect(self._after_reset)
         model.rowsInserted.connect(self._after_insert)
+        self.fit_columns()
+
+    def fit_columns(self) -> None:
+        """Size the columns to their contents, none wider than :data:`MAX_COLUMN_WIDTH`."""
         self.resizeColumnsToContents()
+        for column in range(self.horizontalHeader().count()):
+            if self.columnWidth(column) > MAX_COLUMN_WIDTH:
+                self.setColumnWidth(column, MAX_COLUMN_WIDTH)
 
     def _after_reset(self) -> None:
-        self.resizeColumnsToContents()
+        self.fit_columns()
         self._on_current_row(self.currentIndex(), QModelIndex())
 
-    def _after_insert(self, _parent: QModelIndex, first: int, _last: int) -> None:
-        if first == 0:
-            self.resizeColumnsToContents()
+    def _after_insert(self, _parent: QModelIndex, _first: int, _last: int) -> None:
+        self.fit_columns()
 
     def _on_current_row(self, current: QModelIndex, _previous: QModelIndex) -> None:
         row = current.row() if current.isValid() else -1

@@ -75,6 +75,7 @@ class ProjectTableModel(QAbstractTableModel):
         self._project: Project = document.project
         self._row_count = self._count(self._project)
         self._columns: tuple[Column, ...] = self.columns_for(self._project)
+        document.projectReplaced.connect(self.reset)
         document.projectChanged.connect(self.refresh)
         document.unitSystemChanged.connect(self._on_units_changed)
 
@@ -168,26 +169,45 @@ class ProjectTableModel(QAbstractTableModel):
         raise KeyError(key)
 
     def refresh(self) -> None:
-        """Follow the document's project: announce added/removed rows, then changed cells."""
+        """Follow the document's project with the precise row signals.
+
+        A pure insertion or removal of rows (the other rows unchanged, as for insert,
+        delete and their undo) is announced as such, so views keep their selection; a
+        change of row count together with other rows changing (a paste that adds rows)
+        resets the model; otherwise the cells are announced as changed.
+        """
         project = self._document.project
         columns = self.columns_for(project)
         if columns != self._columns:
-            self.beginResetModel()
-            self._project = project
-            self._columns = columns
-            self._row_count = self._count(project)
-            self.endResetModel()
+            self.reset()
             return
-        new_count = self._count(project)
-        if new_count > self._row_count:
-            self.beginInsertRows(QModelIndex(), self._row_count, new_count - 1)
-            self._project = project
-            self._row_count = new_count
+        old = tuple(self.items(self._project)) if self._row_count else ()
+        new = tuple(self.items(project))
+        if len(old) != self._row_count:
+            self.reset()
+            return
+        prefix = 0
+        while prefix < min(len(old), len(new)) and old[prefix] == new[prefix]:
+            prefix += 1
+        suffix = 0
+        while (suffix < min(len(old), len(new)) - prefix
+               and old[len(old) - 1 - suffix] == new[len(new) - 1 - suffix]):
+            suffix += 1
+        old_middle = len(old) - prefix - suffix
+        new_middle = len(new) - prefix - suffix
+        if len(new) > len(old):
+            if old_middle:
+                self.reset()
+                return
+            self.beginInsertRows(QModelIndex(), prefix, prefix + new_middle - 1)
+            self._project, self._row_count = project, len(new)
             self.endInsertRows()
-        elif new_count < self._row_count:
-            self.beginRemoveRows(QModelIndex(), new_count, self._row_count - 1)
-            self._project = project
-            self._row_count = new_count
+        elif len(new) < len(old):
+            if new_middle:
+                self.reset()
+                return
+            self.beginRemoveRows(QModelIndex(), prefix, prefix + old_middle - 1)
+            self._project, self._row_count = project, len(new)
             self.endRemoveRows()
         self._project = project
         if self._row_count and self._columns:
@@ -316,6 +336,8 @@ class ProjectTableModel(QAbstractTableModel):
         return str(self.edit_value(self._project, row, column) or "")
 
     def cell_tooltip(self, project: Project, row: int, column: Column) -> str | None:
+        if column.kind in ("text", "choice"):
+            return self.display(project, row, column) or None
         if column.optional and self.value(project, row, column) is None:
             hint = self.derived_hint(project, row, column)
             if hint is not None:

@@ -18,7 +18,7 @@ from hydraulics.validation import LIMITS, Limit
 EDIT_DIGITS = 10
 """Significant digits put in an editor: enough that re-entering the text changes nothing."""
 
-DISPLAY_DIGITS = 6
+DISPLAY_DIGITS = 5
 """Significant digits shown in a cell (11.811 in, 204.2 mm, 1250.5 m)."""
 
 SAME_VALUE_TOLERANCE = 1e-9
@@ -97,8 +97,8 @@ def parse_value(text: object, *, label: str, quantity: str, limit_key: str, syst
     >>> parse_value("300 mm", label="Internal diameter", quantity="diameter",
     ...             limit_key="segment.internal_diameter_m", system="SI")
     0.3
-    >>> parse_value("12", label="Internal diameter", quantity="diameter",
-    ...             limit_key="segment.internal_diameter_m", system="US")
+    >>> round(parse_value("12", label="Internal diameter", quantity="diameter",
+    ...             limit_key="segment.internal_diameter_m", system="US"), 12)
     0.3048
     >>> parse_value("-5 m", label="Length", quantity="length", limit_key="segment.length_m", system="SI")
     Traceback (most recent call last):

@@ -118,7 +118,8 @@ class FittingsModel(ProjectTableModel):
 
     def cell_tooltip(self, project: Project, row: int, column: Column) -> str | None:
         if column.key in ("fitting_id", "catalogue_k"):
-            return choices.fitting_source(self.items(project)[row].fitting_id)
+            name = self.display(project, row, self.table_columns[0])
+            return f"{name}: {choices.fitting_source(self.items(project)[row].fitting_id)}"
         return super().cell_tooltip(project, row, column)
 
     def with_value(self, project: Project, row: int, column: Column, value: Any) -> Project:

@@ -1,0 +1,98 @@
+"""Fixtures of the window tests: isolated settings, a clean clipboard, answered dialogs.
+
+* Every test gets its own QSettings INI folder, so the unit system and the recent
+  files of one test never leak into another (or into the user's own settings).
+* The clipboard is cleared after each test (a clipboard holding data at exit has
+  crashed offscreen Qt).
+* ``window`` is a main window on a sample project whose questions (save changes? which
+  file?) are answered by a :class:`Dialogs` recorder instead of modal boxes.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+from PySide6.QtCore import QSettings
+from PySide6.QtWidgets import QApplication
+
+from app.document import ProjectDocument
+from app.main_window import MainWindow
+
+SAMPLE_DIR = Path(__file__).resolve().parents[2] / "sample_projects"
+SAMPLE_PATHS = sorted(SAMPLE_DIR.glob("*.pumpsketch.json"))
+HILLTOP = SAMPLE_DIR / "hilltop_booster.pumpsketch.json"
+"""The sample most tests use: three segments with pipe series, one pump with efficiency and NPSH data."""
+
+
+@pytest.fixture(autouse=True)
+def isolated_settings(tmp_path):
+    """Point the application's INI settings at a folder of this test."""
+    folder = tmp_path / "settings"
+    folder.mkdir()
+    QSettings.setPath(QSettings.Format.IniFormat, QSettings.Scope.UserScope, str(folder))
+    yield folder
+
+
+@pytest.fixture(autouse=True)
+def clean_clipboard(qapp):
+    """Clear the clipboard when the test ends."""
+    yield
+    QApplication.clipboard().clear()
+
+
+class Dialogs:
+    """Answers the window's questions and records what it asked and reported."""
+
+    def __init__(self):
+        self.save_answer = "discard"
+        self.open_path = ""
+        self.save_path = ""
+        self.save_questions = 0
+        self.errors: list[tuple[str, str]] = []
+        self.information: list[tuple[str, str]] = []
+
+    def install(self, monkeypatch, window: MainWindow) -> None:
+        monkeypatch.setattr(window, "ask_save_changes", self._ask_save_changes)
+        monkeypatch.setattr(window, "ask_open_path", lambda: str(self.open_path))
+        monkeypatch.setattr(window, "ask_save_path", lambda: str(self.save_path))
+        monkeypatch.setattr(window, "show_error", lambda title, text: self.errors.append((title, text)))
+        monkeypatch.setattr(window, "show_information",
+                            lambda title, text: self.information.append((title, text)))
+
+    def _ask_save_changes(self) -> str:
+        self.save_questions += 1
+        return self.save_answer
+
+
+@pytest.fixture
+def dialogs() -> Dialogs:
+    return Dialogs()
+
+
+@pytest.fixture
+def make_window(qtbot, monkeypatch, dialogs):
+    """Build main windows with answered dialogs: ``make_window(path=None, units="SI")``."""
+
+    def build(path: Path | None = HILLTOP, units: str = "SI") -> MainWindow:
+        window = MainWindow(ProjectDocument(unit_system=units), remember_layout=False)
+        qtbot.addWidget(window)
+        dialogs.install(monkeypatch, window)
+        if path is not None:
+            assert window.files.open_path(path, ask=False), dialogs.errors
+        window.document.recompute_now()
+        return window
+
+    return build
+
+
+@pytest.fixture
+def window(make_window) -> MainWindow:
+    """A main window on the hilltop booster sample, solved."""
+    return make_window()
+
+
+@pytest.fixture
+def document(window) -> ProjectDocument:
+    return window.document
+
