@@ -66,9 +66,18 @@ class _Reader:
 
     # ---- primitive accessors -------------------------------------------------
     @staticmethod
-    def obj(node: Any, path: str) -> dict:
+    def obj(node: Any, path: str, known: frozenset[str] | None = None) -> dict:
+        """``node`` as an object; with ``known``, refuse keys the format does not have.
+
+        A misspelt key would otherwise be ignored silently and its value lost.
+        """
         if not isinstance(node, dict):
             raise ProjectFileError(path, f"expected an object, got {_kind(node)}")
+        if known is not None:
+            for key in node:
+                if key not in known:
+                    raise ProjectFileError(_join(path, key), "unknown field (misspelt?); allowed: "
+                                                             + ", ".join(sorted(known)))
         return node
 
     def get(self, node: dict, key: str, path: str, required: bool = True) -> Any:
@@ -150,7 +159,7 @@ class _Reader:
 
     # ---- sections ----------------------------------------------------------
     def fluid(self, node: Any, path: str = "fluid") -> WaterFluid | UserFluid:
-        node = self.obj(node, path)
+        node = self.obj(node, path, frozenset({"kind", "temperature", "name", "density", "kinematic_viscosity", "vapour_pressure"}))
         kind = self.text(node, "kind", path)
         if kind == "water":
             return WaterFluid(temperature_c=self.quantity(node, "temperature", path, "temperature"))
@@ -165,10 +174,11 @@ class _Reader:
         raise ProjectFileError(_join(path, "kind"), f"must be 'water' or 'user', got {kind!r}")
 
     def site(self, node: Any, path: str = "site") -> Site:
-        node = self.obj(node, path)
-        suction = self.obj(self.get(node, "suction", path), _join(path, "suction"))
+        node = self.obj(node, path, frozenset({"altitude", "atmospheric_pressure", "suction", "delivery", "pump_datum", "design_flow"}))
+        suction = self.obj(self.get(node, "suction", path), _join(path, "suction"), frozenset({"level_low", "level_high"}))
         spath = _join(path, "suction")
-        delivery_node = self.obj(self.get(node, "delivery", path), _join(path, "delivery"))
+        delivery_node = self.obj(self.get(node, "delivery", path), _join(path, "delivery"),
+                                 frozenset({"kind", "level_low", "level_high", "elevation", "pressure"}))
         dpath = _join(path, "delivery")
         kind = self.text(delivery_node, "kind", dpath)
         if kind == "tank":
@@ -194,7 +204,7 @@ class _Reader:
         )
 
     def fitting(self, node: Any, path: str) -> Fitting:
-        node = self.obj(node, path)
+        node = self.obj(node, path, frozenset({"type", "count", "k_override"}))
         return Fitting(
             fitting_id=self.text(node, "type", path),
             count=self.integer(node, "count", path, default=1),
@@ -202,7 +212,7 @@ class _Reader:
         )
 
     def segment(self, node: Any, path: str) -> Segment:
-        node = self.obj(node, path)
+        node = self.obj(node, path, frozenset({"name", "side", "material", "pipe_series", "nominal_size", "internal_diameter", "length", "start_elevation", "end_elevation", "parallel_pipes", "roughness_new", "roughness_aged", "hw_c_new", "hw_c_aged", "fittings"}))
         series_id = self.optional_text(node, "pipe_series", path)
         nominal = self.optional_text(node, "nominal_size", path)
         if (series_id is None) != (nominal is None):
@@ -235,17 +245,17 @@ class _Reader:
         )
 
     def pump(self, node: Any, path: str) -> PumpModel:
-        node = self.obj(node, path)
+        node = self.obj(node, path, frozenset({"id", "name", "rated_speed", "impeller_diameter", "fit_orders", "notes", "points", "source_csv"}))
         pump_id = self.text(node, "id", path)
         name = self.text(node, "name", path, default=pump_id)
         rated_speed = self.quantity(node, "rated_speed", path, "speed", required=False)
-        orders = self.obj(node.get("fit_orders") or {}, _join(path, "fit_orders"))
+        orders = self.obj(node.get("fit_orders") or {}, _join(path, "fit_orders"), frozenset({"head", "efficiency", "power"}))
         opath = _join(path, "fit_orders")
         points_node = node.get("points")
         source_csv = self.optional_text(node, "source_csv", path)
         if points_node is not None:
             ppath = _join(path, "points")
-            points = self.obj(points_node, ppath)
+            points = self.obj(points_node, ppath, frozenset({"flow", "head", "efficiency", "shaft_power", "npsh_required"}))
             columns = {
                 "flow_m3_s": self.quantity_list(points, "flow", ppath, "flow"),
                 "head_m": self.quantity_list(points, "head", ppath, "head"),
@@ -297,7 +307,7 @@ class _Reader:
             raise ProjectFileError(path, f"pump data file {relative}: {exc}") from None
 
     def arrangement(self, node: Any, path: str = "arrangement") -> Arrangement:
-        node = self.obj(node, path)
+        node = self.obj(node, path, frozenset({"pump", "duty_count", "standby_count", "series_stages", "speed_ratio", "trim_ratio", "min_speed_ratio", "max_speed_ratio", "motor_efficiency", "drive_efficiency"}))
         return Arrangement(
             pump_id=self.text(node, "pump", path),
             duty_count=self.integer(node, "duty_count", path, default=1),
@@ -312,7 +322,7 @@ class _Reader:
         )
 
     def criteria(self, node: Any, path: str = "criteria") -> Criteria:
-        node = self.obj(node, path)
+        node = self.obj(node, path, frozenset({"suction_velocity_min", "suction_velocity_max", "delivery_velocity_min", "delivery_velocity_max", "sewage", "sewage_velocity_min", "npsh_margin_ratio", "npsh_margin_min", "preferred_region_low", "preferred_region_high", "allowable_region_low", "allowable_region_high", "trim_warning_limit"}))
         d = Criteria()
         q = self.quantity
         return Criteria(
@@ -332,7 +342,7 @@ class _Reader:
         )
 
     def energy(self, node: Any, path: str = "energy") -> EnergyInputs:
-        node = self.obj(node, path)
+        node = self.obj(node, path, frozenset({"operating_hours_per_year", "annual_volume", "tariff_per_kwh", "currency"}))
         return EnergyInputs(
             operating_hours_per_year=self.number(node, "operating_hours_per_year", path, required=False),
             annual_volume_m3=self.quantity(node, "annual_volume", path, "volume", required=False),
@@ -341,7 +351,7 @@ class _Reader:
         )
 
     def project(self, data: Any) -> Project:
-        root = self.obj(data, "(file)")
+        root = self.obj(data, "(file)", frozenset({"format", "version", "name", "notes", "fluid", "site", "friction_method", "segments", "pumps", "arrangement", "criteria", "energy", "flow_grid_max_factor"}))
         fmt = root.get("format")
         if fmt != FORMAT_NAME:
             raise ProjectFileError("format", f"not a PumpSketch project (expected {FORMAT_NAME!r}, got {fmt!r})")

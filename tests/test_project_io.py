@@ -145,3 +145,12 @@ def test_new_project_is_valid(tmp_path):
     path = tmp_path / "n.pumpsketch.json"
     save_project(new_project(), path)
     assert load_project(path) == new_project()
+
+
+def test_misspelt_key_is_refused_not_ignored():
+    data = project_to_dict(typed_project())
+    data["energy"]["annual_volume_m3"] = 6_000_000
+    with pytest.raises(ProjectFileError) as info:
+        project_from_dict(data)
+    assert info.value.field_path == "energy.annual_volume_m3"
+    assert "unknown field" in info.value.problem
