@@ -92,10 +92,32 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         out += ["  " + line for line in _table(
             ["scenario", "pumps", "speed %", f"flow {fl}", f"head {hd}", "eff %", f"input {unit_label('power', system)}",
              "kWh/m³", f"NPSH margin {hd}", "% BEP", "note"], rows)]
-    if solution.energy is not None and hasattr(solution.energy, "to_json_dict"):
-        e = solution.energy.to_json_dict()
-        parts = [f"{k.replace('_', ' ')}: {v:.4g}" for k, v in e.items() if isinstance(v, (int, float)) and not isinstance(v, bool)]
-        out += ["", "Energy: " + "; ".join(parts)]
+    vs = solution.variable_speed
+    if vs is not None:
+        out += ["", f"Variable speed (design flow {d(vs.target_flow_m3_s, 'flow', '{:.1f}')} {fl} "
+                    f"with {vs.pumps_running} pump(s); drive range {vs.min_speed_ratio * 100:.0f}–"
+                    f"{vs.max_speed_ratio * 100:.0f} %):"]
+        for item in vs.scenarios:
+            speed = f"{item.speed_ratio * 100:.1f} %" if item.achievable else f"not reachable ({item.reason})"
+            out.append(f"  {item.static} static, {item.pipe} pipe: {speed}")
+        if vs.minimum_lift_speed_ratio is not None:
+            out.append(f"  lowest speed that lifts against the maximum static head: "
+                       f"{vs.minimum_lift_speed_ratio * 100:.1f} %")
+    e = solution.energy
+    ej = e.to_json_dict() if e is not None else {}
+    if e is not None:
+        out += ["", "Energy (normal duty: aged pipe, mean of the static extremes):"]
+        if e.annual_energy_mean_kwh is None:
+            out.append("  not computed: " + "; ".join(e.notes or ("no operating hours or annual volume",)))
+        else:
+            out.append(f"  {e.pumps_running} pump(s) at {e.speed_ratio * 100:.0f} % speed, basis: "
+                       f"{e.basis.replace('_', ' ')}")
+            out.append(f"  annual energy {e.annual_energy_mean_kwh:,.0f} kWh "
+                       f"(min static {ej['annual_energy_min_static_kwh']:,.0f}, max static {ej['annual_energy_max_static_kwh']:,.0f})")
+            out.append(f"  annual cost {e.annual_cost_mean:,.0f} {e.currency} at {e.tariff_per_kwh:g} {e.currency}/kWh; "
+                       f"specific energy {e.specific_energy_mean_kwh_m3:.3f} kWh/m³")
+        for note in e.notes or ():
+            out.append(f"  note: {note}")
     out += ["", f"Checks ({len(solution.findings)}):"]
     if not solution.findings:
         out.append("  none")
