@@ -206,9 +206,11 @@ def variable_speed(system, fitted: FittedPump, arrangement: Arrangement, target_
     lift_reason = None if s_lift is not None else "the fitted head curve has no positive shut-off head"
 
     speeds = tuple(sorted({float(s) for s in speed[achievable].tolist()}, reverse=True))
-    points = operating_points(system, fitted, arrangement, npsh_static_head_m, density, speed_ratios=speeds) \
-        if speeds else ()
-    at_min = operating_points(system, fitted, arrangement, npsh_static_head_m, density, speed_ratios=(s_lo,))
+    # One batched solve for the speeds found and the minimum speed (re-intersected, never scaled).
+    batch = operating_points(system, fitted, arrangement, npsh_static_head_m, density,
+                             speed_ratios=tuple(dict.fromkeys(speeds + (s_lo,))))
+    points = tuple(p for p in batch if p.speed_ratio in speeds)
+    at_min = tuple(p for p in batch if p.speed_ratio == s_lo)
     return VariableSpeedResult(
         target_flow_m3_s=float(target_flow_m3_s), pumps_running=n, min_speed_ratio=s_lo, max_speed_ratio=s_hi,
         scenarios=tuple(scenarios), minimum_lift_speed_ratio=s_lift, minimum_lift_reason=lift_reason,
