@@ -34,7 +34,7 @@ from app.document import ProjectDocument
 from app.help_page import HelpDialog
 from app.panels import actions as action_table
 from app.panels.criteria import CriteriaPanel
-from app.panels.file_controller import FileController, sample_projects
+from app.panels.file_controller import FileController
 from app.panels.message_bar import MessageBar
 from app.panels.pipework import PipeworkPanel
 from app.panels.pumps import PumpsPanel
@@ -68,6 +68,8 @@ class MainWindow(QMainWindow):
                  remember_layout: bool = True):
         super().__init__(parent)
         self.document = document or ProjectDocument(unit_system=settings.unit_system())
+        if self.document.parent() is None:
+            self.document.setParent(self)  # the window owns its document
         self._remember_layout = remember_layout
         self.files = FileController(self)
         self._help_dialog: HelpDialog | None = None
@@ -153,12 +155,8 @@ class MainWindow(QMainWindow):
             action.setObjectName(f"action_units_{system}")
             self.units_group.addAction(action)
             units_menu.addAction(action)
-        self.samples_menu = QMenu("Open &sample", self)
-        for title, path in sample_projects():
-            self.samples_menu.addAction(title, lambda p=path: self.files.open_sample(p))
-        self.samples_menu.setEnabled(not self.samples_menu.isEmpty())
-        self.recent_menu = QMenu("Open &recent", self)
-        self.recent_menu.aboutToShow.connect(self._fill_recent_menu)
+        self.samples_menu = self.files.samples_menu()
+        self.recent_menu = self.files.recent_menu()
         action_table.build_menus(self, self.actions,
                                  {"units": units_menu, "samples": self.samples_menu, "recent": self.recent_menu})
         action_table.build_toolbar(self, self.actions, {"units": self.units_combo})
@@ -173,9 +171,9 @@ class MainWindow(QMainWindow):
         doc.projectChanged.connect(self._on_project_changed)
         doc.unitSystemChanged.connect(self._on_unit_system_changed)
         doc.focusRequested.connect(self.focus_target)
-        doc.undo_stack.indexChanged.connect(lambda _i: self.message_bar.dismiss("refused"))
-        self.units_combo.activated.connect(lambda i: self.set_unit_system(self.units_combo.itemData(i)))
-        self.units_group.triggered.connect(lambda action: self.set_unit_system(action.data()))
+        doc.undo_stack.indexChanged.connect(self._on_undo_index)
+        self.units_combo.activated.connect(self._on_units_chosen)
+        self.units_group.triggered.connect(self._on_units_action)
         self.checks_panel.findingActivated.connect(self.focus_target)
         self.cautions.helpRequested.connect(self.show_methods)
         self.pumps_panel.message.connect(self.show_status)
@@ -211,7 +209,16 @@ class MainWindow(QMainWindow):
         self.setWindowTitle(f"{self.document.display_name()}[*] — {APP_TITLE}")
         self.setWindowModified(self.document.is_modified)
 
+    def _on_undo_index(self, _index: int) -> None:
+        self.message_bar.dismiss("refused")  # an accepted edit, undo or redo supersedes a refusal
+
     # ------------------------------------------------------------------ units
+    def _on_units_chosen(self, position: int) -> None:
+        self.set_unit_system(self.units_combo.itemData(position))
+
+    def _on_units_action(self, action: QAction) -> None:
+        self.set_unit_system(action.data())
+
     def set_unit_system(self, system: str) -> None:
         """Show everything in ``system`` ("SI" or "US") and remember the choice."""
         self.document.set_unit_system(system)
@@ -323,30 +330,16 @@ class MainWindow(QMainWindow):
     def show_methods(self) -> None:
         if self._help_dialog is None:
             self._help_dialog = HelpDialog(self, self.document.project.criteria)
-        self._help_dialog.show()
-        self._help_dialog.raise_()
+        if self._help_dialog.isVisible():
+            self._help_dialog.raise_()  # already open behind the window: bring it forward
+        else:
+            self._help_dialog.show()
 
     def show_shortcuts(self) -> None:
-        rows = "".join(f"<tr><td>{command}</td><td><b>{keys}</b></td></tr>"
-                       for command, keys in action_table.shortcut_rows(self.actions))
-        self.show_information("Keyboard shortcuts", f"<table cellpadding='3'>{rows}</table>")
+        self.show_information("Keyboard shortcuts", action_table.shortcuts_html(self.actions))
 
     def show_about(self) -> None:
-        self.show_information(
-            f"About {APP_TITLE}",
-            f"<h3>{APP_TITLE}</h3><p>System curves, pump operating points, velocities, NPSH margin and "
-            f"energy for water and wastewater pumping stations.</p><p><b>Caution.</b> {CAUTIONS_TEXT}</p>")
-
-    def _fill_recent_menu(self) -> None:
-        self.recent_menu.clear()
-        recent = settings.recent_files()
-        for path in recent:
-            self.recent_menu.addAction(Path(path).name, lambda p=path: self.open_path(p)).setToolTip(path)
-        if not recent:
-            self.recent_menu.addAction("(none yet)").setEnabled(False)
-        else:
-            self.recent_menu.addSeparator()
-            self.recent_menu.addAction("Clear list", settings.clear_recent_files)
+        self.show_information(f"About {APP_TITLE}", action_table.about_html(APP_TITLE, CAUTIONS_TEXT))
 
     # ------------------------------------------------------------------ questions (tests replace these)
     def ask_save_changes(self) -> str:

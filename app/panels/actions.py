@@ -143,3 +143,15 @@ def shortcut_rows(actions: dict[str, QAction]) -> list[tuple[str, str]]:
         ("Step the pipe size in the size box", "Up / Down, or the mouse wheel over it"),
     ]
     return rows
+
+
+def shortcuts_html(actions: dict[str, QAction]) -> str:
+    """The Help ▸ Keyboard shortcuts page."""
+    rows = "".join(f"<tr><td>{command}</td><td><b>{keys}</b></td></tr>" for command, keys in shortcut_rows(actions))
+    return f"<table cellpadding='3'>{rows}</table>"
+
+
+def about_html(title: str, cautions: str) -> str:
+    """The Help ▸ About page, with the cautions."""
+    return (f"<h3>{title}</h3><p>System curves, pump operating points, velocities, NPSH margin and energy "
+            f"for water and wastewater pumping stations.</p><p><b>Caution.</b> {cautions}</p>")

@@ -12,6 +12,7 @@ import json
 from pathlib import Path
 
 from PySide6.QtCore import QObject
+from PySide6.QtWidgets import QMenu
 
 import app
 from app import settings
@@ -51,6 +52,32 @@ class FileController(QObject):
         super().__init__(window)
         self._window = window
         self._document = window.document
+
+    # ------------------------------------------------------------------ menus
+    def samples_menu(self) -> QMenu:
+        """File ▸ Open sample: one entry per sample project."""
+        menu = QMenu("Open &sample", self._window)
+        for title, path in sample_projects():
+            menu.addAction(title, lambda p=path: self.open_sample(p)).setToolTip(str(path))
+        menu.setEnabled(not menu.isEmpty())
+        return menu
+
+    def recent_menu(self) -> QMenu:
+        """File ▸ Open recent, filled from the settings each time it opens."""
+        menu = QMenu("Open &recent", self._window)
+        menu.aboutToShow.connect(lambda: self._fill_recent(menu))
+        return menu
+
+    def _fill_recent(self, menu: QMenu) -> None:
+        menu.clear()
+        recent = settings.recent_files()
+        for path in recent:
+            menu.addAction(Path(path).name, lambda p=path: self.open_path(p)).setToolTip(path)
+        if not recent:
+            menu.addAction("(none yet)").setEnabled(False)
+        else:
+            menu.addSeparator()
+            menu.addAction("Clear list", settings.clear_recent_files)
 
     # ------------------------------------------------------------------ guarding unsaved work
     def maybe_save(self) -> bool:

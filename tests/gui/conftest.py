@@ -10,6 +10,7 @@
 
 from __future__ import annotations
 
+import shutil
 from pathlib import Path
 
 import pytest
@@ -21,8 +22,34 @@ from app.main_window import MainWindow
 
 SAMPLE_DIR = Path(__file__).resolve().parents[2] / "sample_projects"
 SAMPLE_PATHS = sorted(SAMPLE_DIR.glob("*.pumpsketch.json"))
-HILLTOP = SAMPLE_DIR / "hilltop_booster.pumpsketch.json"
+HILLTOP_NAME = "hilltop_booster.pumpsketch.json"
 """The sample most tests use: three segments with pipe series, one pump with efficiency and NPSH data."""
+
+
+@pytest.fixture
+def sample_copies(tmp_path) -> Path:
+    """A copy of the sample folder (projects and their pump files) that tests may overwrite.
+
+    Tests open and save these copies, never the samples themselves.
+    """
+    target = tmp_path / "samples"
+    shutil.copytree(SAMPLE_DIR, target)
+    return target
+
+
+@pytest.fixture
+def hilltop(sample_copies) -> Path:
+    """The copied hilltop booster sample."""
+    return sample_copies / HILLTOP_NAME
+
+
+@pytest.fixture(autouse=True, scope="session")
+def samples_stay_untouched():
+    """Fail the run if any window test wrote into the real sample folder."""
+    before = {p: p.read_bytes() for p in SAMPLE_DIR.rglob("*") if p.is_file()}
+    yield
+    after = {p: p.read_bytes() for p in SAMPLE_DIR.rglob("*") if p.is_file()}
+    assert after == before, "a test changed the sample projects; tests must work on copies"
 
 
 @pytest.fixture(autouse=True)
@@ -71,10 +98,15 @@ def dialogs() -> Dialogs:
 
 
 @pytest.fixture
-def make_window(qtbot, monkeypatch, dialogs):
-    """Build main windows with answered dialogs: ``make_window(path=None, units="SI")``."""
+def make_window(qtbot, monkeypatch, dialogs, hilltop):
+    """Build main windows with answered dialogs: ``make_window(path=hilltop copy, units="SI")``.
 
-    def build(path: Path | None = HILLTOP, units: str = "SI") -> MainWindow:
+    Pass ``None`` for a window on a new project.
+    """
+
+    def build(path: Path | None | str = "hilltop", units: str = "SI") -> MainWindow:
+        if path == "hilltop":
+            path = hilltop
         window = MainWindow(ProjectDocument(unit_system=units), remember_layout=False)
         qtbot.addWidget(window)
         dialogs.install(monkeypatch, window)
@@ -88,7 +120,7 @@ def make_window(qtbot, monkeypatch, dialogs):
 
 @pytest.fixture
 def window(make_window) -> MainWindow:
-    """A main window on the hilltop booster sample, solved."""
+    """A main window on a copy of the hilltop booster sample, solved."""
     return make_window()
 
 

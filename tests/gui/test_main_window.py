@@ -1,0 +1,181 @@
+"""The main window: what it shows, its actions and menus, the unit switch, findings that
+point at their cause, and the edit-to-redraw timing hook."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+from PySide6.QtCore import Qt
+from PySide6.QtGui import QKeySequence
+
+from app import settings
+from app.cautions import CAUTIONS_TEXT
+from app.document import measure_edit_to_redraw
+from app.results.checks_panel import ChecksPanel
+from app.results.operating_points_table import OperatingPointsTable
+from hydraulics.results import Finding
+from hydraulics.units import to_display
+
+EDIT = Qt.ItemDataRole.EditRole
+DISCHARGE = 1
+
+
+def _menu_texts(window) -> dict[str, list[str]]:
+    out = {}
+    for action in window.menuBar().actions():
+        menu = action.menu()
+        out[action.text().replace("&", "")] = [a.text().replace("&", "") for a in menu.actions() if a.text()]
+    return out
+
+
+def test_the_window_shows_inputs_plots_results_and_the_cautions(window):
+    tabs = [window.input_tabs.tabText(i).replace("&&", "&") for i in range(window.input_tabs.count())]
+    assert tabs == ["Site & fluid", "Pipework", "Pumps", "Criteria"]
+    assert window.plot_tabs.head_flow is not None
+    assert isinstance(window.checks_panel, ChecksPanel)
+    assert isinstance(window.points_table, OperatingPointsTable)
+    assert window.points_table.model().rowCount() > 0
+    assert window.cautions.text() == CAUTIONS_TEXT
+    window.show()
+    assert window.cautions.isVisible()
+    for tab in range(window.input_tabs.count()):
+        window.input_tabs.setCurrentIndex(tab)
+        assert window.cautions.isVisible()  # whatever panel is open
+
+
+def test_menus_offer_the_commands_with_standard_shortcuts(window):
+    menus = _menu_texts(window)
+    assert menus["File"] == ["New", "Open…", "Open sample", "Open recent", "Save", "Save As…", "Quit"]
+    assert menus["Edit"][:2] == ["Undo", "Redo"] and "Paste" in menus["Edit"]
+    assert "Larger pipe size" in menus["Edit"] and "Pin curves" in menus["View"]
+    assert menus["Help"] == ["Methods and references", "Keyboard shortcuts", "About PumpSketch"]
+    for key, standard in (("new", QKeySequence.StandardKey.New), ("open", QKeySequence.StandardKey.Open),
+                          ("save", QKeySequence.StandardKey.Save), ("save_as", QKeySequence.StandardKey.SaveAs),
+                          ("undo", QKeySequence.StandardKey.Undo), ("redo", QKeySequence.StandardKey.Redo),
+                          ("copy", QKeySequence.StandardKey.Copy), ("paste", QKeySequence.StandardKey.Paste),
+                          ("quit", QKeySequence.StandardKey.Quit)):
+        assert window.actions[key].shortcut() == QKeySequence(standard), key
+
+
+def test_no_two_actions_share_a_shortcut(window):
+    seen = {}
+    for key, action in window.actions.items():
+        shortcut = action.shortcut().toString()
+        if shortcut:
+            assert shortcut not in seen, (key, seen.get(shortcut))
+            seen[shortcut] = key
+
+
+def test_undo_and_redo_actions_follow_the_stack(window):
+    model = window.pipework.segments_model
+    assert not window.actions["undo"].isEnabled()
+    assert model.setData(model.index(0, model.column_index("length")), "10", EDIT)
+    assert window.actions["undo"].isEnabled()
+    assert window.actions["undo"].text().replace("&", "") == \
+        "Undo Edit length of segment 1 'Tank outlet and suction header'"
+    window.actions["undo"].trigger()
+    assert window.document.project.segments[0].length_m == 9.0
+    window.actions["redo"].trigger()
+    assert window.document.project.segments[0].length_m == 10.0
+
+
+def test_help_lists_the_shortcuts_and_about_carries_the_cautions(window, dialogs):
+    window.show_shortcuts()
+    title, text = dialogs.information[-1]
+    assert title == "Keyboard shortcuts"
+    assert "Larger pipe size" in text and "Ctrl+Up" in text and "Ctrl+Down" in text
+    window.show_about()
+    assert CAUTIONS_TEXT in dialogs.information[-1][1]
+    window.show_methods()
+    assert window._help_dialog.isVisible()
+    assert "Methods and references" in window._help_dialog.page.toPlainText()
+    window._help_dialog.close()
+
+
+def test_pin_and_clear_pinned_curves(window):
+    window.actions["pin"].trigger()
+    assert window.plot_tabs.has_snapshot
+    window.actions["clear_pin"].trigger()
+    assert not window.plot_tabs.has_snapshot
+
+
+# ---------------------------------------------------------------------- units
+def test_the_unit_switch_applies_everywhere_and_is_remembered(window, make_window):
+    stored = window.document.project
+    window.units_combo.activated.emit(window.units_combo.findData("US"))
+    assert window.document.unit_system == "US"
+    assert window.plot_tabs.head_flow.unit_system == "US"
+    assert [a.isChecked() for a in window.units_group.actions()] == [False, True]
+    model = window.pipework.segments_model
+    header = model.headerData(model.column_index("length"), Qt.Orientation.Horizontal)
+    assert header == "Length\n[ft]"
+    assert window.site_panel.editor("design_flow").text() == f"{to_display(0.035, 'flow', 'US'):.10g}"
+    flows, _heads = window.plot_tabs.head_flow.curve_data("max", "new")
+    expected = to_display(window.document.solution.curve("max", "new").flow_m3_s, "flow", "US")
+    assert flows[-1] == pytest.approx(expected[-1])
+    assert window.document.project is stored
+    assert settings.unit_system() == "US"
+    assert make_window(None).document.unit_system == "SI"  # the fixture fixes SI; a default window:
+    from app.main_window import MainWindow
+
+    remembered = MainWindow(remember_layout=False)
+    try:
+        assert remembered.document.unit_system == "US"
+    finally:
+        remembered.deleteLater()
+
+
+def test_the_view_menu_radio_actions_switch_units(window):
+    us = next(a for a in window.units_group.actions() if a.data() == "US")
+    us.trigger()
+    assert window.document.unit_system == "US"
+    assert window.units_combo.currentData() == "US"
+
+
+# ---------------------------------------------------------------------- findings point at their cause
+def _click_finding(qtbot, window, wanted) -> None:
+    panel = window.checks_panel
+    position = next(i for i, f in enumerate(panel.findings) if wanted(f))
+    index = panel.index_of_finding(position)
+    panel.view.scrollTo(index)
+    rect = panel.view.visualRect(index)
+    qtbot.mouseClick(panel.view.viewport(), Qt.MouseButton.LeftButton, pos=rect.center())
+
+
+def test_clicking_a_segment_finding_selects_its_row(window, qtbot):
+    model = window.pipework.segments_model
+    assert model.setData(model.index(DISCHARGE, model.column_index("internal_diameter")), "80 mm", EDIT)
+    window.document.recompute_now()
+    window.input_tabs.setCurrentIndex(0)
+    window.pipework.select_segment(0)
+    window.show()
+    _click_finding(qtbot, window, lambda f: f.target == ("segment", DISCHARGE))
+    assert window.input_tabs.tabText(window.input_tabs.currentIndex()) == "Pipework"
+    assert window.pipework.current_segment() == DISCHARGE
+
+
+def test_a_pump_finding_opens_the_pumps_panel(make_window, sample_copies, qtbot):
+    window = make_window(sample_copies / "sewage_wet_well.pumpsketch.json")
+    window.show()
+    _click_finding(qtbot, window, lambda f: f.target == ("pump", "SW150"))
+    assert window.input_tabs.tabText(window.input_tabs.currentIndex()) == "Pumps"
+
+
+def test_a_site_finding_opens_the_site_panel_at_its_field(window):
+    finding = Finding("warning", "test_only", "made up for the test", "site", target=("site", "pump_datum"))
+    window.checks_panel.findingActivated.emit(finding.target)
+    assert window.input_tabs.tabText(window.input_tabs.currentIndex()) == "Site && fluid"
+
+
+# ---------------------------------------------------------------------- timing hook
+def test_measure_edit_to_redraw_times_real_edits_and_leaves_the_project(window):
+    before = window.document.project
+    timings = measure_edit_to_redraw(window, n=4)
+    assert len(timings) == 4 and all(t > 0 for t in timings)
+    assert window.document.project == before
+
+
+def test_the_main_window_module_stays_an_assembler():
+    source = Path(__import__("app.main_window").main_window.__file__).read_text(encoding="utf-8")
+    assert len(source.splitlines()) < 400
