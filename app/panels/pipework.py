@@ -17,6 +17,7 @@ from PySide6.QtWidgets import (
     QHBoxLayout,
     QLabel,
     QPushButton,
+    QSizePolicy,
     QSplitter,
     QVBoxLayout,
     QWidget,
@@ -26,7 +27,7 @@ from app.panels.table_view import SpreadsheetView
 from app.table_models.cells import CellError, display_text, unit_suffix
 from app.table_models.fittings import FittingsModel
 from app.table_models.segments import SegmentsModel, stepped_segment
-from hydraulics import fittings
+from hydraulics import catalogue, fittings
 from hydraulics.model import ModelError
 
 
@@ -114,6 +115,7 @@ class PipeworkPanel(QWidget):
         self.size_stepper.stepRequested.connect(self.step_selected)
         size_row.addWidget(self.size_stepper)
         self.size_label = QLabel()
+        self.size_label.setSizePolicy(QSizePolicy.Policy.Ignored, QSizePolicy.Policy.Preferred)
         size_row.addWidget(self.size_label, 1)
         top_layout.addLayout(size_row)
         splitter.addWidget(top)
@@ -183,7 +185,8 @@ class PipeworkPanel(QWidget):
         if segment.pipe_series is not None:
             self.size_stepper.set_state(segment.nominal_size or "", self._can_step(segment, 1),
                                         self._can_step(segment, -1))
-            self.size_label.setText(bore)
+            series = catalogue.pipe_series().get(segment.pipe_series)
+            self.size_label.setText(f"{bore} · {series.name}" if series is not None else bore)
         else:
             self.size_stepper.set_state("typed", True, True)
             self.size_label.setText(f"{bore} (typed; a step joins the material's first pipe series)")

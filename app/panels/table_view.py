@@ -6,14 +6,15 @@
   the model refuses keeps the cursor on its cell;
 * Delete clears the selected optional values;
 * copy and paste of cell blocks are driven by the window's Edit actions
-  (see :mod:`app.clipboard`).
+  (see :mod:`app.clipboard`);
+* the context menu inserts, removes and moves rows (each one undo step).
 """
 
 from __future__ import annotations
 
 from PySide6.QtCore import QItemSelectionModel, QModelIndex, Qt, Signal
-from PySide6.QtGui import QKeyEvent
-from PySide6.QtWidgets import QAbstractItemDelegate, QAbstractItemView, QHeaderView, QTableView, QWidget
+from PySide6.QtGui import QAction, QContextMenuEvent, QKeyEvent
+from PySide6.QtWidgets import QAbstractItemDelegate, QAbstractItemView, QHeaderView, QMenu, QTableView, QWidget
 
 from app import clipboard
 from app.delegates import ProjectTableDelegate
@@ -134,3 +135,53 @@ class SpreadsheetView(QTableView):
                 event.accept()
                 return
         super().keyPressEvent(event)
+
+    # ------------------------------------------------------------------ context menu
+    def row_actions(self) -> list[QAction | None]:
+        """The context-menu actions for the current row (``None`` is a separator)."""
+        model = self.model()
+        row = self.current_row()
+        rows = sorted({i.row() for i in self.selectionModel().selectedIndexes()} or ({row} if row >= 0 else set()))
+        available = model is not None and model.available()
+        word = model.item_word() if model is not None else "row"
+        entries = [
+            (f"Insert {word} above", available, lambda: self._insert(max(row, 0))),
+            (f"Insert {word} below", available, lambda: self._insert(row + 1 if row >= 0 else model.rowCount())),
+            (f"Remove selected {word}s" if len(rows) > 1 else f"Remove {word}", bool(rows),
+             lambda: model.remove_rows(rows)),
+            None,
+            (f"Move {word} up", row > 0, lambda: self._move_row(row, -1)),
+            (f"Move {word} down", 0 <= row < (model.rowCount() - 1 if model else 0), lambda: self._move_row(row, 1)),
+            None,
+            ("Copy", bool(rows), lambda: clipboard.copy_selection(self)),
+            ("Paste", available, lambda: clipboard.paste_clipboard(self)),
+            ("Clear", bool(rows), lambda: clipboard.clear_selection(self)),
+        ]
+        actions: list[QAction | None] = []
+        for entry in entries:
+            if entry is None:
+                actions.append(None)
+                continue
+            text, enabled, slot = entry
+            action = QAction(text, self)
+            action.setEnabled(bool(enabled))
+            action.triggered.connect(slot)
+            actions.append(action)
+        return actions
+
+    def _insert(self, row: int) -> None:
+        if self.model().insert_row(row):
+            self.select_row(row)
+
+    def _move_row(self, row: int, offset: int) -> None:
+        if self.model().move_row(row, offset):
+            self.select_row(row + offset)
+
+    def contextMenuEvent(self, event: QContextMenuEvent) -> None:  # noqa: N802 - Qt name
+        menu = QMenu(self)
+        for action in self.row_actions():
+            if action is None:
+                menu.addSeparator()
+            else:
+                menu.addAction(action)
+        menu.exec(event.globalPos())

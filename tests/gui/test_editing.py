@@ -386,3 +386,20 @@ def test_new_pump_and_remove_pump(window, document):
     assert pump.head_m[2] > 0 and pump.flow_m3_s[2] == document.project.site.design_flow_m3_s
     assert window.pumps_panel.remove_pump()
     assert document.project.duty_pump.pump_id == "BP80"
+
+
+def test_the_table_context_menu_inserts_moves_and_removes_rows(window, document):
+    view = window.pipework.segments_view
+    window.pipework.select_segment(0)
+    actions = {a.text(): a for a in view.row_actions() if a is not None}
+    assert not actions["Move segment up"].isEnabled()
+    actions["Insert segment below"].trigger()
+    assert len(document.project.segments) == 4 and view.current_row() == 1
+    inserted = document.project.segments[1]
+    actions = {a.text(): a for a in view.row_actions() if a is not None}
+    actions["Move segment down"].trigger()
+    assert document.project.segments[2] == inserted and view.current_row() == 2
+    actions = {a.text(): a for a in view.row_actions() if a is not None}
+    actions["Remove segment"].trigger()
+    assert inserted not in document.project.segments
+    assert document.undo_stack.count() == 3
