@@ -66,7 +66,7 @@ MENUS: tuple[tuple[str, tuple[str | None, ...]], ...] = (
 )
 """Menu titles and their entries: action keys, ``None`` for a separator, ``@name`` for a submenu."""
 
-TOOLBAR: tuple[str | None, ...] = ("new", "open", "save", None, "undo", "redo", None,
+TOOLBAR: tuple[str | None, ...] = ("new", "open", "save", None, "undo_button", "redo_button", None,
                                   "smaller_pipe", "larger_pipe", None, "pin", "clear_pin", None, "@units")
 
 
@@ -93,7 +93,23 @@ def build_actions(window) -> dict[str, QAction]:
     for key, action in (("undo", undo), ("redo", redo)):
         action.setObjectName(f"action_{key}")
         actions[key] = action
+    actions["undo_button"] = _stack_button(window, "Undo", stack.undo, stack.canUndoChanged,
+                                           stack.undoTextChanged, stack.canUndo())
+    actions["redo_button"] = _stack_button(window, "Redo", stack.redo, stack.canRedoChanged,
+                                           stack.redoTextChanged, stack.canRedo())
     return actions
+
+
+def _stack_button(window, text: str, slot, can_signal, text_signal, enabled: bool) -> QAction:
+    """A tool-bar twin of the undo (redo) action with a fixed label; the step is in its tooltip."""
+    action = QAction(text, window)
+    action.setObjectName(f"action_{text.lower()}_button")
+    action.setEnabled(enabled)
+    action.setToolTip(text)
+    action.triggered.connect(slot)
+    can_signal.connect(action.setEnabled)
+    text_signal.connect(lambda step: action.setToolTip(f"{text} {step}".strip()))
+    return action
 
 
 def build_menus(window, actions: dict[str, QAction], submenus: dict[str, QMenu]) -> None:

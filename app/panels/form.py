@@ -4,7 +4,9 @@ A field says how to read its value from a :class:`~hydraulics.model.Project` and
 build the project with a new value; the form makes the editor, shows the value in the
 units on display, parses what is typed (:func:`app.table_models.cells.parse_value`,
 the same limits as the file reader) and hands the candidate project to the document.
-A refused entry is put back to the stored value and the document says why.
+A refused entry is put back to the stored value and the document says why.  Values
+are shown rounded to a few significant digits; a field the user did not edit never
+writes its rounded text back.
 Forms hold no data: :meth:`FormPanel.refresh` re-reads everything from the project.
 """
 
@@ -26,7 +28,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.table_models.cells import CellError, edit_text, parse_value, range_text, same_value, unit_suffix
+from app.table_models.cells import CellError, display_text, parse_value, range_text, same_value, unit_suffix
 from hydraulics.model import Project
 from hydraulics.validation import LIMITS
 
@@ -223,7 +225,7 @@ class FormPanel(QWidget):
             if not shown:
                 continue
             if isinstance(spec, NumberField):
-                bound.editor.setText(edit_text(spec.get(project), spec.quantity, system))
+                bound.editor.setText(display_text(spec.get(project), spec.quantity, system))
                 bound.unit_label.setText(unit_suffix(spec.quantity, system).replace("–", ""))
                 help_text = f"Allowed: {range_text(LIMITS[spec.limit], spec.quantity, system)}."
                 bound.editor.setToolTip(f"{spec.tooltip} {help_text}".strip())
@@ -266,6 +268,9 @@ class FormPanel(QWidget):
 
     def _commit_number(self, spec: NumberField) -> None:
         bound = self._bound[spec.key]
+        if not bound.editor.isModified():
+            return  # the shown (rounded) value was not edited: keep the stored one exactly
+        bound.editor.setModified(False)
         project = self._document.project
         try:
             value = parse_value(bound.editor.text(), label=spec.label, quantity=spec.quantity,
@@ -280,7 +285,11 @@ class FormPanel(QWidget):
         self._commit(spec, value)
 
     def _commit_text(self, spec: TextField) -> None:
-        text = self._bound[spec.key].editor.text().strip()
+        editor = self._bound[spec.key].editor
+        if not editor.isModified():
+            return
+        editor.setModified(False)
+        text = editor.text().strip()
         if text == (spec.get(self._document.project) or ""):
             return
         if not text and not spec.allow_empty:
@@ -301,6 +310,7 @@ class FormPanel(QWidget):
         """Type ``text`` into a number or text field and commit it (as Enter would)."""
         bound = self._bound[key]
         bound.editor.setText(text)
+        bound.editor.setModified(True)
         bound.editor.editingFinished.emit()
 
     def choose(self, key: str, value: Any) -> None:

@@ -147,6 +147,7 @@ class PipeworkPanel(QWidget):
         self.segments_model.modelReset.connect(lambda: self.select_segment(0))
         document.projectChanged.connect(self._refresh_selected)
         document.unitSystemChanged.connect(self._refresh_selected)
+        document.solutionChanged.connect(self._refresh_selected)
         self.select_segment(0)
         self._refresh_selected()
 
@@ -182,6 +183,10 @@ class PipeworkPanel(QWidget):
         system = self._document.unit_system
         bore = (f"bore {display_text(segment.internal_diameter_m, 'diameter', system)} "
                 f"{unit_suffix('diameter', system)}")
+        solution = self._document.solution
+        if solution is not None and solution.project is project and index < len(solution.segments):
+            velocity = display_text(solution.segments[index].velocity_m_s, "velocity", system, 3)
+            bore += f", {velocity} {unit_suffix('velocity', system)} at design flow"
         if segment.pipe_series is not None:
             self.size_stepper.set_state(segment.nominal_size or "", self._can_step(segment, 1),
                                         self._can_step(segment, -1))

@@ -131,9 +131,9 @@ SECTIONS = (
                     tooltip="Station flow the scheme is designed for."),
     )),
     Section("Atmosphere", (
-        ChoiceField("atmosphere_mode", "Atmospheric pressure",
-                    lambda p: [("altitude", "from site altitude (standard atmosphere)"),
-                               ("given", "given value")],
+        ChoiceField("atmosphere_mode", "Atmospheric pressure from",
+                    lambda p: [("altitude", "the site altitude (standard atmosphere)"),
+                               ("given", "a given value")],
                     lambda p: "given" if p.site.atmospheric_pressure_pa is not None else "altitude",
                     with_atmosphere_mode),
         NumberField("altitude", "Site altitude", "elevation", "site.altitude_m",
@@ -162,7 +162,8 @@ SECTIONS = (
         NumberField("vapour_pressure", "Vapour pressure", "pressure", "fluid.vapour_pressure_pa",
                     lambda p: getattr(p.fluid, "vapour_pressure_pa", None),
                     lambda p, v: _fluid(p, vapour_pressure_pa=v), visible=_is_user_fluid),
-    ), note="Water properties follow the IAPWS formulations (0–100 °C)."),
+    ), note="Water properties follow the IAPWS formulations (0–100 °C); a user fluid's are "
+            "taken as given."),
     Section("Pipe friction", (
         ChoiceField("friction_method", "Friction method",
                     lambda p: [("darcy_weisbach", "Darcy–Weisbach with Colebrook–White"),

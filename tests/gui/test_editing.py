@@ -317,6 +317,16 @@ def test_form_fields_take_units_and_refuse_out_of_range(window, document):
     assert "between 0 and 100 °C" in window.message_bar.text()
 
 
+def test_a_rounded_field_left_unedited_keeps_the_stored_value(window, document):
+    window.site_panel.choose("atmosphere_mode", "given")
+    stored = document.project.site.atmospheric_pressure_pa
+    editor = window.site_panel.editor("atmospheric_pressure")
+    assert editor.text() == f"{stored / 1000:.5g}"  # shown in kPa, rounded
+    before = document.project
+    editor.editingFinished.emit()  # focus passes through without typing
+    assert document.project is before
+
+
 def test_switching_delivery_to_a_pressurised_point_and_back(window, document):
     window.site_panel.choose("delivery_kind", "pressurised")
     delivery = document.project.site.delivery
