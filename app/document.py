@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import logging
 import time
+from dataclasses import replace
 from pathlib import Path
 
 from PySide6.QtCore import QObject, QTimer, Signal
@@ -20,6 +21,7 @@ from PySide6.QtGui import QUndoStack
 from PySide6.QtWidgets import QApplication
 
 from app.commands import ReplaceProjectCommand, check_candidate
+from app.table_models.segments import stepped_segment
 from hydraulics.model import ModelError, Project
 from hydraulics.project_io import FILE_SUFFIX, load_project, new_project, save_project
 from hydraulics.results import Solution
@@ -246,8 +248,9 @@ class ProjectDocument(QObject):
 def measure_edit_to_redraw(window, n: int = 50) -> list[float]:
     """Milliseconds from pushing an edit command to the plots showing its solution.
 
-    Alternately steps the first segment with a pipe series one size up and back (or,
-    without one, changes the last segment's length by 1 % and back), solving at once
+    Alternately steps the first segment with a pipe series one size up and back (down
+    and back when it is already the largest size; or, without one, changes the last
+    segment's length by 1 % and back), solving at once
     (the debounce is bypassed) and processing the paint events.  The edits are undone
     afterwards, so the project is left as it was.
     """
@@ -255,14 +258,16 @@ def measure_edit_to_redraw(window, n: int = 50) -> list[float]:
     app = QApplication.instance()
     start_index = document.undo_stack.index()
     series_rows = [i for i, s in enumerate(document.project.segments) if s.pipe_series is not None]
+    first_step = 1
+    if series_rows:
+        segment = document.project.segments[series_rows[0]]
+        first_step = 1 if stepped_segment(segment, 1) != segment else -1  # at the top: step down first
     timings: list[float] = []
     for k in range(n):
         t0 = time.perf_counter()
         if series_rows:
-            window.pipework.step_size(series_rows[0], 1 if k % 2 == 0 else -1)
+            window.pipework.step_size(series_rows[0], first_step if k % 2 == 0 else -first_step)
         else:
-            from dataclasses import replace
-
             project = document.project
             last = project.segments[-1]
             factor = 1.01 if k % 2 == 0 else 1 / 1.01
