@@ -153,6 +153,21 @@ def test_copy_then_paste_back_changes_nothing(window, document):
     assert document.project is before
 
 
+def test_ctrl_c_and_ctrl_v_in_a_table(window, document, qtbot):
+    window.show()
+    window.activateWindow()
+    qtbot.waitUntil(window.isActiveWindow, timeout=2000)
+    view = window.pipework.segments_view
+    model = window.pipework.segments_model
+    view.setFocus()
+    view.setCurrentIndex(_cell(model, 0, "length"))
+    qtbot.keyClick(view, Qt.Key.Key_C, Qt.KeyboardModifier.ControlModifier)
+    assert QApplication.clipboard().text() == "9\n"
+    view.setCurrentIndex(_cell(model, 1, "length"))
+    qtbot.keyClick(view, Qt.Key.Key_V, Qt.KeyboardModifier.ControlModifier)
+    assert document.project.segments[1].length_m == 9.0
+
+
 def test_pasting_a_pump_curve_adds_rows_and_fills_a_column(window, document):
     view = window.pumps_panel.points_view
     model = window.pumps_panel.points_model
@@ -269,12 +284,20 @@ def test_the_stepper_buttons_and_the_mouse_wheel_step_the_size(window, document,
     assert document.project.segments[RISING_MAIN].nominal_size == "DN 200"
 
 
-def test_the_shortcuts_step_the_selected_segment(window, document):
+def test_the_shortcuts_step_the_selected_segment(window, document, qtbot):
     assert window.actions["larger_pipe"].shortcut().toString() == "Ctrl+Up"
     assert window.actions["smaller_pipe"].shortcut().toString() == "Ctrl+Down"
+    window.show()
+    window.activateWindow()
+    qtbot.waitUntil(window.isActiveWindow, timeout=2000)
     window.pipework.select_segment(RISING_MAIN)
-    window.actions["smaller_pipe"].trigger()
+    view = window.pipework.segments_view
+    view.setFocus()
+    qtbot.keyClick(view, Qt.Key.Key_Down, Qt.KeyboardModifier.ControlModifier)
     assert document.project.segments[RISING_MAIN].nominal_size == "DN 150"
+    assert view.current_row() == RISING_MAIN  # the key stepped the pipe, it did not move the cursor
+    qtbot.keyClick(window.pipework.size_stepper, Qt.Key.Key_Up, Qt.KeyboardModifier.ControlModifier)
+    assert document.project.segments[RISING_MAIN].nominal_size == "DN 200"
 
 
 def test_a_step_past_the_end_of_the_series_is_refused_with_a_reason(window, document):
