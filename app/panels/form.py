@@ -224,8 +224,10 @@ class FormPanel(QWidget):
             bound.editor.setEnabled(spec.enabled(project))
             if not shown:
                 continue
+            typing = isinstance(bound.editor, QLineEdit) and bound.editor.hasFocus() and bound.editor.isModified()
             if isinstance(spec, NumberField):
-                bound.editor.setText(display_text(spec.get(project), spec.quantity, system))
+                if not typing:  # an edit elsewhere (Ctrl+Up, undo) must not wipe what is being typed
+                    bound.editor.setText(display_text(spec.get(project), spec.quantity, system))
                 bound.unit_label.setText(unit_suffix(spec.quantity, system).replace("–", ""))
                 help_text = f"Allowed: {range_text(LIMITS[spec.limit], spec.quantity, system)}."
                 bound.editor.setToolTip(f"{spec.tooltip} {help_text}".strip())
@@ -242,7 +244,7 @@ class FormPanel(QWidget):
             elif isinstance(spec, CheckField):
                 with QSignalBlocker(bound.editor):
                     bound.editor.setChecked(bool(spec.get(project)))
-            else:
+            elif not typing:
                 bound.editor.setText(str(spec.get(project) or ""))
         self._refresh_placeholders()
 
