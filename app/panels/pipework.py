@@ -114,10 +114,12 @@ class PipeworkPanel(QWidget):
                                      "or Ctrl+Up / Ctrl+Down anywhere in the window.")
         self.size_stepper.stepRequested.connect(self.step_selected)
         size_row.addWidget(self.size_stepper)
-        self.size_label = QLabel()
-        self.size_label.setSizePolicy(QSizePolicy.Policy.Ignored, QSizePolicy.Policy.Preferred)
-        size_row.addWidget(self.size_label, 1)
+        size_row.addStretch(1)
         top_layout.addLayout(size_row)
+        self.size_label = QLabel()
+        self.size_label.setWordWrap(True)
+        self.size_label.setSizePolicy(QSizePolicy.Policy.Ignored, QSizePolicy.Policy.Preferred)
+        top_layout.addWidget(self.size_label)
         splitter.addWidget(top)
 
         # ---- fittings of the selected segment
@@ -181,7 +183,7 @@ class PipeworkPanel(QWidget):
         segment = project.segments[index]
         self.fittings_box.setTitle(f"Fittings of segment {index + 1} — {segment.name}")
         system = self._document.unit_system
-        bore = (f"bore {display_text(segment.internal_diameter_m, 'diameter', system)} "
+        bore = (f"Bore {display_text(segment.internal_diameter_m, 'diameter', system)} "
                 f"{unit_suffix('diameter', system)}")
         solution = self._document.solution
         if solution is not None and solution.project is project and index < len(solution.segments):
