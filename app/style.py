@@ -33,6 +33,8 @@ GREY = "#7F7F7F"
 LIGHT_GREY = "#BDBDBD"
 PLOT_BACKGROUND = "#FFFFFF"
 PLOT_FOREGROUND = "#202020"
+GRID_COLOUR = "#E4E4E4"
+"""Light grid lines behind the data."""
 
 # --------------------------------------------------------------------------- roles
 STATIC_COLOURS: dict[str, str] = {"min": BLUE, "max": VERMILLION}

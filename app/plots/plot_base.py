@@ -71,7 +71,12 @@ def style_plot_item(plot_item: pg.PlotItem) -> None:
         axis.setTextPen(pg.mkPen(style.PLOT_FOREGROUND))
         axis.setTickFont(style.tick_font())
         axis.enableAutoSIPrefix(False)
-    plot_item.showGrid(x=True, y=True, alpha=0.15)
+    # A GridItem behind the data draws the same light grid as the axes' own grid at a
+    # fraction of the painting cost (the axes' grid is replayed on every repaint).
+    grid = pg.GridItem(textPen=None)
+    grid.setPen(pg.mkPen(style.GRID_COLOUR))
+    grid.setZValue(-100)
+    plot_item.addItem(grid, ignoreBounds=True)
     plot_item.hideButtons()
 
 

@@ -26,15 +26,36 @@ class PlotTabs(QTabWidget):
         self.setTabToolTip(0, "System curves, pump curves and operating points")
         self.setTabToolTip(1, "Efficiency and shaft power of one pump against its flow")
         self.setTabToolTip(2, "NPSH available against NPSH required, with the margin at each point")
+        self._pending: dict[int, tuple[Any, str]] = {}
+        self.currentChanged.connect(self._draw_pending)
 
     def plots(self) -> tuple[HeadFlowPlot, EfficiencyPowerPlot, NpshPlot]:
         """The three plot widgets, in tab order."""
         return self.head_flow, self.efficiency_power, self.npsh
 
     def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
-        """Draw ``solution`` in every tab (``None`` clears them)."""
-        for plot in self.plots():
-            plot.show_solution(solution, unit_system)
+        """Draw ``solution`` in the visible tab now and in the others when they are shown.
+
+        ``None`` clears them.  Hidden tabs keep the newest solution pending, so a burst
+        of edits redraws only what the user can see.
+        """
+        current = self.currentIndex()
+        for index, plot in enumerate(self.plots()):
+            if index == current or not self.isVisible():
+                plot.show_solution(solution, unit_system)
+                self._pending.pop(index, None)
+            else:
+                self._pending[index] = (solution, unit_system)
+
+    def _draw_pending(self, index: int) -> None:
+        pending = self._pending.pop(index, None)
+        if pending is not None:
+            self.plots()[index].show_solution(*pending)
+
+    def flush(self) -> None:
+        """Draw every pending solution now (before exporting or grabbing all tabs)."""
+        for index in list(self._pending):
+            self._draw_pending(index)
 
     def pin_snapshot(self) -> None:
         """Pin the head–flow curves now drawn as a faint snapshot."""
@@ -51,5 +72,6 @@ class PlotTabs(QTabWidget):
 
     def fit_view(self) -> None:
         """Return every plot to the automatic view of its data."""
+        self.flush()
         for plot in self.plots():
             plot.fit_view()

@@ -80,6 +80,8 @@ class OperatingPointsModel(QAbstractTableModel):
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent)
         self._points: list[Any] = []
+        self._found: list[bool] = []
+        self._display_cache: dict[tuple[int, int], str] = {}
         self._unit_system = "SI"
 
     # ------------------------------------------------------------------ public API
@@ -87,6 +89,8 @@ class OperatingPointsModel(QAbstractTableModel):
         """Show ``points`` (operating-point objects) in ``unit_system``."""
         self.beginResetModel()
         self._points = list(points)
+        self._found = [bool(read.found_points([p])) for p in self._points]
+        self._display_cache: dict[tuple[int, int], str] = {}
         self._unit_system = unit_system
         self.endResetModel()
 
@@ -100,7 +104,7 @@ class OperatingPointsModel(QAbstractTableModel):
 
     def is_found(self, row: int) -> bool:
         """True when ``row`` holds an operating point (not only a reason)."""
-        return bool(read.found_points([self._points[row]]))
+        return self._found[row]
 
     # ------------------------------------------------------------------ Qt model
     def rowCount(self, parent: Index = QModelIndex()) -> int:  # noqa: B008 - Qt signature
@@ -134,9 +138,13 @@ class OperatingPointsModel(QAbstractTableModel):
             return None
         point = self._points[index.row()]
         column = COLUMNS[index.column()]
-        found = self.is_found(index.row())
+        found = self._found[index.row()]
         if role == Qt.ItemDataRole.DisplayRole:
-            return self._display(point, column, index.column(), found)
+            key = (index.row(), index.column())
+            text = self._display_cache.get(key)
+            if text is None:
+                text = self._display_cache[key] = self._display(point, column, index.column(), found)
+            return text
         if role == Qt.ItemDataRole.ToolTipRole:
             if not found:
                 return f"No operating point: {read.field(point, 'reason', '') or 'not found'}"
