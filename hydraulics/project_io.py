@@ -653,12 +653,19 @@ def project_to_json(project: Project) -> str:
 def atomic_write_text(path: str | os.PathLike, text: str) -> None:
     """Write ``text`` to ``path`` atomically: temporary file, fsync, then rename over."""
     path = Path(path)
+    try:
+        mode = path.stat().st_mode & 0o777  # keep the permissions of the file replaced
+    except FileNotFoundError:
+        umask = os.umask(0)
+        os.umask(umask)
+        mode = 0o666 & ~umask  # what an ordinary new file would get
     fd, tmp_name = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
             handle.write(text)
             handle.flush()
             os.fsync(handle.fileno())
+        os.chmod(tmp_name, mode)
         os.replace(tmp_name, path)
     except BaseException:
         try:

@@ -154,3 +154,21 @@ def test_misspelt_key_is_refused_not_ignored():
         project_from_dict(data)
     assert info.value.field_path == "energy.annual_volume_m3"
     assert "unknown field" in info.value.problem
+
+
+def test_save_keeps_ordinary_permissions(tmp_path):
+    path = tmp_path / "p.pumpsketch.json"
+    save_project(typed_project(), path)
+    mode = path.stat().st_mode & 0o777
+    assert mode == 0o666 & ~_umask()  # as an ordinary new file, not the 0600 of a temporary file
+    path.chmod(0o640)
+    save_project(typed_project(), path)
+    assert path.stat().st_mode & 0o777 == 0o640
+
+
+def _umask() -> int:
+    import os
+
+    current = os.umask(0)
+    os.umask(current)
+    return current

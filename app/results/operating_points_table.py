@@ -205,13 +205,22 @@ class OperatingPointsTable(QTableView):
         self.setCornerButtonEnabled(False)
         header = self.horizontalHeader()
         header.setDefaultAlignment(Qt.AlignmentFlag.AlignCenter)
-        header.setSectionResizeMode(QHeaderView.ResizeMode.ResizeToContents)
+        header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
         self.verticalHeader().setVisible(False)
         self.points_model.modelReset.connect(self._update_spans)
+        self._sized_for: tuple[int, str] | None = None
 
     def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
-        """Show the operating points of ``solution`` in ``unit_system``."""
+        """Show the operating points of ``solution`` in ``unit_system``.
+
+        Columns are sized to their contents when the rows or the units change, not on
+        every solve (measuring every cell on each edit would slow the live redraw).
+        """
         self.points_model.show_solution(solution, unit_system)
+        shape = (self.points_model.rowCount(), unit_system)
+        if shape != self._sized_for:
+            self._sized_for = shape
+            self.resizeColumnsToContents()
 
     def _update_spans(self) -> None:
         self.clearSpans()
