@@ -71,13 +71,44 @@ def style_plot_item(plot_item: pg.PlotItem) -> None:
         axis.setTextPen(pg.mkPen(style.PLOT_FOREGROUND))
         axis.setTickFont(style.tick_font())
         axis.enableAutoSIPrefix(False)
-    # A GridItem behind the data draws the same light grid as the axes' own grid at a
-    # fraction of the painting cost (the axes' grid is replayed on every repaint).
-    grid = pg.GridItem(textPen=None)
-    grid.setPen(pg.mkPen(style.GRID_COLOUR))
-    grid.setZValue(-100)
-    plot_item.addItem(grid, ignoreBounds=True)
+    GridLines(plot_item)
     plot_item.hideButtons()
+
+
+class GridLines(pg.PlotCurveItem):
+    """Light grid lines at the axes' major and minor ticks, one path behind the data.
+
+    The axes' own grid (``showGrid``) and ``pg.GridItem`` are replayed from large
+    pictures on every repaint and cost tens of milliseconds per frame offscreen; one
+    path of a few dozen segments, rebuilt only when the view range changes, costs
+    almost nothing.
+    """
+
+    def __init__(self, plot_item: pg.PlotItem):
+        super().__init__(pen=pg.mkPen(style.GRID_COLOUR, width=1), connect="pairs", antialias=False)
+        self._plot_item = plot_item
+        self.setZValue(-100)
+        plot_item.addItem(self, ignoreBounds=True)
+        plot_item.getViewBox().sigRangeChanged.connect(self._rebuild)
+        self._rebuild()
+
+    def _ticks(self, axis_name: str, low: float, high: float) -> list[float]:
+        axis = self._plot_item.getAxis(axis_name)
+        size = axis.height() if axis_name in ("left", "right") else axis.width()
+        levels = axis.tickValues(low, high, max(size, 1.0))
+        # major and minor levels: a line at every labelled value
+        return [float(v) for _spacing, values in levels[:2] for v in values]
+
+    def _rebuild(self, *_args) -> None:
+        (x0, x1), (y0, y1) = self._plot_item.getViewBox().viewRange()
+        xs, ys = [], []
+        for x in self._ticks("bottom", x0, x1):
+            xs += [x, x]
+            ys += [y0, y1]
+        for y in self._ticks("left", y0, y1):
+            xs += [x0, x1]
+            ys += [y, y]
+        self.setData(np.array(xs, dtype=float), np.array(ys, dtype=float))
 
 
 def set_axis_title(plot_item: pg.PlotItem, axis: str, text: str) -> None:
