@@ -11,6 +11,7 @@ pumps, variable speed, NPSH, energy and the checks.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 
@@ -99,11 +100,10 @@ def _solve_pumps(project: Project, system, fluid, p_atm: float) -> dict:
     from hydraulics.energy import annual_energy
     from hydraulics.operating_points import operating_points
     from hydraulics.pump_arrangement import arrangement_curve
-    from hydraulics.pump_fit import fit_pump
     from hydraulics.variable_speed import variable_speed, variable_speed_findings
 
     arrangement = project.arrangement
-    fitted = fit_pump(project.duty_pump, fluid.density_kg_m3)
+    fitted = _cached_fit(project.duty_pump, fluid.density_kg_m3)
     npsh_static = npsh_static_head(project, p_atm, fluid)
     points = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3)
     speed = variable_speed(system, fitted, arrangement, project.site.design_flow_m3_s,
@@ -122,6 +122,18 @@ def _solve_pumps(project: Project, system, fluid, p_atm: float) -> dict:
         "pump_curves": curves, "energy": energy, "curve_max_flow": 1.05 * curve_max,
         "npsh_static": npsh_static,
     }
+
+
+@lru_cache(maxsize=16)
+def _cached_fit(pump, density_kg_m3: float):
+    """The fitted pump, reused while the pump data and fluid are unchanged.
+
+    The model is immutable and hashable, so an edit of the pipework (the common case in
+    the window) does not refit the same pump curve.
+    """
+    from hydraulics.pump_fit import fit_pump
+
+    return fit_pump(pump, density_kg_m3)
 
 
 @dataclass(frozen=True, eq=False)

@@ -203,6 +203,11 @@ class FormPanel(QWidget):
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
         editor.setToolTip(spec.tooltip)
 
+    def showEvent(self, event) -> None:  # noqa: N802 - Qt name
+        if getattr(self, "_stale", False):
+            self.refresh()
+        super().showEvent(event)
+
     # ------------------------------------------------------------------ reading
     def editor(self, key: str) -> QWidget:
         """The editor widget of field ``key`` (for tests and focus)."""
@@ -212,7 +217,15 @@ class FormPanel(QWidget):
         return list(self._bound)
 
     def refresh(self, *_args) -> None:
-        """Show the project's current values (and hide fields that do not apply)."""
+        """Show the project's current values (and hide fields that do not apply).
+
+        A form on a hidden tab only notes that it is stale and refreshes when shown, so
+        an edit elsewhere does not rebuild every form of the window.
+        """
+        if self.window().isVisible() and not self.isVisible():
+            self._stale = True
+            return
+        self._stale = False
         project = self._document.project
         system = self._document.unit_system
         for section, box in self._groups:
