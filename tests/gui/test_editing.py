@@ -110,13 +110,13 @@ def test_pasting_a_block_is_one_undo_step(window, document):
     view = window.pipework.segments_view
     model = window.pipework.segments_model
     before = document.project
-    view.setCurrentIndex(_cell(model, 1, "length"))
-    QApplication.clipboard().setText("15\t100.5\r\n2600\t101\r\n")
+    view.setCurrentIndex(_cell(model, 1, "start_elevation"))
+    QApplication.clipboard().setText("100.5\t104\r\n101\t176.5\r\n")
     steps = document.undo_stack.count()
     assert clipboard.paste_clipboard(view)
     segments = document.project.segments
-    assert (segments[1].length_m, segments[1].start_elevation_m) == (15.0, 100.5)
-    assert (segments[2].length_m, segments[2].start_elevation_m) == (2600.0, 101.0)
+    assert (segments[1].start_elevation_m, segments[1].end_elevation_m) == (100.5, 104.0)
+    assert (segments[2].start_elevation_m, segments[2].end_elevation_m) == (101.0, 176.5)
     assert document.undo_stack.count() == steps + 1
     document.undo_stack.undo()
     assert document.project is before
@@ -128,11 +128,11 @@ def test_a_bad_cell_refuses_the_whole_paste(window, document):
     view = window.pipework.segments_view
     model = window.pipework.segments_model
     before = document.project
-    view.setCurrentIndex(_cell(model, 1, "length"))
-    assert not clipboard.paste_text(view, "15\t100\n-3\t101\n")
+    view.setCurrentIndex(_cell(model, 1, "start_elevation"))
+    assert not clipboard.paste_text(view, "100\t101\n-3000\t101\n")
     assert document.project is before
-    assert "row 3, column 'Length'" in messages[-1]
-    assert "between 0 and 100000 m" in messages[-1]
+    assert "row 3, column 'Start elevation'" in messages[-1]
+    assert "between -1000 and 9000 m" in messages[-1]
 
 
 def test_copy_then_paste_back_changes_nothing(window, document):
