@@ -29,6 +29,7 @@ from app.plots.plot_base import (
     nice_range,
     place_labels,
     set_axis_title,
+    update_label_pool,
 )
 from app.results import solution_reading as read
 from app.results.formatting import format_number
@@ -350,20 +351,7 @@ class HeadFlowPlot(QWidget):
                           "size": look.size, "data": label})
             self._marked.append((x, y, label))
         self.points_item.setData(spots)
-        while len(self._point_labels) < len(self._marked):
-            text_item = pg.TextItem("", color=style.PLOT_FOREGROUND, fill=pg.mkBrush(255, 255, 255, 150))
-            text_item.setFont(style.annotation_font())
-            text_item.setZValue(45)
-            self.plot_item.addItem(text_item, ignoreBounds=True)
-            self._point_labels.append(text_item)
-        for index, text_item in enumerate(self._point_labels):
-            if index < len(self._marked):
-                x, y, label = self._marked[index]
-                text_item.setText(label)
-                text_item.setPos(x, y)
-                text_item.setVisible(True)
-            else:
-                text_item.setVisible(False)
+        update_label_pool(self.plot_item, self._point_labels, self._marked, fill_alpha=150)
         self._place_point_labels()
 
     def _place_point_labels(self, *_args) -> None:

@@ -32,6 +32,7 @@ from app.plots.plot_base import (
     place_labels,
     point_spots,
     set_axis_title,
+    update_label_pool,
 )
 from app.results import solution_reading as read
 from app.results.formatting import format_number
@@ -205,20 +206,7 @@ class NpshPlot(QWidget):
             text = (f"least margin, {read.pumps_phrase(pumps)}: {format_number(self._head(margin), 3)} {head_unit}"
                     + (f" (ratio {ratio:.2f})" if ratio is not None else ""))
             self._margin_marks.append((x_of(point), self._head(float(point.npsh_available_m)), text))
-        while len(self._margin_labels) < len(self._margin_marks):
-            label = pg.TextItem("", color=style.PLOT_FOREGROUND, fill=pg.mkBrush(255, 255, 255, 170))
-            label.setFont(style.annotation_font())
-            label.setZValue(45)
-            self.plot_item.addItem(label, ignoreBounds=True)
-            self._margin_labels.append(label)
-        for index, label in enumerate(self._margin_labels):
-            if index < len(self._margin_marks):
-                x, y, text = self._margin_marks[index]
-                label.setText(text)
-                label.setPos(x, y)
-                label.setVisible(True)
-            else:
-                label.setVisible(False)
+        update_label_pool(self.plot_item, self._margin_labels, self._margin_marks, fill_alpha=170)
         self._place_margin_labels()
 
     def _place_margin_labels(self, *_args) -> None:

@@ -111,6 +111,28 @@ class GridLines(pg.PlotCurveItem):
         self.setData(np.array(xs, dtype=float), np.array(ys, dtype=float))
 
 
+def update_label_pool(plot_item: pg.PlotItem, pool: list[pg.TextItem],
+                      marks: Sequence[tuple[float, float, str]], fill_alpha: int = 150) -> None:
+    """Show one TextItem per ``(x, y, text)`` mark, growing ``pool`` as needed, hiding the rest.
+
+    Items are created once and reused, so a redraw only moves and retexts them.
+    """
+    while len(pool) < len(marks):
+        item = pg.TextItem("", color=style.PLOT_FOREGROUND, fill=pg.mkBrush(255, 255, 255, fill_alpha))
+        item.setFont(style.annotation_font())
+        item.setZValue(45)
+        plot_item.addItem(item, ignoreBounds=True)
+        pool.append(item)
+    for index, item in enumerate(pool):
+        if index < len(marks):
+            x, y, text = marks[index]
+            item.setText(text)
+            item.setPos(x, y)
+            item.setVisible(True)
+        else:
+            item.setVisible(False)
+
+
 def set_axis_title(plot_item: pg.PlotItem, axis: str, text: str) -> None:
     """Axis title in the PumpSketch font, without pyqtgraph's automatic SI prefixes."""
     plot_item.setLabel(axis, text, **{"color": style.PLOT_FOREGROUND, "font-size": style.LABEL_FONT_SIZE})
