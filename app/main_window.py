@@ -242,7 +242,8 @@ class MainWindow(QMainWindow):
         ``("segment", i)`` selects the row in Pipework; ``("pump", …)`` and
         ``("arrangement", …)`` open Pumps; ``("site", name)`` opens Site & fluid and
         focuses the field of that name where there is one; ``("criteria", name)`` opens
-        Criteria; ``("scenario", label)`` shows the operating points.
+        Criteria; ``("scenario", (static, pipe, pumps, speed))`` selects that row of the
+        operating points.
         """
         if not target:
             return
@@ -265,6 +266,7 @@ class MainWindow(QMainWindow):
             if isinstance(what, str):
                 self.criteria_panel.focus_field(what)
         elif kind == "scenario":
+            self.points_table.select_scenario(what)
             self.points_table.setFocus()
 
     # ------------------------------------------------------------------ action slots

@@ -171,7 +171,7 @@ def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m:
     for point in points:
         label = _scenario_label(point)
         where = f"{pump_where}, {label}"
-        target = ("scenario", label)
+        target = ("scenario", (point.static, point.pipe, point.pumps_running, point.speed_ratio))
         if not point.found:
             out.append(Finding(
                 "critical", "no_operating_point",

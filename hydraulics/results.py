@@ -72,7 +72,8 @@ class Finding:
 
     ``code`` is stable (tests and scripts may rely on it).  ``target`` lets the window
     select what the finding is about: ``("segment", index)``, ``("pump", pump_id)``,
-    ``("site", field)``, ``("scenario", label)`` or ``None``.
+    ``("site", field)``, ``("scenario", (static, pipe, pumps_running, speed_ratio))`` or
+    ``None``.
 
     ``message`` is the text in SI units.  Where a finding quotes physical values,
     ``template`` holds the same text with ``{name}`` placeholders and ``values`` the

@@ -3,7 +3,7 @@
 The panel only shows :class:`~hydraulics.results.Finding` objects from the solution; it
 never judges a value itself.  Clicking (or activating with the keyboard) a finding emits
 :attr:`ChecksPanel.findingActivated` with the finding's ``target`` — ``("segment", 2)``,
-``("pump", "P1")``, ``("site", "suction")``, ``("scenario", label)`` — so the window can
+``("pump", "P1")``, ``("site", "suction")``, ``("scenario", (static, pipe, pumps_running, speed_ratio))`` — so the window can
 select the row or panel concerned.
 """
 

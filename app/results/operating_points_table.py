@@ -222,6 +222,21 @@ class OperatingPointsTable(QTableView):
             self._sized_for = shape
             self.resizeColumnsToContents()
 
+    def select_scenario(self, scenario) -> bool:
+        """Select the row of ``(static, pipe, pumps_running, speed_ratio)``; False if not shown."""
+        if not (isinstance(scenario, tuple) and len(scenario) == 4):
+            return False
+        static, pipe, pumps, speed = scenario
+        for row in range(self.points_model.rowCount()):
+            point = self.points_model.point(row)
+            if (getattr(point, "static", None) == static and getattr(point, "pipe", None) == pipe
+                    and getattr(point, "pumps_running", None) == pumps
+                    and abs(float(getattr(point, "speed_ratio", 1.0)) - float(speed)) < 1e-9):
+                self.selectRow(row)
+                self.scrollTo(self.points_model.index(row, 0))
+                return True
+        return False
+
     def _update_spans(self) -> None:
         self.clearSpans()
         span = len(COLUMNS) - FIRST_VALUE_COLUMN

@@ -163,6 +163,18 @@ def test_a_pump_finding_opens_the_pumps_panel(make_window, sample_copies, qtbot)
     assert window.input_tabs.tabText(window.input_tabs.currentIndex()) == "Pumps"
 
 
+def test_a_scenario_finding_selects_its_operating_point_row(make_window, sample_copies, qtbot):
+    window = make_window(sample_copies / "sewage_wet_well.pumpsketch.json")
+    window.show()
+    window.document.recompute_now()
+    finding = next(f for f in window.document.solution.findings if f.target and f.target[0] == "scenario")
+    _click_finding(qtbot, window, lambda f: f is finding)
+    rows = window.points_table.selectionModel().selectedRows()
+    assert len(rows) == 1
+    point = window.points_table.points_model.point(rows[0].row())
+    assert (point.static, point.pipe, point.pumps_running, point.speed_ratio) == finding.target[1]
+
+
 def test_a_site_finding_opens_the_site_panel_at_its_field(window):
     finding = Finding("warning", "test_only", "made up for the test", "site", target=("site", "pump_datum"))
     window.checks_panel.findingActivated.emit(finding.target)
