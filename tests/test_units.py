@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import time
 
 import numpy as np
 import pint
@@ -225,15 +224,6 @@ def test_any_text_returns_float_or_unit_input_error(text):
         return
     assert isinstance(value, float)
     assert np.isfinite(value)
-
-
-def test_parse_is_fast_enough_for_every_cell_edit():
-    parse_quantity("120 m³/h", "flow")  # first call fills the unit cache
-    start = time.perf_counter()
-    for _ in range(200):
-        parse_quantity("120 m³/h", "flow")
-    per_call_s = (time.perf_counter() - start) / 200
-    assert per_call_s < 1e-3
 
 
 # --------------------------------------------------------------------------- display units
