@@ -23,3 +23,21 @@ def test_suction_lift_at_altitude_with_warm_water():
     expected = (79_501.0 - 4_247.0) / (995.65 * 9.80665) - 3.0 - 0.8  # = 7.7074 − 3.8 = 3.907 m (hand)
     assert npsh_available(p_atm, 4_247.0, 995.65, 97.0, 100.0, 0.8) == pytest.approx(expected, abs=1e-3)
     assert expected == pytest.approx(3.907, abs=1e-3)
+
+
+FT = 0.3048  # m, exact (NIST SP 811)
+PSI = 6894.757293168  # Pa per lbf/in², NIST SP 811
+WATER_60F_DENSITY = 999.0  # kg/m³ at 60 °F (15.6 °C); specific gravity 1.0 as the example takes it
+
+
+@pytest.mark.parametrize("height_ft, expected_ft", [
+    (15.0, 46.0),   # "NPSHA: Atmospheric Tank": NPSHA = 34 + 15 − 0.6 − 0.4 − 2 = 46 ft
+    (-20.0, 11.0),  # Example 10.11 "Suction Lift from Open Reservoir": 34 + (−20) − 0.6 − 0.4 − 2 = 11 ft
+])
+def test_npsh_available_against_published_worked_examples(height_ft, expected_ft):
+    # Worked examples "Calculating NPSHA" (section 10.2.12.1) of a water and wastewater treatment
+    # operations handbook, as reprinted at climate-policy-watcher.org/wastewater-treatment-3/calculating-npsha:
+    # water at 60 °F, Pa = 14.7 psia (34 ft), Pv = 0.256 psia (0.6 ft), entrance loss 0.4 ft, friction
+    # loss 2 ft. The example rounds each head to 0.1 ft (34 ft for 33.9 ft), so agreement is to 0.2 ft.
+    result_m = npsh_available(14.7 * PSI, 0.256 * PSI, WATER_60F_DENSITY, height_ft * FT, 0.0, (0.4 + 2.0) * FT)
+    assert result_m / FT == pytest.approx(expected_ft, abs=0.2)
