@@ -32,6 +32,7 @@ from app import clipboard, settings
 from app.cautions import CAUTIONS_TEXT, CautionsBanner
 from app.document import ProjectDocument
 from app.help_page import HelpDialog
+from app.layout_barrier import LayoutBarrier
 from app.panels import actions as action_table
 from app.panels.criteria import CriteriaPanel
 from app.panels.file_controller import FileController
@@ -95,7 +96,8 @@ class MainWindow(QMainWindow):
         self.input_tabs.setObjectName("input_tabs")
         for title, panel in zip(INPUT_TABS, (self.site_panel, self.pipework, self.pumps_panel,
                                              self.criteria_panel)):
-            self.input_tabs.addTab(panel if panel is self.pipework else _scrolled(panel), title.replace("&", "&&"))
+            page = LayoutBarrier(panel) if panel is self.pipework else _scrolled(panel)
+            self.input_tabs.addTab(page, title.replace("&", "&&"))
         self.input_tabs.setCurrentIndex(1)
         self.plot_tabs = PlotTabs()
         self.checks_panel = ChecksPanel()
