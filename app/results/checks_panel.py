@@ -41,6 +41,8 @@ class ChecksPanel(QWidget):
         self._findings: list[Any] = []
         self._unit_system = "SI"
         self._shown = False
+        self._shape: tuple[tuple[str, int], ...] | None = None  # (severity, count) per group shown
+        self._placeholder_text: str | None = None
         self.model = QStandardItemModel(0, len(COLUMNS), self)
         self.model.setHorizontalHeaderLabels(list(COLUMNS))
         self.view = QTreeView(self)
@@ -77,19 +79,29 @@ class ChecksPanel(QWidget):
         """
         self._unit_system = unit_system
         self._findings = sorted(findings or (), key=lambda f: SEVERITY_ORDER.get(getattr(f, "severity", ""), 9))
-        self.model.removeRows(0, self.model.rowCount())
         if not self._findings:
             text = "Every check passed: no findings." if solved else "No results yet."
+            if self._shape == () and self._placeholder_text == text:
+                return
+            self.model.removeRows(0, self.model.rowCount())
             placeholder = QStandardItem(text)
             placeholder.setEditable(False)
             placeholder.setForeground(QBrush(QColor(style.GREY)))
             self.model.appendRow([placeholder, _plain(""), _plain("")])
+            self._shape, self._placeholder_text = (), text
             return
+        groups = []
         for severity in SEVERITIES + tuple(
                 s for s in {getattr(f, "severity", "") for f in self._findings} if s not in SEVERITY_ORDER):
             members = [(i, f) for i, f in enumerate(self._findings) if getattr(f, "severity", "") == severity]
-            if not members:
-                continue
+            if members:
+                groups.append((severity, members))
+        shape = tuple((severity, len(members)) for severity, members in groups)
+        if shape == self._shape:
+            self._refresh_rows(groups)  # same groups and counts: new texts in place, no rebuild
+            return
+        self.model.removeRows(0, self.model.rowCount())
+        for severity, members in groups:
             group = QStandardItem(style.severity_icon(severity), _group_title(severity, len(members)))
             group.setEditable(False)
             group.setSelectable(False)
@@ -100,6 +112,7 @@ class ChecksPanel(QWidget):
                 group.appendRow(self._finding_row(index, finding))
             self.model.appendRow([group, _plain(""), _plain("")])
             self.view.setFirstColumnSpanned(self.model.rowCount() - 1, QModelIndex(), True)
+        self._shape, self._placeholder_text = shape, None
         self.view.expandAll()
 
     def group_titles(self) -> list[str]:
@@ -118,17 +131,37 @@ class ChecksPanel(QWidget):
         return QModelIndex()
 
     # ------------------------------------------------------------------ internals
-    def _finding_row(self, index: int, finding: Any) -> list[QStandardItem]:
+    def _refresh_rows(self, groups) -> None:
+        """Write the texts of ``groups`` into the rows already shown (same groups and counts)."""
+        for row, (_severity, members) in enumerate(groups):
+            group = self.model.item(row, 0)
+            for child, (index, finding) in enumerate(members):
+                for column, (text, tooltip) in enumerate(self._finding_cells(finding)):
+                    cell = group.child(child, column)
+                    if cell.text() != text:
+                        cell.setText(text)
+                    if cell.toolTip() != tooltip:
+                        cell.setToolTip(tooltip)
+                    if cell.data(FINDING_INDEX_ROLE) != index:
+                        cell.setData(index, FINDING_INDEX_ROLE)
+
+    def _finding_cells(self, finding: Any) -> list[tuple[str, str]]:
+        """(text, tooltip) of the three cells of ``finding``'s row."""
         text = getattr(finding, "text", None)
         message = str(text(self._unit_system) if callable(text) else getattr(finding, "message", ""))
         where = str(getattr(finding, "where", ""))
         remedy = str(getattr(finding, "remedy", "") or "")
         code = str(getattr(finding, "code", ""))
         tooltip = message + (f"\n\nRemedy: {remedy}" if remedy else "") + (f"\n\nCheck: {code}" if code else "")
-        cells = [_plain(message), _plain(where), _plain(remedy)]
-        for cell in cells:
+        return [(message, tooltip), (where, tooltip), (remedy, tooltip)]
+
+    def _finding_row(self, index: int, finding: Any) -> list[QStandardItem]:
+        cells = []
+        for message, tooltip in self._finding_cells(finding):
+            cell = _plain(message)
             cell.setToolTip(tooltip)
             cell.setData(index, FINDING_INDEX_ROLE)
+            cells.append(cell)
         return cells
 
     def _on_index(self, index: QModelIndex) -> None:

@@ -224,3 +224,30 @@ def test_checks_panel_states_quoted_values_in_the_unit_system(qtbot):
              for row in range(model.rowCount()) for child in range(model.rowCount(model.index(row, 0)))]
     # 3.048 m/s = 10 ft/s exactly (1 ft = 0.3048 m, NIST SP 811)
     assert shown == ["Velocity 10.00 ft/s is above the maximum 8.20 ft/s."]
+
+
+def test_checks_panel_rewrites_texts_and_targets_when_the_groups_stay_the_same(qtbot):
+    from hydraulics.results import finding
+
+    panel = ChecksPanel()
+    qtbot.addWidget(panel)
+
+    def velocity(v, where, target):
+        return finding("warning", "velocity_high", "Velocity {v} is above the maximum {limit}.",
+                       {"v": (v, "velocity"), "limit": (2.5, "velocity")}, where, target=target)
+
+    panel.show_findings([velocity(3.0, "segment 'a'", ("segment", 0))], "SI")
+    panel.show_findings([velocity(2.8, "segment 'b'", ("segment", 1))], "SI")  # same group, same count
+    assert panel.group_titles() == ["Warning (1)"]
+    cell = panel.model.item(0, 0).child(0, 0)
+    # 2.8 and 2.5 are the invented values of this test, shown to two decimals
+    assert cell.text() == "Velocity 2.80 m/s is above the maximum 2.50 m/s."
+    assert panel.model.item(0, 0).child(0, 1).text() == "segment 'b'"
+    assert "Check: velocity_high" in cell.toolTip()
+    with qtbot.waitSignal(panel.findingActivated, timeout=1000) as blocker:
+        panel.view.activated.emit(panel.index_of_finding(0))
+    assert blocker.args == [("segment", 1)]
+    panel.show_findings([velocity(3.0, "segment 'a'", ("segment", 0))] * 2, "SI")  # the count changes
+    assert panel.group_titles() == ["Warning (2)"]
+    panel.show_findings((), "SI")
+    assert panel.model.item(0, 0).text() == "Every check passed: no findings."
