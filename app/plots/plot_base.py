@@ -134,8 +134,20 @@ def update_label_pool(plot_item: pg.PlotItem, pool: list[pg.TextItem],
 
 
 def set_axis_title(plot_item: pg.PlotItem, axis: str, text: str) -> None:
-    """Axis title in the PumpSketch font, without pyqtgraph's automatic SI prefixes."""
-    plot_item.setLabel(axis, text, **{"color": style.PLOT_FOREGROUND, "font-size": style.LABEL_FONT_SIZE})
+    """Axis title in the PumpSketch font, without pyqtgraph's automatic SI prefixes.
+
+    Setting a title makes the axis lay itself out and draw its ticks afresh, so a title
+    that is already shown as asked is left alone (the plots set theirs on every redraw).
+    """
+    label_style = {"color": style.PLOT_FOREGROUND, "font-size": style.LABEL_FONT_SIZE}
+    axis_item = plot_item.getAxis(axis)
+    shown_as_asked = (axis_item.labelText == text and axis_item.labelStyle == label_style
+                      and axis_item.labelUnits == "" and axis_item.labelUnitPrefix == ""
+                      and axis_item.unitPower == 1 and getattr(axis_item, "_siPrefixEnableRanges", 0) is None
+                      and axis_item.label.isVisible() == bool(text) and axis_item.isVisible())
+    if shown_as_asked:
+        return
+    plot_item.setLabel(axis, text, **label_style)
 
 
 def empty_array() -> np.ndarray:

@@ -408,3 +408,25 @@ def test_sample_project_solutions_draw_in_every_tab(qtbot, sample):
     assert len(tabs.efficiency_power.marked_points()) == len(
         [p for p in found if p.efficiency is not None])
     assert tabs.npsh.available_data("aged")[0].size == solution.npsh_available_curve.flow_m3_s.size
+
+
+def test_an_axis_title_already_shown_is_not_set_again(qtbot):
+    import pyqtgraph as pg
+
+    from app.plots.plot_base import set_axis_title
+
+    widget = pg.PlotWidget()
+    qtbot.addWidget(widget)
+    plot_item = widget.getPlotItem()
+    axis = plot_item.getAxis("left")
+    relabelled = []
+    original = axis._updateLabel
+    axis._updateLabel = lambda: (relabelled.append(axis.labelText), original())
+    set_axis_title(plot_item, "left", "Head (m)")
+    assert relabelled and set(relabelled) == {"Head (m)"}
+    first = len(relabelled)
+    set_axis_title(plot_item, "left", "Head (m)")
+    assert len(relabelled) == first  # the same title again: the axis is left alone
+    set_axis_title(plot_item, "left", "Head (ft)")
+    assert relabelled[first:] and set(relabelled[first:]) == {"Head (ft)"}
+    assert "Head (ft)" in axis.label.toHtml()
