@@ -273,7 +273,12 @@ class HeadFlowPlot(QWidget):
         order = np.argsort(grid)
         grid = grid[order]
         stack = np.vstack([np.interp(grid, *_sorted_xy(x, y)) for x, y in drawn])
-        self._band_low.setData(grid, stack.min(axis=0))
+        # The fill rebuilds its path whenever an edge changes: build it once, with both edges new.
+        self._band_low.blockSignals(True)
+        try:
+            self._band_low.setData(grid, stack.min(axis=0))
+        finally:
+            self._band_low.blockSignals(False)
         self._band_high.setData(grid, stack.max(axis=0))
         self.system_band.setVisible(True)
 

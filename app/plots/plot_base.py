@@ -323,33 +323,52 @@ def place_labels(view_box: pg.ViewBox, labels: Sequence[tuple[pg.TextItem, float
     in ``obstacles`` (view coordinates); failing that, the corner with the least overlap.
     """
     bounds = view_box.sceneBoundingRect()
-    placed: list[QRectF] = []
-    markers = []
+    bounds_box = (bounds.left(), bounds.top(), bounds.width(), bounds.height())
+    anchors = np.array(_CANDIDATE_ANCHORS, dtype=float)
+    # Boxes taken so far, as (left, top, width, height) rows: the markers, then each label placed.
+    taken = []
     for x, y in obstacles:
         p = view_box.mapViewToScene(QPointF(x, y))
-        markers.append(QRectF(p.x() - marker_px, p.y() - marker_px, 2 * marker_px, 2 * marker_px))
+        taken.append((p.x() - marker_px, p.y() - marker_px, 2 * marker_px, 2 * marker_px))
+    n_markers = len(taken)
     for text_item, x, y in labels:
         p = view_box.mapViewToScene(QPointF(x, y))
         rect = text_item.textItem.boundingRect()
         width, height = rect.width(), rect.height()
-        best_anchor, best_cost = _CANDIDATE_ANCHORS[0], float("inf")
-        best_box = None
-        for ax, ay in _CANDIDATE_ANCHORS:
-            box = QRectF(p.x() - ax * width, p.y() - ay * height, width, height)
-            cost = 0.0
-            for other in placed + markers:
-                inter = box.intersected(other)
-                if not inter.isEmpty():
-                    cost += inter.width() * inter.height()
-            outside = box.width() * box.height() - box.intersected(bounds).width() * box.intersected(bounds).height()
-            cost += 4.0 * max(outside, 0.0)
-            if cost < best_cost:
-                best_anchor, best_cost, best_box = (ax, ay), cost, box
-            if cost == 0.0:
-                break
-        text_item.setAnchor(best_anchor)
-        if best_box is not None:
-            placed.append(best_box)
+        left = p.x() - anchors[:, 0] * width
+        top = p.y() - anchors[:, 1] * height
+        # Placed labels were tried first in the loop this replaces, then the markers; the
+        # overlap areas are summed in that order (cumsum adds strictly left to right).
+        others = np.array(taken[n_markers:] + taken[:n_markers], dtype=float).reshape(-1, 4)
+        overlap = _overlap_areas(left, top, width, height, others)
+        cost = np.cumsum(overlap, axis=1)[:, -1] if overlap.shape[1] else np.zeros(len(anchors))
+        inside = _overlap_areas(left, top, width, height, np.array([bounds_box], dtype=float))[:, 0]
+        outside = width * height - inside
+        cost = cost + 4.0 * np.maximum(outside, 0.0)
+        finite = np.flatnonzero(cost < float("inf"))
+        if finite.size:
+            best = int(finite[np.argmin(cost[finite])])
+            text_item.setAnchor(_CANDIDATE_ANCHORS[best])
+            taken.append((float(left[best]), float(top[best]), width, height))
+        else:
+            text_item.setAnchor(_CANDIDATE_ANCHORS[0])
+
+
+def _overlap_areas(left: np.ndarray, top: np.ndarray, width: float, height: float,
+                   others: np.ndarray) -> np.ndarray:
+    """Areas of overlap (candidates × others) of boxes (left, top, width, height).
+
+    Computed as QRectF.intersected does (edge = origin + size; no overlap, or a
+    zero-width one, gives 0), so the areas equal those of the Qt rectangles.
+    """
+    right = left + width
+    bottom = top + height
+    o_left, o_top = others[:, 0], others[:, 1]
+    o_right, o_bottom = o_left + others[:, 2], o_top + others[:, 3]
+    overlap_w = np.minimum(right[:, None], o_right) - np.maximum(left[:, None], o_left)
+    overlap_h = np.minimum(bottom[:, None], o_bottom) - np.maximum(top[:, None], o_top)
+    hit = (overlap_w > 0.0) & (overlap_h > 0.0)
+    return np.where(hit, overlap_w * overlap_h, 0.0)
 
 
 class PointKey:
