@@ -13,6 +13,7 @@ the same.
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 from PySide6.QtCore import QPointF, Qt
@@ -137,8 +138,15 @@ class PointStyle:
     size: float
 
 
+@functools.lru_cache(maxsize=64)
 def operating_point_style(static: str, pipe: str, pumps_running: int) -> PointStyle:
-    """Operating point: symbol by pumps running, colour by static extreme, hollow for aged pipe."""
+    """Operating point: symbol by pumps running, colour by static extreme, hollow for aged pipe.
+
+    One style object per combination, shared by every caller (treat its pen and brush as
+    read-only): the scatter items key their pre-drawn marker images on the pen and brush
+    objects, so handing them the same objects on each redraw lets them reuse the images
+    instead of drawing the markers afresh every time.
+    """
     colour = QColor(STATIC_COLOURS.get(static, GREY))
     pen = make_pen(colour, 2.0)
     pen.setCapStyle(Qt.PenCapStyle.SquareCap)
