@@ -209,9 +209,17 @@ class ProjectTableModel(QAbstractTableModel):
             self.beginRemoveRows(QModelIndex(), prefix, prefix + old_middle - 1)
             self._project, self._row_count = project, len(new)
             self.endRemoveRows()
-        self._project = project
-        if self._row_count and self._columns:
-            self.dataChanged.emit(self.index(0, 0), self.index(self._row_count - 1, len(self._columns) - 1))
+        previous, self._project = self._project, project
+        if not (self._row_count and self._columns):
+            return
+        first, last = 0, self._row_count - 1
+        if len(new) == len(old) and self.with_items(project, old) == previous:
+            # Only the listed items changed: the cells of the rows whose item is unchanged
+            # read exactly what they read before, so only the changed rows are announced.
+            first, last = prefix, len(new) - suffix - 1
+            if last < first:
+                return
+        self.dataChanged.emit(self.index(first, 0), self.index(last, len(self._columns) - 1))
 
     def reset(self) -> None:
         """Re-read everything (after the list shown changes, e.g. another segment)."""

@@ -199,6 +199,17 @@ class SegmentsModel(ProjectTableModel):
                        internal_diameter_m=size.internal_diameter_m, material_id=found.material_id)
 
     # ------------------------------------------------------------------ calculated column
+    def refresh(self) -> None:
+        """Follow the project; the calculated velocities of every row go blank with it.
+
+        The velocities shown belong to the solution of one project, so after any edit
+        they are out of date in all rows (not only the edited one) until the next solve.
+        """
+        super().refresh()
+        if self.rowCount() and self.table_columns:
+            column = len(self.table_columns) - 1
+            self.dataChanged.emit(self.index(0, column), self.index(self.rowCount() - 1, column))
+
     def _on_solution(self, _solution) -> None:
         if self.rowCount() == 0:
             return

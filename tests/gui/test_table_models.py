@@ -244,6 +244,31 @@ def test_velocity_column_shows_the_solution(segments, document):
     assert not segments.flags(index) & Qt.ItemFlag.ItemIsEditable
 
 
+def test_an_edit_announces_its_row_and_the_velocities_of_every_row(segments, document, window):
+    from dataclasses import replace
+
+    document.recompute_now()
+    announced: list[tuple[int, int, int, int]] = []
+    segments.dataChanged.connect(
+        lambda top, bottom, *_: announced.append((top.row(), bottom.row(), top.column(), bottom.column())))
+    project = document.project
+    last_row, last_column = segments.rowCount() - 1, segments.columnCount() - 1
+    velocity = column(segments, "velocity")
+    changed = replace(project.segments[RISING_MAIN], length_m=project.segments[RISING_MAIN].length_m + 10.0)
+    document.apply(replace(project, segments=project.segments[:RISING_MAIN] + (changed,)
+                           + project.segments[RISING_MAIN + 1:]), "Longer rising main")
+    assert (RISING_MAIN, RISING_MAIN, 0, last_column) in announced
+    assert (0, last_row, velocity, velocity) in announced  # velocities are out of date in every row
+    assert not any(top <= r <= bottom and left <= c <= right for top, bottom, left, right in announced
+                   for r in range(segments.rowCount()) if r != RISING_MAIN for c in range(velocity))
+    assert segments.data(segments.index(0, velocity), DISPLAY) in ("", "—")  # no stale velocity
+    announced.clear()
+    document.apply(replace(document.project, fluid=replace(document.project.fluid,
+                                                           temperature_c=document.project.fluid.temperature_c + 5.0)),
+                   "Warmer water")  # a change outside the rows: every cell is announced
+    assert (0, last_row, 0, last_column) in announced
+
+
 # ---------------------------------------------------------------------- fittings
 def test_fittings_show_catalogue_k_and_take_an_override(window, document):
     window.pipework.select_segment(RISING_MAIN)
