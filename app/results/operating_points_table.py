@@ -74,6 +74,12 @@ def _specific_energy_si(value_kwh_m3: float) -> float:
     return value_kwh_m3 * 3.6e6
 
 
+_ROLES_ANSWERED = frozenset(int(r) for r in (Qt.ItemDataRole.DisplayRole, Qt.ItemDataRole.ToolTipRole,
+                                              Qt.ItemDataRole.TextAlignmentRole, SI_VALUE_ROLE))
+_ALIGN_LEFT = int(Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter)
+_ALIGN_RIGHT = int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+
+
 class OperatingPointsModel(QAbstractTableModel):
     """Read-only table of operating points in display units."""
 
@@ -133,6 +139,8 @@ class OperatingPointsModel(QAbstractTableModel):
         return None
 
     def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole):
+        if int(role) not in _ROLES_ANSWERED:  # the view asks for many roles per cell; most have no answer
+            return None
         if not index.isValid() or not (0 <= index.row() < len(self._points)) \
                 or not (0 <= index.column() < len(COLUMNS)):
             return None
@@ -153,8 +161,8 @@ class OperatingPointsModel(QAbstractTableModel):
             return column.tooltip or None
         if role == Qt.ItemDataRole.TextAlignmentRole:
             if index.column() == 0 or (not found and index.column() == FIRST_VALUE_COLUMN):
-                return int(Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter)
-            return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+                return _ALIGN_LEFT
+            return _ALIGN_RIGHT
         if role == SI_VALUE_ROLE:
             return column.read(point)
         return None

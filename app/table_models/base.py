@@ -66,6 +66,13 @@ class Column:
         return self.kind != "readonly"
 
 
+_ROLES_ANSWERED = frozenset(int(r) for r in (
+    Qt.ItemDataRole.DisplayRole, Qt.ItemDataRole.EditRole, Qt.ItemDataRole.TextAlignmentRole,
+    Qt.ItemDataRole.BackgroundRole, Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.ToolTipRole))
+_ALIGN_LEFT = int(Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter)
+_ALIGN_RIGHT = int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+
+
 class ProjectTableModel(QAbstractTableModel):
     """A table over one list of the document's project (see module docstring)."""
 
@@ -283,6 +290,8 @@ class ProjectTableModel(QAbstractTableModel):
                 and 0 <= index.column() < len(self._columns))
 
     def data(self, index: ModelIndex, role: int = Qt.ItemDataRole.DisplayRole):
+        if int(role) not in _ROLES_ANSWERED:  # the view asks for many roles per cell; most have no answer
+            return None
         if not self._valid(index):
             return None
         row, column = index.row(), self._columns[index.column()]
@@ -295,9 +304,7 @@ class ProjectTableModel(QAbstractTableModel):
         if role == Qt.ItemDataRole.EditRole:
             return self.edit_value(self._project, row, column)
         if role == Qt.ItemDataRole.TextAlignmentRole:
-            if column.quantity is not None:
-                return int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
-            return int(Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter)
+            return _ALIGN_RIGHT if column.quantity is not None else _ALIGN_LEFT
         if role == Qt.ItemDataRole.BackgroundRole:
             if not self.cell_editable(self._project, row, column):
                 return READ_ONLY_BACKGROUND
