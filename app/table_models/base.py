@@ -71,6 +71,8 @@ _ROLES_ANSWERED = frozenset(int(r) for r in (
     Qt.ItemDataRole.BackgroundRole, Qt.ItemDataRole.ForegroundRole, Qt.ItemDataRole.ToolTipRole))
 _ALIGN_LEFT = int(Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter)
 _ALIGN_RIGHT = int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+_READ_ONLY_FLAGS = Qt.ItemFlag.ItemIsEnabled | Qt.ItemFlag.ItemIsSelectable
+_EDITABLE_FLAGS = _READ_ONLY_FLAGS | Qt.ItemFlag.ItemIsEditable
 
 
 class ProjectTableModel(QAbstractTableModel):
@@ -280,10 +282,9 @@ class ProjectTableModel(QAbstractTableModel):
     def flags(self, index: ModelIndex) -> Qt.ItemFlag:
         if not self._valid(index):
             return Qt.ItemFlag.NoItemFlags
-        flags = Qt.ItemFlag.ItemIsEnabled | Qt.ItemFlag.ItemIsSelectable
         if self.cell_editable(self._project, index.row(), self._columns[index.column()]):
-            flags |= Qt.ItemFlag.ItemIsEditable
-        return flags
+            return _EDITABLE_FLAGS
+        return _READ_ONLY_FLAGS
 
     def _valid(self, index: ModelIndex) -> bool:
         return (index.isValid() and 0 <= index.row() < self._row_count
