@@ -56,6 +56,18 @@ class FittingsModel(ProjectTableModel):
             self._segment = None
             self.reset()
             return
+        previous, project = self.project, self.document.project
+        old, new = tuple(self.items(previous)), tuple(self.items(project))
+        if (self._segment is not None and old and old == new and len(old) == self.rowCount()
+                and self.columns_for(project) == self.table_columns):
+            # The cells read the fitting records, the catalogue and the segment's bore only:
+            # with the same records, just the catalogue K can change (a new bore).
+            self._project = project
+            if (previous.segments[self._segment].internal_diameter_m
+                    != project.segments[self._segment].internal_diameter_m):
+                column = self.column_index("catalogue_k")
+                self.dataChanged.emit(self.index(0, column), self.index(len(new) - 1, column))
+            return
         super().refresh()
 
     def _count(self, project: Project) -> int:

@@ -285,6 +285,26 @@ def test_fittings_show_catalogue_k_and_take_an_override(window, document):
     assert document.project.segments[RISING_MAIN].fittings[0].fitting_id == "globe_valve"
 
 
+def test_a_new_bore_announces_the_catalogue_k_column_with_its_new_values(window, document):
+    window.pipework.select_segment(RISING_MAIN)
+    model = window.pipework.fittings_model
+    announced: list[tuple[int, int, int, int]] = []
+    model.dataChanged.connect(
+        lambda top, bottom, *_: announced.append((top.row(), bottom.row(), top.column(), bottom.column())))
+    assert window.pipework.step_size(RISING_MAIN, 1)
+    segment = document.project.segments[RISING_MAIN]
+    k_column = column(model, "catalogue_k")
+    assert announced == [(0, model.rowCount() - 1, k_column, k_column)]
+    for row, fitting in enumerate(segment.fittings):
+        # the K of the catalogue at the new bore, as the hydraulics package computes it
+        expected = fittings.fitting_k(fittings.fitting_catalogue()[fitting.fitting_id], segment.internal_diameter_m)
+        assert model.data(model.index(row, k_column), DISPLAY) == f"{expected:.3g}"
+    announced.clear()
+    count = column(model, "count")
+    assert model.setData(model.index(0, count), str(segment.fittings[0].count + 1), EDIT)
+    assert (0, 0, 0, model.columnCount() - 1) in announced  # an edited record: its whole row
+
+
 def test_a_bad_k_override_is_refused(window, document):
     window.pipework.select_segment(0)
     model = window.pipework.fittings_model
