@@ -2,20 +2,23 @@
 
 Demo data only: the curves are simple parabolas of an invented station (static heads
 12 m and 18 m, an invented pump with 40 m shut-off head).  They exercise the widgets; they
-are not hydraulic results.  Pump curves use the engine's own
-:class:`hydraulics.pump_arrangement.PumpCurve`; operating points and the NPSH curve use
-small frozen stand-ins with the engine's field names.
+are not hydraulic results.  They are built from the engine's own result classes
+(:class:`~hydraulics.pump_arrangement.PumpCurve`,
+:class:`~hydraulics.operating_points.OperatingPoint`, :class:`~hydraulics.solve.NpshCurve`),
+so a renamed field breaks these tests as it would break the window.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
+from dataclasses import replace
 
 import numpy as np
 
 from hydraulics.model import Arrangement, Criteria, Project, PumpModel, Site, TankDelivery
+from hydraulics.operating_points import OperatingPoint
 from hydraulics.pump_arrangement import PumpCurve
 from hydraulics.results import Finding, Solution, SystemCurve
+from hydraulics.solve import NpshCurve
 
 STATIC_HEADS = {"min": 12.0, "max": 18.0}
 FRICTION_COEFF = {"new": 4000.0, "aged": 6500.0}  # head = static + c Q², Q in m³/s (invented)
@@ -23,37 +26,6 @@ SHUTOFF_HEAD_M = 40.0
 PUMP_COEFF = 9000.0  # one pump: head = 40 − 9000 Q² (invented)
 BEP_FLOW_M3_S = 0.040  # invented best-efficiency flow of one pump
 DESIGN_FLOW_M3_S = 0.045
-
-
-@dataclass(frozen=True)
-class FakeOperatingPoint:
-    static: str
-    pipe: str
-    pumps_running: int
-    speed_ratio: float
-    found: bool
-    reason: str
-    flow_m3_s: float
-    flow_per_pump_m3_s: float
-    head_m: float
-    efficiency: float | None
-    shaft_power_w: float | None
-    shaft_power_total_w: float | None
-    input_power_w: float | None
-    specific_energy_kwh_m3: float | None
-    bep_flow_ratio: float | None
-    npsh_available_m: float | None
-    npsh_required_m: float | None
-    npsh_margin_m: float | None
-    npsh_margin_ratio: float | None
-    extrapolated: bool
-
-
-@dataclass(frozen=True)
-class FakeNpshCurve:
-    flow_m3_s: np.ndarray
-    available_new_m: np.ndarray
-    available_aged_m: np.ndarray
 
 
 def _efficiency(q_per_pump: np.ndarray) -> np.ndarray:
@@ -67,6 +39,20 @@ def _npshr(q_per_pump: np.ndarray) -> np.ndarray:
 
 def _npsha(q_total: np.ndarray, pipe: str) -> np.ndarray:
     return 9.0 - (300.0 if pipe == "new" else 450.0) * q_total**2
+
+
+_EMPTY_POINT = dict(
+    extrapolated=False, flow_m3_s=None, flow_per_pump_m3_s=None, head_m=None, efficiency=None,
+    hydraulic_power_w=None, shaft_power_w=None, shaft_power_total_w=None, input_power_w=None,
+    specific_energy_kwh_m3=None, bep_flow_ratio=None, npsh_available_m=None, npsh_required_m=None,
+    npsh_margin_m=None, npsh_margin_ratio=None, segment_velocities_m_s=(),
+)
+
+
+def _point(static: str, pipe: str, pumps: int, static_head_m: float, **values) -> OperatingPoint:
+    """An engine OperatingPoint at full speed and full impeller; unspecified values unknown."""
+    return OperatingPoint(static=static, pipe=pipe, pumps_running=pumps, speed_ratio=1.0, trim_ratio=1.0,
+                          series_stages=1, static_head_m=static_head_m, **{**_EMPTY_POINT, **values})
 
 
 def make_project(duty_count: int = 2, speed_ratio: float = 1.0) -> Project:
@@ -118,8 +104,7 @@ def make_solution(duty_count: int = 2, scale: float = 1.0, with_pump: bool = Tru
             c = scale * FRICTION_COEFF[pipe]
             for n in range(1, duty_count + 1):
                 if (static, pipe, n) in unfound:
-                    points.append(FakeOperatingPoint(static, pipe, n, 1.0, False, "pump curve below system curve",
-                                                     *([float("nan")] * 3), *([None] * 10), False))
+                    points.append(_point(static, pipe, n, hs, found=False, reason="pump curve below system curve"))
                     continue
                 # 40 − 9000 (Q/n)² = hs + c Q²  →  Q = sqrt((40 − hs) / (c + 9000/n²))
                 q = float(np.sqrt((SHUTOFF_HEAD_M - hs) / (c + PUMP_COEFF / n**2)))
@@ -129,15 +114,17 @@ def make_solution(duty_count: int = 2, scale: float = 1.0, with_pump: bool = Tru
                 p_shaft = 5000.0 + 190000.0 * qp - 600000.0 * qp**2
                 npsha = float(_npsha(np.array([q]), pipe)[0])
                 npshr = float(_npshr(np.array([qp]))[0])
-                points.append(FakeOperatingPoint(
-                    static=static, pipe=pipe, pumps_running=n, speed_ratio=1.0, found=True, reason="",
+                points.append(_point(
+                    static, pipe, n, hs, found=True, reason=None,
                     flow_m3_s=q, flow_per_pump_m3_s=qp, head_m=h, efficiency=eff, shaft_power_w=p_shaft,
                     shaft_power_total_w=n * p_shaft, input_power_w=n * p_shaft / 0.95,
                     specific_energy_kwh_m3=n * p_shaft / 0.95 / q / 3.6e6, bep_flow_ratio=qp / BEP_FLOW_M3_S,
                     npsh_available_m=npsha, npsh_required_m=npshr, npsh_margin_m=npsha - npshr,
-                    npsh_margin_ratio=npsha / npshr, extrapolated=qp > 0.06))
-    npsh = FakeNpshCurve(flow_m3_s=flows.copy(), available_new_m=_npsha(flows, "new"),
-                         available_aged_m=_npsha(flows, "aged"))
+                    npsh_margin_ratio=npsha / npshr, extrapolated=qp > 0.06,
+                    hydraulic_power_w=1000.0 * 9.80665 * q * h))
+    npsh = NpshCurve(flow_m3_s=flows.copy(), available_new_m=_npsha(flows, "new"),
+                     available_aged_m=_npsha(flows, "aged"), required_flow_m3_s=q1.copy(),
+                     required_m=_npshr(q1))
     return Solution(**base, pump_curves=tuple(pump_curves), operating_points=tuple(points),
                     npsh_available_curve=npsh)
 
