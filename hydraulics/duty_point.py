@@ -99,15 +99,16 @@ def bracketed_roots(func: Callable[[np.ndarray], np.ndarray], a, b, fa=None, fb=
     """
     a = np.array(a, dtype=float)
     b = np.array(b, dtype=float)
-    a, b = np.broadcast_arrays(a, b)
-    a, b = a.copy(), b.copy()
+    if a.shape != b.shape:
+        a, b = (v.copy() for v in np.broadcast_arrays(a, b))
     fa = np.asarray(func(a), dtype=float).copy() if fa is None else np.array(fa, dtype=float)
     fb = np.asarray(func(b), dtype=float).copy() if fb is None else np.array(fb, dtype=float)
     active = np.ones(a.shape, dtype=bool) if active is None else np.array(active, dtype=bool)
     active &= np.isfinite(fa) & np.isfinite(fb) & (np.sign(fa) * np.sign(fb) <= 0)
 
-    best_x = np.where(np.abs(fa) <= np.abs(fb), a, b)
-    best_f = np.where(np.abs(fa) <= np.abs(fb), fa, fb)
+    a_better = np.abs(fa) <= np.abs(fb)
+    best_x = np.where(a_better, a, b)
+    best_f = np.where(a_better, fa, fb)
     converged = active & (np.abs(best_f) <= ftol)
     running = active & ~converged
     c, fc = b.copy(), fb.copy()
@@ -117,43 +118,40 @@ def bracketed_roots(func: Callable[[np.ndarray], np.ndarray], a, b, fa=None, fb=
         # kept away from the ends; Chandrupatla's own rule chooses every later step.
         t = np.clip(fa / (fa - fb), 0.05, 0.95)
         t = np.where(np.isfinite(t), t, 0.5)
-        while np.any(running) and iterations < maxiter:
+        while iterations < maxiter and running.any():
             iterations += 1
             xt = np.where(running, a + t * (b - a), best_x)
             ft = np.asarray(func(xt), dtype=float)
-            same = np.sign(ft) == np.sign(fa)
-            upd = running
             # Keep the bracket [a, b]: the new point replaces a, the old a goes to c (same
-            # side) or the old b goes to c and the old a becomes b (sign change).
-            new_c = np.where(same, a, b)
-            new_fc = np.where(same, fa, fb)
-            new_b = np.where(same, b, a)
-            new_fb = np.where(same, fb, fa)
-            c = np.where(upd, new_c, c)
-            fc = np.where(upd, new_fc, fc)
-            b = np.where(upd, new_b, b)
-            fb = np.where(upd, new_fb, fb)
-            a = np.where(upd, xt, a)
-            fa = np.where(upd, ft, fa)
+            # side) or the old b goes to c and the old a becomes b (sign change).  Elements
+            # that have stopped are updated too (their state is no longer read; only
+            # best_x, best_f and converged are, and those change where running only),
+            # which saves masking every array.
+            same = np.sign(ft) == np.sign(fa)
+            c = np.where(same, a, b)
+            fc = np.where(same, fa, fb)
+            b = np.where(same, b, a)
+            fb = np.where(same, fb, fa)
+            a, fa = xt, ft
 
             a_better = np.abs(fa) < np.abs(fb)
             xm = np.where(a_better, a, b)
             fm = np.where(a_better, fa, fb)
-            best_x = np.where(upd, xm, best_x)
-            best_f = np.where(upd, fm, best_f)
+            best_x = np.where(running, xm, best_x)
+            best_f = np.where(running, fm, best_f)
 
-            tol = 4.0 * _EPS * np.abs(xm) + xtol + 1e-300
-            tlim = tol / np.abs(b - c)
+            tlim = (4.0 * _EPS * np.abs(xm) + (xtol + 1e-300)) / np.abs(b - c)
             done = (np.abs(fm) <= ftol) | ~(tlim <= 0.5)
-            converged |= upd & done
-            running = upd & ~done
+            converged |= running & done
+            running &= ~done
+            if not running.any():
+                break
 
             xi = (a - b) / (c - b)
             phi = (fa - fb) / (fc - fb)
             use_iqi = (phi * phi < xi) & ((1.0 - phi) ** 2 < 1.0 - xi)
             t_iqi = fa / (fb - fa) * fc / (fb - fc) + (c - a) / (b - a) * fa / (fc - fa) * fb / (fc - fb)
-            t_new = np.where(use_iqi & np.isfinite(t_iqi), t_iqi, 0.5)
-            t = np.clip(t_new, tlim, 1.0 - tlim)
+            t = np.clip(np.where(use_iqi & np.isfinite(t_iqi), t_iqi, 0.5), tlim, 1.0 - tlim)
             t = np.where(np.isfinite(t), t, 0.5)
     return RootResult(x=best_x, f=best_f, converged=converged, iterations=iterations)
 

@@ -178,7 +178,20 @@ def colebrook_fast(reynolds: np.ndarray, relative_roughness: np.ndarray, floor_r
     hold; they are broadcast together.  The same iteration as :func:`colebrook_clamond`
     (a test checks agreement to 1e-15), and so equal to the Lambert W closed form to 1e-12.
     """
-    re, rr = np.broadcast_arrays(np.asarray(reynolds, dtype=float), np.asarray(relative_roughness, dtype=float))
+    re = np.asarray(reynolds, dtype=float)
+    rr = np.asarray(relative_roughness, dtype=float)
+    if re.shape != rr.shape:
+        # Broadcast by filling a contiguous array directly: the kernel needs flat,
+        # contiguous inputs anyway, and this avoids a copy of a broadcast view.
+        shape = np.broadcast_shapes(re.shape, rr.shape)
+        if re.shape != shape:
+            full = np.empty(shape)
+            full[...] = re
+            re = full
+        if rr.shape != shape:
+            full = np.empty(shape)
+            full[...] = rr
+            rr = full
     shape = re.shape
     flat_re = np.ascontiguousarray(re).ravel()
     flat_rr = np.ascontiguousarray(rr).ravel()

@@ -100,14 +100,18 @@ def _solve_pumps(project: Project, system, fluid, p_atm: float) -> dict:
     from hydraulics.energy import annual_energy
     from hydraulics.operating_points import operating_points
     from hydraulics.pump_arrangement import arrangement_curve
-    from hydraulics.variable_speed import variable_speed, variable_speed_findings
+    from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
 
     arrangement = project.arrangement
     fitted = _cached_fit(project.duty_pump, fluid.density_kg_m3)
     npsh_static = npsh_static_head(project, p_atm, fluid)
-    points = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3)
-    speed = variable_speed(system, fitted, arrangement, project.site.design_flow_m3_s,
-                           npsh_static_head_m=npsh_static, density_kg_m3=fluid.density_kg_m3)
+    search = search_speeds(system, fitted, arrangement, project.site.design_flow_m3_s)
+    # One batched solve: the arrangement's own speed first, then the variable-speed ones.
+    own_speed = float(arrangement.speed_ratio)
+    batch = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3,
+                             speed_ratios=tuple(dict.fromkeys((own_speed,) + search.speeds_to_intersect)))
+    points = tuple(p for p in batch if p.speed_ratio == own_speed)
+    speed = variable_speed_points(search, batch)
     curves = tuple(
         arrangement_curve(fitted, n, arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
                           preferred_region=(project.criteria.preferred_region_low,

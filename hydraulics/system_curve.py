@@ -17,6 +17,7 @@ pass over (flows × segments) — no Python loop over flow points.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Mapping
 
 import numpy as np
@@ -54,6 +55,24 @@ def static_heads(site: Site, density_kg_m3: float) -> dict[str, float]:
         "min": float(delivery_low - site.suction_level_high_m),
         "max": float(delivery_high - site.suction_level_low_m),
     }
+
+
+@dataclass(frozen=True, eq=False)
+class _LossConstants:
+    """What :meth:`SystemHydraulics.losses` needs per segment, independent of the flow.
+
+    With c_i = 1 / (n_i π D_i²/4) the velocity per unit station flow: Re per unit flow
+    c_i D_i / ν, ε/D new and aged, the Darcy–Weisbach weight c_i² L_i / D_i, the minor-loss
+    sum Σ K_i c_i², and the Hazen–Williams per-flow sums (zero for Darcy–Weisbach).
+    """
+
+    minor_sum: float
+    reynolds_per_flow: np.ndarray
+    relative_roughness_new: np.ndarray
+    relative_roughness_aged: np.ndarray
+    friction_weight: np.ndarray
+    hw_sum_new: float
+    hw_sum_aged: float
 
 
 @dataclass(frozen=True, eq=False)
@@ -135,40 +154,57 @@ class SystemHydraulics:
           = Q^1.852 · Σ_i (per-segment constant), no per-element work;
         * minor losses: Σ K_i v_i²/2g = (Q|Q|/2g) · Σ_i K_i c_i².
 
-        Mixed ``aged`` arrays evaluate both pipe states and select.
+        A mixed ``aged`` array picks each flow's roughness row, so new and aged pipe are
+        evaluated in one pass.
         """
         q = np.asarray(flow_m3_s, dtype=float)
         aged = np.asarray(aged, dtype=bool)
-        q, aged = np.broadcast_arrays(q, aged)
-        if aged.size and aged.all():
-            return self._total_losses(q, True)
-        if not aged.any():
-            return self._total_losses(q, False)
-        fric_new, minor = self._total_losses(q, False)
-        fric_aged, _ = self._total_losses(q, True)
-        return np.where(aged, fric_aged, fric_new), minor
-
-    def _velocity_per_flow(self) -> np.ndarray:
-        return 1.0 / (self.parallel_pipes * (np.pi / 4.0) * self.diameter_m**2)
-
-    def _total_losses(self, q: np.ndarray, aged: bool) -> tuple[np.ndarray, np.ndarray]:
-        flat = np.ravel(q)
-        c = self._velocity_per_flow()
-        q_abs_q = flat * np.abs(flat) / (2.0 * G)
-        minor = q_abs_q * float(np.dot(self.k_total, c * c))
+        if aged.shape != q.shape:
+            q, aged = np.broadcast_arrays(q, aged)
+        flat = q.ravel()
+        aged_flat = aged.ravel()
+        n_aged = int(np.count_nonzero(aged_flat))
+        k = self._loss_constants
+        q_abs_q = flat * np.abs(flat) * (0.5 / G)
+        minor = q_abs_q * k.minor_sum
         if self.method == "hazen_williams":
-            c_hw = self.hw_c_aged if aged else self.hw_c_new
-            per_segment = (friction.HAZEN_WILLIAMS_SI_CONSTANT * self.length_m
-                           / (c_hw**friction.HAZEN_WILLIAMS_FLOW_EXPONENT
-                              * self.diameter_m**friction.HAZEN_WILLIAMS_DIAMETER_EXPONENT
-                              * self.parallel_pipes**friction.HAZEN_WILLIAMS_FLOW_EXPONENT))
-            fric = np.sign(flat) * np.abs(flat) ** friction.HAZEN_WILLIAMS_FLOW_EXPONENT * per_segment.sum()
+            if n_aged in (0, flat.size):
+                per_flow = k.hw_sum_aged if n_aged else k.hw_sum_new
+            else:
+                per_flow = np.where(aged_flat, k.hw_sum_aged, k.hw_sum_new)
+            fric = np.sign(flat) * np.abs(flat) ** friction.HAZEN_WILLIAMS_FLOW_EXPONENT * per_flow
         else:
-            eps = self.roughness_aged_m if aged else self.roughness_new_m
-            reynolds = np.abs(flat)[:, None] * (c * self.diameter_m / self.kinematic_viscosity_m2_s)
-            f = friction.darcy_friction_factor_checked(reynolds, eps / self.diameter_m)
-            fric = q_abs_q * (f @ (c * c * self.length_m / self.diameter_m))
+            reynolds = np.multiply.outer(np.abs(flat), k.reynolds_per_flow)
+            if n_aged == 0:
+                rr = k.relative_roughness_new
+            elif n_aged == flat.size:
+                rr = k.relative_roughness_aged
+            else:
+                rr = np.where(aged_flat[:, None], k.relative_roughness_aged, k.relative_roughness_new)
+            f = friction.darcy_friction_factor_checked(reynolds, rr)
+            fric = q_abs_q * (f @ k.friction_weight)
         return fric.reshape(q.shape), minor.reshape(q.shape)
+
+    @cached_property
+    def _loss_constants(self) -> "_LossConstants":
+        """Per-segment constants of :meth:`losses`, computed once per prepared system."""
+        c = 1.0 / (self.parallel_pipes * (np.pi / 4.0) * self.diameter_m**2)
+        hw_per_segment = {
+            aged: (friction.HAZEN_WILLIAMS_SI_CONSTANT * self.length_m
+                   / ((self.hw_c_aged if aged else self.hw_c_new) ** friction.HAZEN_WILLIAMS_FLOW_EXPONENT
+                      * self.diameter_m**friction.HAZEN_WILLIAMS_DIAMETER_EXPONENT
+                      * self.parallel_pipes**friction.HAZEN_WILLIAMS_FLOW_EXPONENT))
+            for aged in (False, True)
+        } if self.method == "hazen_williams" else {False: np.zeros(0), True: np.zeros(0)}
+        return _LossConstants(
+            minor_sum=float(np.dot(self.k_total, c * c)),
+            reynolds_per_flow=c * self.diameter_m / self.kinematic_viscosity_m2_s,
+            relative_roughness_new=self.roughness_new_m / self.diameter_m,
+            relative_roughness_aged=self.roughness_aged_m / self.diameter_m,
+            friction_weight=c * c * self.length_m / self.diameter_m,
+            hw_sum_new=float(hw_per_segment[False].sum()),
+            hw_sum_aged=float(hw_per_segment[True].sum()),
+        )
 
     def head(self, flow_m3_s, static_m, aged) -> np.ndarray:
         """Total system head H = H_static + h_friction + h_minor, elementwise."""

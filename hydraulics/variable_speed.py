@@ -35,7 +35,8 @@ from hydraulics.pump_arrangement import arrangement_head, rated_equivalent_flow
 from hydraulics.pump_fit import FittedPump
 from hydraulics.results import Finding
 
-__all__ = ["SpeedForFlow", "VariableSpeedResult", "variable_speed", "variable_speed_findings",
+__all__ = ["SpeedForFlow", "VariableSpeedResult", "SpeedSearch", "search_speeds", "variable_speed_points",
+           "variable_speed", "variable_speed_findings",
            "minimum_lift_speed_ratio", "SPEED_HEAD_TOLERANCE_M"]
 
 SPEED_HEAD_TOLERANCE_M = 1e-10
@@ -134,22 +135,35 @@ def minimum_lift_speed_ratio(shutoff_head_m: float, static_head_max_m: float, se
     return math.sqrt(static_head_max_m / (series_stages * trim_ratio**2 * shutoff_head_m))
 
 
-def variable_speed(system, fitted: FittedPump, arrangement: Arrangement, target_flow_m3_s: float,
-                   npsh_static_head_m: float | None = None, density_kg_m3: float | None = None) -> VariableSpeedResult:
+@dataclass(frozen=True)
+class SpeedSearch:
+    """The speeds for the target flow and the lowest lifting speed, before re-intersection.
+
+    :func:`variable_speed_points` adds the operating points at ``speeds_to_intersect``.
+    """
+
+    target_flow_m3_s: float
+    pumps_running: int
+    min_speed_ratio: float
+    max_speed_ratio: float
+    scenarios: tuple[SpeedForFlow, ...]
+    minimum_lift_speed_ratio: float | None
+    minimum_lift_reason: str | None
+    speeds_solved: tuple[float, ...]
+
+    @property
+    def speeds_to_intersect(self) -> tuple[float, ...]:
+        """The speeds found and the minimum speed ratio, each once."""
+        return tuple(dict.fromkeys(self.speeds_solved + (self.min_speed_ratio,)))
+
+
+def search_speeds(system, fitted: FittedPump, arrangement: Arrangement, target_flow_m3_s: float) -> SpeedSearch:
     """Speed ratios that deliver ``target_flow_m3_s`` with the duty pumps, per static extreme and pipe state.
 
-    Parameters
-    ----------
-    system
-        A :class:`hydraulics.system_curve.SystemHydraulics` (or an object with the same methods).
-    fitted : FittedPump
-    arrangement : Arrangement
-        ``duty_count`` pumps run; speeds are searched in [min_speed_ratio, max_speed_ratio].
-    target_flow_m3_s : float
-        Station flow to deliver (m³/s), normally the design flow.
-    npsh_static_head_m, density_kg_m3
-        Passed to :func:`~hydraulics.operating_points.operating_points` for the
-        re-intersected points (density defaults to the one the pump was fitted with).
+    Solves S (s t)² H_rated(Q_t / (N s t)) = H_system(Q_t) for s in
+    [min_speed_ratio, max_speed_ratio] (affinity laws; see the module docstring) and the
+    lowest lifting speed; the operating points at those speeds are left to
+    :func:`variable_speed_points`.
     """
     if not (math.isfinite(target_flow_m3_s) and target_flow_m3_s > 0.0):
         raise ModelError("site.design_flow_m3_s", "must be a positive flow", target_flow_m3_s)
@@ -157,7 +171,6 @@ def variable_speed(system, fitted: FittedPump, arrangement: Arrangement, target_
     if not (0.0 < s_lo <= s_hi):
         raise ModelError("arrangement.min_speed_ratio",
                          "must be positive and not above the maximum speed ratio", s_lo)
-    density = fitted.density_kg_m3 if density_kg_m3 is None else float(density_kg_m3)
     n = int(arrangement.duty_count)
     stages, trim = int(arrangement.series_stages), float(arrangement.trim_ratio)
 
@@ -204,18 +217,59 @@ def variable_speed(system, fitted: FittedPump, arrangement: Arrangement, target_
 
     s_lift = minimum_lift_speed_ratio(fitted.shutoff_head_m, float(system.static_head_m["max"]), stages, trim)
     lift_reason = None if s_lift is not None else "the fitted head curve has no positive shut-off head"
-
-    speeds = tuple(sorted({float(s) for s in speed[achievable].tolist()}, reverse=True))
-    # One batched solve for the speeds found and the minimum speed (re-intersected, never scaled).
-    batch = operating_points(system, fitted, arrangement, npsh_static_head_m, density,
-                             speed_ratios=tuple(dict.fromkeys(speeds + (s_lo,))))
-    points = tuple(p for p in batch if p.speed_ratio in speeds)
-    at_min = tuple(p for p in batch if p.speed_ratio == s_lo)
-    return VariableSpeedResult(
+    return SpeedSearch(
         target_flow_m3_s=float(target_flow_m3_s), pumps_running=n, min_speed_ratio=s_lo, max_speed_ratio=s_hi,
         scenarios=tuple(scenarios), minimum_lift_speed_ratio=s_lift, minimum_lift_reason=lift_reason,
-        speeds_solved=speeds, points=points, points_at_minimum_speed=at_min,
+        speeds_solved=tuple(sorted({float(s) for s in speed[achievable].tolist()}, reverse=True)),
     )
+
+
+def variable_speed_points(search: SpeedSearch, points: tuple[OperatingPoint, ...]) -> VariableSpeedResult:
+    """The result of ``search`` with the operating points re-intersected at its speeds.
+
+    ``points`` come from :func:`~hydraulics.operating_points.operating_points` solved at
+    (at least) ``search.speeds_to_intersect``; other speeds in the batch are ignored, so
+    one batch can also hold the points at the arrangement's own speed.
+    """
+    speeds = set(search.speeds_solved)
+    missing = set(search.speeds_to_intersect) - {p.speed_ratio for p in points}
+    if missing:
+        raise ValueError(f"operating points missing at speed ratios {sorted(missing)}")
+    return VariableSpeedResult(
+        target_flow_m3_s=search.target_flow_m3_s, pumps_running=search.pumps_running,
+        min_speed_ratio=search.min_speed_ratio, max_speed_ratio=search.max_speed_ratio,
+        scenarios=search.scenarios, minimum_lift_speed_ratio=search.minimum_lift_speed_ratio,
+        minimum_lift_reason=search.minimum_lift_reason, speeds_solved=search.speeds_solved,
+        points=tuple(p for p in points if p.speed_ratio in speeds),
+        points_at_minimum_speed=tuple(p for p in points if p.speed_ratio == search.min_speed_ratio),
+    )
+
+
+def variable_speed(system, fitted: FittedPump, arrangement: Arrangement, target_flow_m3_s: float,
+                   npsh_static_head_m: float | None = None, density_kg_m3: float | None = None) -> VariableSpeedResult:
+    """Speed ratios that deliver ``target_flow_m3_s`` with the duty pumps, per static extreme and pipe state.
+
+    :func:`search_speeds`, then one batched :func:`operating_points` solve at the speeds
+    found and the minimum speed (re-intersected, never scaled).
+
+    Parameters
+    ----------
+    system
+        A :class:`hydraulics.system_curve.SystemHydraulics` (or an object with the same methods).
+    fitted : FittedPump
+    arrangement : Arrangement
+        ``duty_count`` pumps run; speeds are searched in [min_speed_ratio, max_speed_ratio].
+    target_flow_m3_s : float
+        Station flow to deliver (m³/s), normally the design flow.
+    npsh_static_head_m, density_kg_m3
+        Passed to :func:`~hydraulics.operating_points.operating_points` for the
+        re-intersected points (density defaults to the one the pump was fitted with).
+    """
+    search = search_speeds(system, fitted, arrangement, target_flow_m3_s)
+    density = fitted.density_kg_m3 if density_kg_m3 is None else float(density_kg_m3)
+    batch = operating_points(system, fitted, arrangement, npsh_static_head_m, density,
+                             speed_ratios=search.speeds_to_intersect)
+    return variable_speed_points(search, batch)
 
 
 def variable_speed_findings(result: VariableSpeedResult, fitted: FittedPump) -> list[Finding]:

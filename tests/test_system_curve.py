@@ -114,3 +114,32 @@ def test_unknown_material_names_the_segment():
     with pytest.raises(ModelError) as info:
         prepare_system(bad, WATER_15C)
     assert info.value.field_path == "segments[0].material"
+
+
+@pytest.mark.parametrize("method", ["darcy_weisbach", "hazen_williams"])
+def test_mixed_pipe_states_in_one_pass_equal_each_state_alone(method):
+    # One evaluation over flows of both pipe states (as the duty-point solver asks for)
+    # must give each flow exactly what its own pipe state gives alone (same formulas).
+    base = project()
+    system = prepare_system(Project(name="t", site=base.site, segments=base.segments, friction_method=method),
+                            WATER_15C)
+    flows = np.array([[0.0, 0.01, 0.03], [0.05, 0.08, 0.12]])
+    aged = np.array([[True, False, True], [False, True, False]])
+    fric, minor = system.losses(flows, aged)
+    fric_new, minor_new = system.losses(flows, False)
+    fric_aged, _ = system.losses(flows, True)
+    assert fric.shape == minor.shape == flows.shape
+    np.testing.assert_array_equal(fric, np.where(aged, fric_aged, fric_new))
+    np.testing.assert_array_equal(minor, minor_new)
+    assert np.all(fric_aged[flows > 0] > fric_new[flows > 0])  # aged pipe is rougher in every material
+
+
+def test_losses_sum_the_segment_table():
+    # The matrix–vector totals must equal the per-segment friction and minor losses summed.
+    system = prepare_system(project(), WATER_15C)
+    for aged in (False, True):
+        for q in (0.004, 0.05, 0.11):
+            rows = segment_results(system, q, aged=aged)
+            fric, minor = system.losses(q, aged)
+            assert float(fric) == pytest.approx(sum(r.friction_loss_m for r in rows), rel=1e-12)
+            assert float(minor) == pytest.approx(sum(r.minor_loss_m for r in rows), rel=1e-12)

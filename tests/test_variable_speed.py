@@ -19,7 +19,8 @@ import pytest
 from hydraulics.model import Arrangement, ModelError
 from hydraulics.operating_points import operating_points
 from hydraulics.pump_fit import fit_pump
-from hydraulics.variable_speed import minimum_lift_speed_ratio, variable_speed, variable_speed_findings
+from hydraulics.variable_speed import (minimum_lift_speed_ratio, search_speeds, variable_speed, variable_speed_findings,
+                                       variable_speed_points)
 from tests.pump_fakes import QuadraticSystem, parabolic_efficiency, quadratic_pump
 
 A, B = 60.0, 20000.0
@@ -159,3 +160,27 @@ def test_sample_projects_speeds_re_intersect_to_the_design_flow():
             point = next(p for p in result.points if (p.static, p.pipe, p.pumps_running, p.speed_ratio)
                          == (item.static, item.pipe, item.pumps_running, item.speed_ratio))
             assert point.flow_m3_s == pytest.approx(design, rel=1e-8), path.name
+
+
+def test_points_from_a_shared_batch_equal_the_own_solve(fitted):
+    # The whole-project solve intersects the arrangement's own speed and the variable
+    # speeds in one batch; the result must be that of the separate solve.
+    search = search_speeds(SYSTEM, fitted, ARR, 0.06)
+    batch = operating_points(SYSTEM, fitted, ARR, 9.0, RHO,
+                             speed_ratios=(1.0,) + tuple(s for s in search.speeds_to_intersect if s != 1.0))
+    shared = variable_speed_points(search, batch)
+    alone = variable_speed(SYSTEM, fitted, ARR, 0.06, npsh_static_head_m=9.0, density_kg_m3=RHO)
+    assert shared.speeds_solved == alone.speeds_solved and len(shared.points) == len(alone.points) > 0
+    for a, b in zip(shared.points + shared.points_at_minimum_speed, alone.points + alone.points_at_minimum_speed):
+        assert (a.static, a.pipe, a.pumps_running, a.speed_ratio) == (b.static, b.pipe, b.pumps_running, b.speed_ratio)
+        assert a.found == b.found
+        if a.found:
+            # both converged to |H_pump − H_system| <= 1e-9 m (HEAD_TOLERANCE_M)
+            assert a.flow_m3_s == pytest.approx(b.flow_m3_s, rel=1e-8)
+
+
+def test_points_missing_a_speed_are_refused(fitted):
+    search = search_speeds(SYSTEM, fitted, ARR, 0.06)
+    only_full_speed = operating_points(SYSTEM, fitted, ARR, 9.0, RHO)
+    with pytest.raises(ValueError, match="missing at speed ratios"):
+        variable_speed_points(search, only_full_speed)
