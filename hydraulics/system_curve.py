@@ -157,6 +157,10 @@ class SystemHydraulics:
         A mixed ``aged`` array picks each flow's roughness row, so new and aged pipe are
         evaluated in one pass.
         """
+        return self._loss_totals(flow_m3_s, aged, self._loss_constants)
+
+    def _loss_totals(self, flow_m3_s, aged, k: "_LossConstants") -> tuple[np.ndarray, np.ndarray]:
+        """Friction and minor totals over the segments that ``k`` was built for."""
         q = np.asarray(flow_m3_s, dtype=float)
         aged = np.asarray(aged, dtype=bool)
         if aged.shape != q.shape:
@@ -164,7 +168,6 @@ class SystemHydraulics:
         flat = q.ravel()
         aged_flat = aged.ravel()
         n_aged = int(np.count_nonzero(aged_flat))
-        k = self._loss_constants
         q_abs_q = flat * np.abs(flat) * (0.5 / G)
         minor = q_abs_q * k.minor_sum
         if self.method == "hazen_williams":
@@ -188,22 +191,32 @@ class SystemHydraulics:
     @cached_property
     def _loss_constants(self) -> "_LossConstants":
         """Per-segment constants of :meth:`losses`, computed once per prepared system."""
-        c = 1.0 / (self.parallel_pipes * (np.pi / 4.0) * self.diameter_m**2)
-        hw_per_segment = {
-            aged: (friction.HAZEN_WILLIAMS_SI_CONSTANT * self.length_m
-                   / ((self.hw_c_aged if aged else self.hw_c_new) ** friction.HAZEN_WILLIAMS_FLOW_EXPONENT
-                      * self.diameter_m**friction.HAZEN_WILLIAMS_DIAMETER_EXPONENT
-                      * self.parallel_pipes**friction.HAZEN_WILLIAMS_FLOW_EXPONENT))
-            for aged in (False, True)
-        } if self.method == "hazen_williams" else {False: np.zeros(0), True: np.zeros(0)}
+        return self._constants_for(np.ones(self.n_segments, dtype=bool))
+
+    @cached_property
+    def _suction_loss_constants(self) -> "_LossConstants":
+        """The same for the suction-side segments only (:meth:`suction_loss`)."""
+        return self._constants_for(self.suction_mask)
+
+    def _constants_for(self, mask: np.ndarray) -> "_LossConstants":
+        d, n, length = self.diameter_m[mask], self.parallel_pipes[mask], self.length_m[mask]
+        c = 1.0 / (n * (np.pi / 4.0) * d**2)
+        if self.method == "hazen_williams":
+            hw_sums = [float(np.sum(friction.HAZEN_WILLIAMS_SI_CONSTANT * length
+                                    / (hw_c[mask] ** friction.HAZEN_WILLIAMS_FLOW_EXPONENT
+                                       * d**friction.HAZEN_WILLIAMS_DIAMETER_EXPONENT
+                                       * n**friction.HAZEN_WILLIAMS_FLOW_EXPONENT)))
+                       for hw_c in (self.hw_c_new, self.hw_c_aged)]
+        else:
+            hw_sums = [0.0, 0.0]
         return _LossConstants(
-            minor_sum=float(np.dot(self.k_total, c * c)),
-            reynolds_per_flow=c * self.diameter_m / self.kinematic_viscosity_m2_s,
-            relative_roughness_new=self.roughness_new_m / self.diameter_m,
-            relative_roughness_aged=self.roughness_aged_m / self.diameter_m,
-            friction_weight=c * c * self.length_m / self.diameter_m,
-            hw_sum_new=float(hw_per_segment[False].sum()),
-            hw_sum_aged=float(hw_per_segment[True].sum()),
+            minor_sum=float(np.dot(self.k_total[mask], c * c)),
+            reynolds_per_flow=c * d / self.kinematic_viscosity_m2_s,
+            relative_roughness_new=self.roughness_new_m[mask] / d,
+            relative_roughness_aged=self.roughness_aged_m[mask] / d,
+            friction_weight=c * c * length / d,
+            hw_sum_new=hw_sums[0],
+            hw_sum_aged=hw_sums[1],
         )
 
     def head(self, flow_m3_s, static_m, aged) -> np.ndarray:
@@ -212,9 +225,12 @@ class SystemHydraulics:
         return np.asarray(static_m, dtype=float) + fric + minor
 
     def suction_loss(self, flow_m3_s, aged) -> np.ndarray:
-        """Friction plus minor loss of the suction-side segments only (m)."""
-        fric, minor = self.segment_losses(flow_m3_s, aged)
-        return np.where(self.suction_mask, fric + minor, 0.0).sum(axis=-1)
+        """Friction plus minor loss of the suction-side segments only (m).
+
+        The same sums as :meth:`losses` over the suction segments (zero without any).
+        """
+        fric, minor = self._loss_totals(flow_m3_s, aged, self._suction_loss_constants)
+        return fric + minor
 
 
 def _segment_arrays(project: Project):

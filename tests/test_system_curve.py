@@ -143,3 +143,22 @@ def test_losses_sum_the_segment_table():
             fric, minor = system.losses(q, aged)
             assert float(fric) == pytest.approx(sum(r.friction_loss_m for r in rows), rel=1e-12)
             assert float(minor) == pytest.approx(sum(r.minor_loss_m for r in rows), rel=1e-12)
+
+
+def test_suction_loss_sums_the_suction_rows_of_the_segment_table():
+    system = prepare_system(project(), WATER_15C)
+    flows = np.array([0.0, 0.02, 0.07])
+    for aged in (False, True):
+        expected = [sum(r.friction_loss_m + r.minor_loss_m for r in segment_results(system, q, aged=aged)
+                        if r.side == "suction") for q in flows]
+        np.testing.assert_allclose(system.suction_loss(flows, aged), expected, rtol=1e-12, atol=0.0)
+    mixed = system.suction_loss(flows, np.array([True, False, True]))
+    np.testing.assert_array_equal(mixed, np.where([True, False, True], system.suction_loss(flows, True),
+                                                  system.suction_loss(flows, False)))
+
+
+def test_no_suction_segments_means_no_suction_loss():
+    base = project()
+    delivery_only = Project(name="t", site=base.site, segments=base.segments[1:])
+    system = prepare_system(delivery_only, WATER_15C)
+    np.testing.assert_array_equal(system.suction_loss(np.array([0.01, 0.05]), False), [0.0, 0.0])
