@@ -161,7 +161,7 @@ class MainWindow(QMainWindow):
         self.recent_menu = self.files.recent_menu()
         action_table.build_menus(self, self.actions,
                                  {"units": units_menu, "samples": self.samples_menu, "recent": self.recent_menu})
-        action_table.build_toolbar(self, self.actions, {"units": self.units_combo})
+        self.toolbar = action_table.build_toolbar(self, self.actions, {"units": self.units_combo})
         self._show_unit_system(self.document.unit_system)
 
     def _connect(self) -> None:
@@ -184,6 +184,9 @@ class MainWindow(QMainWindow):
     def _show_solution(self, solution) -> None:
         system = self.document.unit_system
         self.plot_tabs.show_solution(solution, system)
+        # The plot is what the engineer watches while stepping a size: it is painted at
+        # once; the checks and the operating points follow in the next paint.
+        self.plot_tabs.repaint_current()
         self.checks_panel.show_findings(solution.findings, system)
         self.points_table.show_solution(solution, system)
         self.message_bar.dismiss("stale")

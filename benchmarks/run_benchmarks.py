@@ -9,7 +9,10 @@ machines):
    (measured in the same run), friction factors equal to 1e-9 relative.
 2. Operating points — all points (2 static × 2 pipe × up to 4 pumps × 5 speeds) for the
    largest sample project: median <= 5 ms.
-3. Window — edit → redrawn plot <= 16 ms median on each sample project.
+3. Window — edit → redrawn plot <= 16 ms median on each sample project: a pipe-size step
+   pushed as the user's, the live solve fired from the event loop, until the plot canvas
+   has painted the new solution (:func:`app.document.measure_edit_to_redraw`).  The time
+   until every other panel is painted too is printed beside it.
 """
 
 from __future__ import annotations
@@ -175,8 +178,10 @@ def bench_window() -> None:
         window.show()
         app.processEvents()
         times = measure_edit_to_redraw(window, n=40)
-        med = statistics.median(times)
-        print(f"   {sample.name:38s} median {med:6.2f} ms   target <= 16 ms   {'MET' if med <= 16 else 'MISSED'}")
+        med = statistics.median(times.plot_ms)
+        whole = statistics.median(times.window_ms)
+        print(f"   {sample.name:38s} median {med:6.2f} ms   target <= 16 ms   {'MET' if med <= 16 else 'MISSED'}"
+              f"    (every panel updated: {whole:.2f} ms)")
         window.document.undo_stack.setClean()
         window.close()
 

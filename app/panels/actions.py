@@ -9,9 +9,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QEvent, QObject, Qt
 from PySide6.QtGui import QAction, QKeySequence
-from PySide6.QtWidgets import QMenu, QToolBar
+from PySide6.QtWidgets import QMenu, QToolBar, QToolTip
 
 Shortcut = QKeySequence.StandardKey | str | None
 
@@ -94,22 +94,44 @@ def build_actions(window) -> dict[str, QAction]:
         action.setObjectName(f"action_{key}")
         actions[key] = action
     actions["undo_button"] = _stack_button(window, "Undo", stack.undo, stack.canUndoChanged,
-                                           stack.undoTextChanged, stack.canUndo())
+                                           stack.undoText, stack.canUndo())
     actions["redo_button"] = _stack_button(window, "Redo", stack.redo, stack.canRedoChanged,
-                                           stack.redoTextChanged, stack.canRedo())
+                                           stack.redoText, stack.canRedo())
     return actions
 
 
-def _stack_button(window, text: str, slot, can_signal, text_signal, enabled: bool) -> QAction:
-    """A tool-bar twin of the undo (redo) action with a fixed label; the step is in its tooltip."""
+def _stack_button(window, text: str, slot, can_signal, describe, enabled: bool) -> QAction:
+    """A tool-bar twin of the undo (redo) action with a fixed label; the step is in its tooltip.
+
+    The action itself never changes per edit (any change of a tool-bar action re-lays out
+    the tool bar and with it the window); the tooltip is composed when it is asked for.
+    """
     action = QAction(text, window)
     action.setObjectName(f"action_{text.lower()}_button")
     action.setEnabled(enabled)
     action.setToolTip(text)
     action.triggered.connect(slot)
     can_signal.connect(action.setEnabled)
-    text_signal.connect(lambda step: action.setToolTip(f"{text} {step}".strip()))
+    action.step_tooltip = StepTooltip(text, describe, action)
     return action
+
+
+class StepTooltip(QObject):
+    """Answers tooltip requests on a tool-bar button with "Undo <step>" as it is now."""
+
+    def __init__(self, text: str, describe, parent: QObject):
+        super().__init__(parent)
+        self._text = text
+        self._describe = describe
+
+    def text_now(self) -> str:
+        return f"{self._text} {self._describe()}".strip()
+
+    def eventFilter(self, watched: QObject, event: QEvent) -> bool:  # noqa: N802 - Qt name
+        if event.type() == QEvent.Type.ToolTip:
+            QToolTip.showText(event.globalPos(), self.text_now(), watched)
+            return True
+        return False
 
 
 def build_menus(window, actions: dict[str, QAction], submenus: dict[str, QMenu]) -> None:
@@ -138,7 +160,11 @@ def build_toolbar(window, actions: dict[str, QAction], widgets: dict) -> QToolBa
         elif entry.startswith("@"):
             toolbar.addWidget(widgets[entry[1:]])
         else:
-            toolbar.addAction(actions[entry])
+            action = actions[entry]
+            toolbar.addAction(action)
+            tooltip = getattr(action, "step_tooltip", None)
+            if tooltip is not None:
+                toolbar.widgetForAction(action).installEventFilter(tooltip)
     window.addToolBar(toolbar)
     return toolbar
 

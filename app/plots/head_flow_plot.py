@@ -17,6 +17,7 @@ from PySide6.QtWidgets import QVBoxLayout, QWidget
 
 from app import style
 from app.plots.plot_base import (
+    BandItem,
     HoverReadout,
     LegendSync,
     ViewFollower,
@@ -29,6 +30,7 @@ from app.plots.plot_base import (
     nice_range,
     place_labels,
     set_axis_title,
+    set_curve_data,
     update_label_pool,
 )
 from app.results import solution_reading as read
@@ -100,12 +102,9 @@ class HeadFlowPlot(QWidget):
         self._view = ViewFollower(self.plot_item)
 
         # System curves and the band between the lowest and the highest of them.
-        self._band_low = pg.PlotCurveItem(empty_array(), empty_array(), pen=pg.mkPen(None))
-        self._band_high = pg.PlotCurveItem(empty_array(), empty_array(), pen=pg.mkPen(None))
-        for edge in (self._band_low, self._band_high):
-            self.plot_item.addItem(edge)
-        self.system_band = pg.FillBetweenItem(self._band_low, self._band_high, brush=style.SYSTEM_BAND_BRUSH)
-        self.plot_item.addItem(self.system_band)
+        self.system_band = BandItem(style.SYSTEM_BAND_BRUSH)
+        self.system_band.setVisible(False)
+        self.plot_item.addItem(self.system_band, ignoreBounds=True)
         self._system_items: dict[tuple[str, str], pg.PlotDataItem] = {}
         for static, pipe in SYSTEM_CASES:
             item = pg.PlotDataItem(empty_array(), empty_array(), name=_system_curve_name(static, pipe),
@@ -127,6 +126,7 @@ class HeadFlowPlot(QWidget):
                        "fill": pg.mkBrush(255, 255, 255, 200)})
         self.design_flow_line.setVisible(False)
         self.design_flow_line.setZValue(20)
+        self._design_text = ""
         self.plot_item.addItem(self.design_flow_line, ignoreBounds=True)
 
         self._snapshot_items: list[pg.PlotDataItem] = []
@@ -254,32 +254,31 @@ class HeadFlowPlot(QWidget):
             flow = read.as_array(read.field(curve, "flow_m3_s"))
             head = read.as_array(read.field(curve, "head_m"))
             if flow is None or head is None or flow.size != head.size:
-                item.setData(empty_array(), empty_array())
-                item.setVisible(False)
+                set_curve_data(item, empty_array(), empty_array())
+                _set_visible(item, False)
                 continue
             x, y = self._flow(flow), self._head(head)
-            item.setData(x, y)
-            item.setVisible(True)
+            set_curve_data(item, x, y)
+            _set_visible(item, True)
             drawn.append((x, y))
         self._update_band(drawn)
 
+    def band_edges(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """The (flow, lowest head, highest head) arrays of the band, in display units."""
+        return self.system_band.edges()
+
     def _update_band(self, drawn: list[tuple[np.ndarray, np.ndarray]]) -> None:
         if len(drawn) < 2:
-            self._band_low.setData(empty_array(), empty_array())
-            self._band_high.setData(empty_array(), empty_array())
+            self.system_band.set_edges(empty_array(), empty_array(), empty_array())
             self.system_band.setVisible(False)
             return
         grid = drawn[0][0]
-        order = np.argsort(grid)
-        grid = grid[order]
-        stack = np.vstack([np.interp(grid, *_sorted_xy(x, y)) for x, y in drawn])
-        # The fill rebuilds its path whenever an edge changes: build it once, with both edges new.
-        self._band_low.blockSignals(True)
-        try:
-            self._band_low.setData(grid, stack.min(axis=0))
-        finally:
-            self._band_low.blockSignals(False)
-        self._band_high.setData(grid, stack.max(axis=0))
+        if np.all(grid[1:] >= grid[:-1]) and all(np.array_equal(x, grid) for x, _ in drawn):
+            stack = np.vstack([y for _, y in drawn])  # one shared, sorted flow grid (the engine's)
+        else:
+            grid = np.sort(grid)
+            stack = np.vstack([np.interp(grid, *_sorted_xy(x, y)) for x, y in drawn])
+        self.system_band.set_edges(grid, stack.min(axis=0), stack.max(axis=0))
         self.system_band.setVisible(True)
 
     def _pump_items_for(self, pumps_running: int) -> _PumpCurveItems:
@@ -300,25 +299,25 @@ class HeadFlowPlot(QWidget):
                 continue
             items = self._pump_items_for(pumps)
             x, y = self._flow(flow), self._head(head)
-            items.curve.setData(x, y)
-            items.end_label.setPos(float(x[-1]), float(y[-1]))
+            if set_curve_data(items.curve, x, y):
+                items.end_label.setPos(float(x[-1]), float(y[-1]))
             bounds = read.preferred_flow_bounds(pump_curve)
             if bounds is not None:
                 rx, ry = self._region_stroke(flow, head, bounds)
-                items.region.setData(self._flow(rx), self._head(ry))
-                items.region.setVisible(rx.size > 0)
+                set_curve_data(items.region, self._flow(rx), self._head(ry))
+                _set_visible(items.region, rx.size > 0)
                 if region_name_holder is None and items.region.isVisible():
                     region_name_holder = items
             else:
-                items.region.setData(empty_array(), empty_array())
-                items.region.setVisible(False)
-            items.curve.setVisible(True)
-            items.end_label.setVisible(True)
+                set_curve_data(items.region, empty_array(), empty_array())
+                _set_visible(items.region, False)
+            _set_visible(items.curve, True)
+            _set_visible(items.end_label, True)
             shown.add(pumps)
         for pumps, items in self._pump_items.items():
             if pumps not in shown:
-                items.curve.setData(empty_array(), empty_array())
-                items.region.setData(empty_array(), empty_array())
+                set_curve_data(items.curve, empty_array(), empty_array())
+                set_curve_data(items.region, empty_array(), empty_array())
                 items.set_visible(False)
         self._set_region_legend_name(region_name_holder)
 
@@ -376,10 +375,14 @@ class HeadFlowPlot(QWidget):
         if design is None or design <= 0:
             self.design_flow_line.setVisible(False)
             return
+        x = float(self._flow(design))
+        text = f"design flow {format_number(x, 3)} {unit_label('flow', self._unit_system)}"
+        if self.design_flow_line.isVisible() and self.design_flow_line.value() == x and self._design_text == text:
+            return
         self.design_flow_line.setVisible(True)  # the label only redraws while visible
-        self.design_flow_line.setPos(float(self._flow(design)))
-        self.design_flow_line.label.setFormat(
-            f"design flow {format_number(float(self._flow(design)), 3)} {unit_label('flow', self._unit_system)}")
+        self.design_flow_line.setPos(x)
+        self.design_flow_line.label.setFormat(text)
+        self._design_text = text
 
     def _update_snapshot(self) -> None:
         while len(self._snapshot_items) < len(self._snapshot_si):
@@ -391,11 +394,11 @@ class HeadFlowPlot(QWidget):
         for index, item in enumerate(self._snapshot_items):
             if index < len(self._snapshot_si):
                 flow, head = self._snapshot_si[index]
-                item.setData(self._flow(flow), self._head(head))
-                item.setVisible(True)
+                set_curve_data(item, self._flow(flow), self._head(head))
+                _set_visible(item, True)
             else:
-                item.setData(empty_array(), empty_array())
-                item.setVisible(False)
+                set_curve_data(item, empty_array(), empty_array())
+                _set_visible(item, False)
 
     def _follow_data(self) -> None:
         """Flow from zero to the end of the curves; head up to a margin above the pump curves.
@@ -445,6 +448,11 @@ class HeadFlowPlot(QWidget):
         flow_unit = unit_label("flow", self._unit_system)
         head_unit = unit_label("head", self._unit_system)
         return f"Pointer: flow {format_number(x)} {flow_unit}   ·   head {format_number(y)} {head_unit}"
+
+
+def _set_visible(item, visible: bool) -> None:
+    if item.isVisible() != visible:
+        item.setVisible(visible)
 
 
 def _sorted_xy(x: np.ndarray, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

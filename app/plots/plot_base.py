@@ -7,7 +7,8 @@ from typing import Callable, Iterable, Sequence
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtCore import QObject, QPointF, QRectF, Qt
+from PySide6.QtCore import QObject, QPointF, QRectF, Qt, Signal
+from PySide6.QtGui import QPainterPath
 from PySide6.QtWidgets import QLabel, QSizePolicy, QWidget
 
 from app import style
@@ -26,9 +27,19 @@ def make_readout_label(parent: QWidget) -> QLabel:
     return label
 
 
-def make_canvas() -> pg.GraphicsLayoutWidget:
-    """A white GraphicsLayoutWidget to hold one or more plots and a legend row."""
-    canvas = pg.GraphicsLayoutWidget()
+class PlotCanvas(pg.GraphicsLayoutWidget):
+    """A GraphicsLayoutWidget that says when it has painted (``painted``), for timing redraws."""
+
+    painted = Signal()
+
+    def paintEvent(self, event) -> None:  # noqa: N802 - Qt name
+        super().paintEvent(event)
+        self.painted.emit()
+
+
+def make_canvas() -> PlotCanvas:
+    """A white canvas to hold one or more plots and a legend row."""
+    canvas = PlotCanvas()
     canvas.setBackground(style.PLOT_BACKGROUND)
     canvas.ci.setContentsMargins(4, 4, 8, 4)
     canvas.ci.setSpacing(4)
@@ -126,11 +137,69 @@ def update_label_pool(plot_item: pg.PlotItem, pool: list[pg.TextItem],
     for index, item in enumerate(pool):
         if index < len(marks):
             x, y, text = marks[index]
-            item.setText(text)
-            item.setPos(x, y)
-            item.setVisible(True)
-        else:
+            if item.textItem.toPlainText() != text:
+                item.setText(text)
+            position = item.pos()
+            if position.x() != x or position.y() != y:
+                item.setPos(x, y)
+            if not item.isVisible():
+                item.setVisible(True)
+        elif item.isVisible():
             item.setVisible(False)
+
+
+def set_curve_data(item, x: np.ndarray, y: np.ndarray) -> bool:
+    """``item.setData(x, y)`` unless it already shows exactly these values; True if it changed.
+
+    Most edits move the system curves only; the pump curves, their regions and the
+    snapshot are then left alone instead of being rebuilt and re-measured.
+    """
+    drawn = getattr(item, "_drawn_xy", None)
+    if drawn is not None and np.array_equal(drawn[0], x) and np.array_equal(drawn[1], y):
+        return False
+    item.setData(x, y)
+    item._drawn_xy = (np.array(x, dtype=float), np.array(y, dtype=float))
+    return True
+
+
+class BandItem(pg.GraphicsObject):
+    """The area between a lower and an upper edge over one x grid, filled without outline.
+
+    One closed path is built from the edge arrays with numpy (``pg.arrayToQPath``);
+    ``pg.FillBetweenItem`` instead rebuilds its path from the two curves' own paths in
+    Python on every change.
+    """
+
+    def __init__(self, brush):
+        super().__init__()
+        self._brush = pg.mkBrush(brush)
+        self._path = QPainterPath()
+        self._edges = (empty_array(), empty_array(), empty_array())
+
+    def set_edges(self, x: np.ndarray, low: np.ndarray, high: np.ndarray) -> None:
+        """Fill between ``low`` and ``high`` over ``x`` (fewer than two points: nothing)."""
+        x, low, high = (np.array(v, dtype=float) for v in (x, low, high))
+        self._edges = (x, low, high)
+        self.prepareGeometryChange()
+        if x.size < 2:
+            self._path = QPainterPath()
+        else:
+            self._path = pg.arrayToQPath(np.concatenate([x, x[::-1]]), np.concatenate([low, high[::-1]]),
+                                         connect="all")
+            self._path.closeSubpath()
+        self.update()
+
+    def edges(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """Copies of the (x, low, high) arrays filled."""
+        return tuple(v.copy() for v in self._edges)
+
+    def boundingRect(self) -> QRectF:  # noqa: N802 - Qt name
+        return self._path.boundingRect()
+
+    def paint(self, painter, *_args) -> None:
+        painter.setPen(Qt.PenStyle.NoPen)
+        painter.setBrush(self._brush)
+        painter.drawPath(self._path)
 
 
 def set_axis_title(plot_item: pg.PlotItem, axis: str, text: str) -> None:
@@ -346,12 +415,12 @@ def place_labels(view_box: pg.ViewBox, labels: Sequence[tuple[pg.TextItem, float
         outside = width * height - inside
         cost = cost + 4.0 * np.maximum(outside, 0.0)
         finite = np.flatnonzero(cost < float("inf"))
+        best = int(finite[np.argmin(cost[finite])]) if finite.size else 0
+        anchor = _CANDIDATE_ANCHORS[best]
+        if (text_item.anchor.x(), text_item.anchor.y()) != anchor:
+            text_item.setAnchor(anchor)
         if finite.size:
-            best = int(finite[np.argmin(cost[finite])])
-            text_item.setAnchor(_CANDIDATE_ANCHORS[best])
             taken.append((float(left[best]), float(top[best]), width, height))
-        else:
-            text_item.setAnchor(_CANDIDATE_ANCHORS[0])
 
 
 def _overlap_areas(left: np.ndarray, top: np.ndarray, width: float, height: float,

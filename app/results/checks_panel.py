@@ -21,6 +21,9 @@ from hydraulics.results import SEVERITY_ORDER
 FINDING_INDEX_ROLE = Qt.ItemDataRole.UserRole + 1
 """Item data role holding the position of a finding in :attr:`ChecksPanel.findings`."""
 
+_SEVERITY_ROLE = Qt.ItemDataRole.UserRole + 2
+"""Item data role holding the severity of a group row."""
+
 COLUMNS = ("Finding", "Where", "Remedy")
 SEVERITIES = tuple(sorted(SEVERITY_ORDER, key=SEVERITY_ORDER.get))
 
@@ -53,6 +56,9 @@ class ChecksPanel(QWidget):
         self.view.setWordWrap(True)
         self.view.setAlternatingRowColors(True)
         self.view.setExpandsOnDoubleClick(True)
+        # A scroll bar that came and went with the number of findings would re-lay out the
+        # tree (and repaint it whole) on every edit that crosses the count that fits.
+        self.view.setVerticalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOn)
         header = self.view.header()
         header.setStretchLastSection(True)
         header.setSectionResizeMode(0, QHeaderView.ResizeMode.Interactive)
@@ -97,23 +103,10 @@ class ChecksPanel(QWidget):
             if members:
                 groups.append((severity, members))
         shape = tuple((severity, len(members)) for severity, members in groups)
-        if shape == self._shape:
-            self._refresh_rows(groups)  # same groups and counts: new texts in place, no rebuild
-            return
-        self.model.removeRows(0, self.model.rowCount())
-        for severity, members in groups:
-            group = QStandardItem(style.severity_icon(severity), _group_title(severity, len(members)))
-            group.setEditable(False)
-            group.setSelectable(False)
-            font = QFont(group.font())
-            font.setBold(True)
-            group.setFont(font)
-            for index, finding in members:
-                group.appendRow(self._finding_row(index, finding))
-            self.model.appendRow([group, _plain(""), _plain("")])
-            self.view.setFirstColumnSpanned(self.model.rowCount() - 1, QModelIndex(), True)
+        if shape != self._shape:
+            self._reshape(groups)
+        self._refresh_rows(groups)  # new texts in place: the tree is never rebuilt for an edit
         self._shape, self._placeholder_text = shape, None
-        self.view.expandAll()
 
     def group_titles(self) -> list[str]:
         """Titles of the severity groups shown, top to bottom (e.g. ``"Warning (2)"``)."""
@@ -131,8 +124,37 @@ class ChecksPanel(QWidget):
         return QModelIndex()
 
     # ------------------------------------------------------------------ internals
+    def _reshape(self, groups) -> None:
+        """Make the tree hold one group row per severity of ``groups`` and one row per finding.
+
+        Groups already shown stay (with their expanded state); groups that are gone are
+        removed, new ones inserted in severity order and expanded, and each group gains or
+        loses finding rows at its end.  Texts are written afterwards by :meth:`_refresh_rows`.
+        """
+        wanted = [severity for severity, _members in groups]
+        if self._shape == () or self._shape is None:  # a placeholder (or nothing) is shown
+            self.model.removeRows(0, self.model.rowCount())
+        for row in reversed(range(self.model.rowCount())):
+            if self.model.item(row, 0).data(_SEVERITY_ROLE) not in wanted:
+                self.model.removeRow(row)
+        for row, (severity, members) in enumerate(groups):
+            group = self.model.item(row, 0)
+            if group is None or group.data(_SEVERITY_ROLE) != severity:
+                group = _group_item(severity)
+                self.model.insertRow(row, [group, _plain(""), _plain("")])
+                self.view.setFirstColumnSpanned(row, QModelIndex(), True)
+                self.view.expand(group.index())
+            title = _group_title(severity, len(members))
+            if group.text() != title:
+                group.setText(title)
+            have = group.rowCount()
+            if have > len(members):
+                group.removeRows(len(members), have - len(members))
+            for index, finding in members[have:]:
+                group.appendRow(self._finding_row(index, finding))
+
     def _refresh_rows(self, groups) -> None:
-        """Write the texts of ``groups`` into the rows already shown (same groups and counts)."""
+        """Write the texts of ``groups`` into the rows shown (the tree has their shape)."""
         for row, (_severity, members) in enumerate(groups):
             group = self.model.item(row, 0)
             for child, (index, finding) in enumerate(members):
@@ -169,6 +191,18 @@ class ChecksPanel(QWidget):
         if position is None or not 0 <= int(position) < len(self._findings):
             return
         self.findingActivated.emit(getattr(self._findings[int(position)], "target", None))
+
+
+def _group_item(severity: str) -> QStandardItem:
+    """The bold, icon-marked group row of one severity."""
+    group = QStandardItem(style.severity_icon(severity), _group_title(severity, 0))
+    group.setEditable(False)
+    group.setSelectable(False)
+    group.setData(severity, _SEVERITY_ROLE)
+    font = QFont(group.font())
+    font.setBold(True)
+    group.setFont(font)
+    return group
 
 
 def _plain(text: str) -> QStandardItem:

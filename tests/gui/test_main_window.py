@@ -6,8 +6,9 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
-from PySide6.QtCore import Qt
-from PySide6.QtGui import QKeySequence
+from PySide6.QtCore import QEvent, Qt
+from PySide6.QtGui import QHelpEvent, QKeySequence
+from PySide6.QtWidgets import QApplication, QToolTip
 
 from app import settings
 from app.cautions import CAUTIONS_TEXT
@@ -78,6 +79,19 @@ def test_undo_and_redo_actions_follow_the_stack(window):
     assert window.document.project.segments[0].length_m == 9.0
     window.actions["redo"].trigger()
     assert window.document.project.segments[0].length_m == 10.0
+
+
+@pytest.mark.qt_log_ignore(r"This plugin does not support raise\(\)")  # the offscreen tooltip window
+def test_tool_bar_undo_button_names_the_step_in_its_tooltip(window):
+    model = window.pipework.segments_model
+    button = window.toolbar.widgetForAction(window.actions["undo_button"])
+    assert model.setData(model.index(0, model.column_index("length")), "10", EDIT)
+    window.show()
+    center = button.rect().center()
+    event = QHelpEvent(QEvent.Type.ToolTip, center, button.mapToGlobal(center))
+    QApplication.sendEvent(button, event)
+    assert QToolTip.text() == "Undo Edit length of segment 1 'Tank outlet and suction header'"
+    assert window.actions["undo_button"].text() == "Undo"  # the button's label never changes per edit
 
 
 def test_help_lists_the_shortcuts_and_about_carries_the_cautions(window, dialogs):
@@ -184,8 +198,10 @@ def test_a_site_finding_opens_the_site_panel_at_its_field(window):
 # ---------------------------------------------------------------------- timing hook
 def test_measure_edit_to_redraw_times_real_edits_and_leaves_the_project(window):
     before = window.document.project
+    window.show()
     timings = measure_edit_to_redraw(window, n=4)
-    assert len(timings) == 4 and all(t > 0 for t in timings)
+    assert len(timings.plot_ms) == len(timings.window_ms) == 4
+    assert all(0 < plot <= whole for plot, whole in zip(timings.plot_ms, timings.window_ms))
     assert window.document.project == before
 
 

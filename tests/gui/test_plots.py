@@ -164,8 +164,7 @@ def test_new_solution_updates_the_same_items(head_flow):
 def test_system_band_spans_lowest_to_highest_curve(head_flow):
     solution = make_solution()
     head_flow.show_solution(solution)
-    low_x, low_y = head_flow._band_low.getData()
-    _, high_y = head_flow._band_high.getData()
+    low_x, low_y, high_y = head_flow.band_edges()
     heads = np.vstack([c.head_m for c in solution.curves])
     np.testing.assert_allclose(low_x, solution.curves[0].flow_m3_s * 1000.0)
     np.testing.assert_allclose(low_y, heads.min(axis=0))

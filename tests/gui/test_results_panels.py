@@ -251,3 +251,36 @@ def test_checks_panel_rewrites_texts_and_targets_when_the_groups_stay_the_same(q
     assert panel.group_titles() == ["Warning (2)"]
     panel.show_findings((), "SI")
     assert panel.model.item(0, 0).text() == "Every check passed: no findings."
+
+
+def test_checks_panel_follows_groups_that_come_and_go_without_a_rebuild(qtbot):
+    from hydraulics.results import finding
+
+    panel = ChecksPanel()
+    qtbot.addWidget(panel)
+
+    def item(severity, code, n):  # invented messages of this test
+        return finding(severity, code, f"{code} number {n}.", {}, f"place {n}", target=("segment", n))
+
+    panel.show_findings([item("warning", "w", 1)], "SI")
+    warning_group = panel.model.item(0, 0)
+    panel.show_findings([item("critical", "c", 2), item("warning", "w", 3), item("warning", "w", 4),
+                         item("info", "i", 5)], "SI")
+    assert panel.group_titles() == ["Critical (1)", "Warning (2)", "Information (1)"]
+    assert panel.model.item(1, 0) is warning_group  # the warning group stayed; the others came in around it
+    for row in range(3):
+        index = panel.model.index(row, 0)
+        assert panel.view.isExpanded(index) and panel.view.isFirstColumnSpanned(row, QModelIndex())
+    assert [warning_group.child(r, 0).text() for r in range(2)] == ["w number 3.", "w number 4."]
+    assert panel.model.item(2, 0).child(0, 1).text() == "place 5"
+
+    panel.show_findings([item("info", "i", 6)], "SI")  # critical and warning go, information stays
+    assert panel.group_titles() == ["Information (1)"]
+    assert panel.model.rowCount() == 1 and panel.model.item(0, 0).child(0, 0).text() == "i number 6."
+    with qtbot.waitSignal(panel.findingActivated, timeout=1000) as blocker:
+        panel.view.activated.emit(panel.index_of_finding(0))
+    assert blocker.args == [("segment", 6)]
+
+    panel.show_findings((), "SI")
+    panel.show_findings([item("warning", "w", 7)], "SI")  # from the placeholder back to a group
+    assert panel.group_titles() == ["Warning (1)"] and panel.model.rowCount() == 1
