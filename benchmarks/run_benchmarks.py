@@ -180,8 +180,9 @@ def bench_window() -> None:
         times = measure_edit_to_redraw(window, n=40)
         med = statistics.median(times.plot_ms)
         whole = statistics.median(times.window_ms)
+        solve_part = statistics.median(times.solve_ms)
         print(f"   {sample.name:38s} median {med:6.2f} ms   target <= 16 ms   {'MET' if med <= 16 else 'MISSED'}"
-              f"    (every panel updated: {whole:.2f} ms)")
+              f"    (of which the solve: {solve_part:.2f} ms; until every panel is painted: {whole:.2f} ms)")
         window.document.undo_stack.setClean()
         window.close()
 

@@ -57,6 +57,31 @@ def test_the_debounce_solves_once_after_a_burst(window, document, qtbot):
     assert solutions[0].project is document.project
 
 
+def test_the_first_edit_after_a_pause_is_solved_at_the_next_turn_of_the_event_loop(window, document):
+    solutions = []
+    document.solutionChanged.connect(solutions.append)
+    document._last_solve_end -= 1.0  # the last solve was a second ago
+    model = window.pipework.segments_model
+    assert model.setData(_cell(model, RISING_MAIN, "length"), "2410", EDIT)
+    assert document.recompute_pending and solutions == []
+    QApplication.sendPostedEvents(document)  # one turn of the loop, no timer waited for
+    assert [s.project for s in solutions] == [document.project]
+    assert not document.recompute_pending
+
+
+def test_an_edit_right_after_a_solve_waits_out_the_throttle(window, document, qtbot, monkeypatch):
+    monkeypatch.setattr("app.document.RECOMPUTE_DELAY_MS", 500)  # long enough for any machine
+    solutions = []
+    document.solutionChanged.connect(solutions.append)
+    document.recompute_now()
+    model = window.pipework.segments_model
+    assert model.setData(_cell(model, RISING_MAIN, "length"), "2410", EDIT)
+    QApplication.sendPostedEvents(document)
+    assert len(solutions) == 1 and document.recompute_pending  # held back by the timer
+    qtbot.waitUntil(lambda: len(solutions) == 2, timeout=3000)
+    assert solutions[-1].project is document.project
+
+
 def test_a_project_the_engine_refuses_shows_a_message_not_a_crash(window, document):
     project = document.project
     bad = replace(project, segments=(replace(project.segments[0], material_id="no_such_material"),)

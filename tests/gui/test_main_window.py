@@ -202,6 +202,7 @@ def test_measure_edit_to_redraw_times_real_edits_and_leaves_the_project(window):
     timings = measure_edit_to_redraw(window, n=4)
     assert len(timings.plot_ms) == len(timings.window_ms) == 4
     assert all(0 < plot <= whole for plot, whole in zip(timings.plot_ms, timings.window_ms))
+    assert all(0 < solve < plot for solve, plot in zip(timings.solve_ms, timings.plot_ms))
     assert window.document.project == before
 
 
