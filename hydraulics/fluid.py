@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+from functools import lru_cache
 from typing import Final
 
 from hydraulics.constants import STANDARD_ATMOSPHERE_PA, ZERO_CELSIUS_K
@@ -78,6 +79,16 @@ def water_properties_at(temperature_c: float) -> FluidProperties:
         raise ModelError(
             "fluid.temperature", f"water temperature: allowed {low:g} to {high:g} °C; got {t_c:g} °C", t_c
         )
+    return _water_properties_checked(t_c)
+
+
+@lru_cache(maxsize=64)
+def _water_properties_checked(t_c: float) -> FluidProperties:
+    """:func:`water_properties_at` for a temperature already checked (a float in range).
+
+    Cached: it is a pure function of one number and its result is frozen, and the window
+    asks for the same temperature at every live solve.
+    """
     t_k = t_c + ZERO_CELSIUS_K
     vapour_pressure_pa = float(saturation_pressure(t_k))
     pressure_pa = max(STANDARD_ATMOSPHERE_PA, vapour_pressure_pa)

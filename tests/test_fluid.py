@@ -126,3 +126,11 @@ def test_not_a_fluid():
 
 def test_blank_user_fluid_name():
     assert fluid_properties(UserFluid(name="  ")).description.startswith("user fluid at 20.0 °C")
+
+
+def test_water_properties_are_reused_for_the_same_temperature_and_bad_values_still_refused():
+    assert water_properties_at(12.5) is water_properties_at(12.5)  # one IAPWS evaluation per temperature
+    assert water_properties_at(12.5) == water_properties_at(12.5 + 0.0)
+    for _ in range(2):  # a refusal is never remembered as a result
+        with pytest.raises(ModelError):
+            water_properties_at(120.0)
