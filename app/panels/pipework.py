@@ -149,7 +149,7 @@ class PipeworkPanel(QWidget):
         self.segments_model.modelReset.connect(lambda: self.select_segment(0))
         document.projectChanged.connect(self._refresh_selected)
         document.unitSystemChanged.connect(self._refresh_selected)
-        document.solutionChanged.connect(self._refresh_selected)
+        document.solutionChanged.connect(self._refresh_size_label)
         self.select_segment(0)
         self._refresh_selected()
 
@@ -182,6 +182,28 @@ class PipeworkPanel(QWidget):
             return
         segment = project.segments[index]
         self.fittings_box.setTitle(f"Fittings of segment {index + 1} — {segment.name}")
+        if segment.pipe_series is not None:
+            self.size_stepper.set_state(segment.nominal_size or "", self._can_step(segment, 1),
+                                        self._can_step(segment, -1))
+        else:
+            self.size_stepper.set_state("typed", True, True)
+        self._refresh_size_label()
+        try:
+            total = fittings.segment_k_total(segment.fittings, segment.internal_diameter_m)
+            self.k_total_label.setText(f"Total K of this segment: {total:.3g}")
+        except ModelError as exc:
+            self.k_total_label.setText(f"Total K: — ({exc.problem})")
+
+    def _refresh_size_label(self, *_args) -> None:
+        """The selected segment's bore, series and (once solved) velocity at design flow.
+
+        The only part of this panel a new solution changes, so a solve updates just this.
+        """
+        project = self._document.project
+        index = self.current_segment()
+        if index is None:
+            return
+        segment = project.segments[index]
         system = self._document.unit_system
         bore = (f"Bore {display_text(segment.internal_diameter_m, 'diameter', system)} "
                 f"{unit_suffix('diameter', system)}")
@@ -189,19 +211,13 @@ class PipeworkPanel(QWidget):
         if solution is not None and solution.project is project and index < len(solution.segments):
             velocity = display_text(solution.segments[index].velocity_m_s, "velocity", system, 3)
             bore += f", {velocity} {unit_suffix('velocity', system)} at design flow"
-        if segment.pipe_series is not None:
-            self.size_stepper.set_state(segment.nominal_size or "", self._can_step(segment, 1),
-                                        self._can_step(segment, -1))
-            series = catalogue.pipe_series().get(segment.pipe_series)
-            self.size_label.setText(f"{bore} · {series.name}" if series is not None else bore)
+        if segment.pipe_series is None:
+            text = f"{bore} (typed; a step joins the material's first pipe series)"
         else:
-            self.size_stepper.set_state("typed", True, True)
-            self.size_label.setText(f"{bore} (typed; a step joins the material's first pipe series)")
-        try:
-            total = fittings.segment_k_total(segment.fittings, segment.internal_diameter_m)
-            self.k_total_label.setText(f"Total K of this segment: {total:.3g}")
-        except ModelError as exc:
-            self.k_total_label.setText(f"Total K: — ({exc.problem})")
+            series = catalogue.pipe_series().get(segment.pipe_series)
+            text = f"{bore} · {series.name}" if series is not None else bore
+        if self.size_label.text() != text:
+            self.size_label.setText(text)
 
     @staticmethod
     def _can_step(segment, steps: int) -> bool:

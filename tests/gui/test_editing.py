@@ -297,6 +297,18 @@ def test_stepping_the_size_up_and_down_through_the_series(window, document):
     assert document.project.segments[RISING_MAIN].nominal_size == "DN 200"
 
 
+def test_the_size_line_shows_the_new_bore_at_once_and_its_velocity_once_solved(window, document):
+    window.pipework.select_segment(RISING_MAIN)
+    assert window.larger_pipe()
+    label = window.pipework.size_label.text()
+    bore_mm = catalogue.series("ductile_iron_en545_c40").size("DN 250").internal_diameter_m * 1000.0
+    assert label.startswith(f"Bore {to_display(bore_mm / 1000.0, 'diameter', 'SI'):g}") and "at design flow" not in label
+    document.recompute_now()
+    velocity = document.solution.segments[RISING_MAIN].velocity_m_s  # the engine's own result
+    label = window.pipework.size_label.text()
+    assert f"{velocity:.3g} m/s at design flow" in label and "EN 545" in label
+
+
 def test_the_stepper_buttons_and_the_mouse_wheel_step_the_size(window, document, qtbot):
     window.pipework.select_segment(RISING_MAIN)
     stepper = window.pipework.size_stepper
