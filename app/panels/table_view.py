@@ -57,6 +57,7 @@ class SpreadsheetView(QTableView):
         self.selectionModel().currentRowChanged.connect(self._on_current_row)
         model.modelReset.connect(self._after_reset)
         model.rowsInserted.connect(self._after_insert)
+        model.headerDataChanged.connect(self._after_header_change)
         self.fit_columns()
 
     def fit_columns(self) -> None:
@@ -72,6 +73,12 @@ class SpreadsheetView(QTableView):
 
     def _after_insert(self, _parent: QModelIndex, _first: int, _last: int) -> None:
         self.fit_columns()
+
+    def _after_header_change(self, orientation: Qt.Orientation, _first: int, _last: int) -> None:
+        # The column titles change with the unit system, and with them every value shown
+        # ("15" L/s becomes "237.75" gpm): the columns are fitted to the new texts.
+        if orientation == Qt.Orientation.Horizontal:
+            self.fit_columns()
 
     def _on_current_row(self, current: QModelIndex, _previous: QModelIndex) -> None:
         row = current.row() if current.isValid() else -1

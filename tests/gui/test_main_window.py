@@ -13,6 +13,7 @@ from PySide6.QtWidgets import QApplication, QToolTip
 from app import settings
 from app.cautions import CAUTIONS_TEXT
 from app.document import measure_edit_to_redraw
+from app.panels.table_view import MAX_COLUMN_WIDTH
 from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable
 from hydraulics.results import Finding
@@ -139,6 +140,18 @@ def test_the_unit_switch_applies_everywhere_and_is_remembered(window, make_windo
         assert remembered.document.unit_system == "US"
     finally:
         remembered.deleteLater()
+
+
+def test_the_unit_switch_widens_table_columns_to_the_converted_values(window):
+    view = window.pumps_panel.points_view
+    model = view.model()
+    window.units_combo.activated.emit(window.units_combo.findData("US"))
+    metrics = view.fontMetrics()
+    for column in range(model.columnCount()):
+        texts = [str(model.index(row, column).data() or "") for row in range(model.rowCount())]
+        widest = max(metrics.horizontalAdvance(text) for text in texts)
+        assert view.columnWidth(column) >= min(widest, MAX_COLUMN_WIDTH), model.headerData(
+            column, Qt.Orientation.Horizontal)
 
 
 def test_the_view_menu_radio_actions_switch_units(window):
