@@ -45,6 +45,13 @@ def _always(_project: Project) -> bool:
     return True
 
 
+def _show_text(editor: QLineEdit, text: str) -> None:
+    """Show ``text`` from its start (a long project name is read from its beginning)."""
+    editor.setText(text)
+    if not editor.hasFocus():
+        editor.setCursorPosition(0)
+
+
 def _label(text: str) -> QLabel:
     label = QLabel(text)
     label.setMinimumWidth(LABEL_WIDTH)
@@ -240,7 +247,7 @@ class FormPanel(QWidget):
             typing = isinstance(bound.editor, QLineEdit) and bound.editor.hasFocus() and bound.editor.isModified()
             if isinstance(spec, NumberField):
                 if not typing:  # an edit elsewhere (Ctrl+Up, undo) must not wipe what is being typed
-                    bound.editor.setText(display_text(spec.get(project), spec.quantity, system))
+                    _show_text(bound.editor, display_text(spec.get(project), spec.quantity, system))
                 bound.unit_label.setText(unit_suffix(spec.quantity, system).replace("–", ""))
                 help_text = f"Allowed: {range_text(LIMITS[spec.limit], spec.quantity, system)}."
                 bound.editor.setToolTip(f"{spec.tooltip} {help_text}".strip())
@@ -258,7 +265,7 @@ class FormPanel(QWidget):
                 with QSignalBlocker(bound.editor):
                     bound.editor.setChecked(bool(spec.get(project)))
             elif not typing:
-                bound.editor.setText(str(spec.get(project) or ""))
+                _show_text(bound.editor, str(spec.get(project) or ""))
         self._refresh_placeholders()
 
     def _refresh_placeholders(self, *_args) -> None:

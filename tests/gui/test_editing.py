@@ -377,6 +377,14 @@ def test_form_fields_take_units_and_refuse_out_of_range(window, document):
     assert "between 0 and 100 °C" in window.message_bar.text()
 
 
+def test_a_long_project_name_is_shown_from_its_beginning(window, document):
+    long_name = "Hollin Ridge treated-water booster, second stage, option B with the new rising main"
+    document.apply(replace(document.project, name=long_name), "Rename project")
+    window.site_panel.refresh()
+    editor = window.site_panel.editor("name")
+    assert editor.text() == long_name and editor.cursorPosition() == 0
+
+
 def test_a_rounded_field_left_unedited_keeps_the_stored_value(window, document):
     window.site_panel.choose("atmosphere_mode", "given")
     stored = document.project.site.atmospheric_pressure_pa
