@@ -51,11 +51,6 @@ class PlotTabs(QTabWidget):
         """The plot canvas of the visible tab."""
         return self.plots()[self.currentIndex()].canvas
 
-    def repaint_current(self) -> None:
-        """Paint the visible plot now, before the slower tables and lists are brought up to date."""
-        if self.isVisible():
-            self.current_canvas().viewport().repaint()
-
     def _draw_pending(self, index: int) -> None:
         pending = self._pending.pop(index, None)
         if pending is not None:
