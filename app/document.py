@@ -2,12 +2,13 @@
 
 :class:`ProjectDocument` is the one place the window's state lives.  Panels and table
 models read ``document.project`` and hand candidate projects to :meth:`apply`; they
-never keep data of their own.  After every change the document restarts a short
-single-shot timer and, when it fires, calls :func:`hydraulics.solve.solve` and emits
-``solutionChanged``.  The first edit after a pause is solved as soon as control returns
-to the event loop; edits that arrive while a solve is pending join it, and solves follow
-each other no closer than :data:`RECOMPUTE_DELAY_MS`, so a burst of edits (mouse-wheel
-steps, typing) redraws live without queuing a solve per edit.
+never keep data of their own.  After every change the document schedules a live solve
+(:meth:`ProjectDocument.schedule_recompute`), which calls :func:`hydraulics.solve.solve`
+and emits ``solutionChanged``.  The first edit after a pause is solved as soon as control
+returns to the event loop, before the window repaints; edits that arrive while a solve is
+pending join it, and solves follow each other no closer than :data:`RECOMPUTE_DELAY_MS`
+(a single-shot timer holds the next one back), so a burst of edits (mouse-wheel steps,
+typing) redraws live without queuing a solve per edit.
 
 Changing the unit system changes only what is shown: the stored project stays in SI.
 """
