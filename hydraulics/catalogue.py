@@ -180,10 +180,9 @@ class PipeSeries:
             raise CatalogueLookupError(
                 "nominal_size", f"expected a nominal size as text, got {type(nominal).__name__}",
                 nominal)
-        wanted = _squash(nominal)
-        for i, s in enumerate(self.sizes):
-            if _squash(s.nominal) == wanted:
-                return i
+        exact = self._index_by_squashed_nominal.get(_squash(nominal))
+        if exact is not None:
+            return exact
         query = _parse_nominal(nominal)
         if query is not None:
             hits = [i for i, s in enumerate(self.sizes) if _same_nominal(query, _parse_nominal(s.nominal))]
@@ -195,6 +194,14 @@ class PipeSeries:
             f"{self._nearby_text(query)}",
             nominal,
         )
+
+    @functools.cached_property
+    def _index_by_squashed_nominal(self) -> dict[str, int]:
+        """Position of each size by its nominal without spaces, lower case (first wins)."""
+        found: dict[str, int] = {}
+        for i, s in enumerate(self.sizes):
+            found.setdefault(_squash(s.nominal), i)
+        return found
 
     def step(self, nominal: str, steps: int) -> PipeSize:
         """The size ``steps`` places from ``nominal`` (negative: smaller), clamped at the ends.

@@ -132,6 +132,11 @@ class Solution:
 
     Pump-related parts (``pump_fits``, ``operating_points``, ``variable_speed``,
     ``energy``, ``pump_curves``) are empty/``None`` when the project has no pump.
+
+    ``complete`` is False for the first stage of a solve
+    (:func:`hydraulics.solve.solve_curves`): curves, pump curves, operating points, NPSH
+    and energy are final, but the checks (``findings``) and the variable-speed results
+    are not computed yet.
     """
 
     project: Project
@@ -150,6 +155,7 @@ class Solution:
     pump_curves: tuple = ()
     npsh_available_curve: object | None = None
     extras: dict = field(default_factory=dict)
+    complete: bool = True
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

@@ -5,12 +5,14 @@ validates the project, computes the fluid properties and the site's atmospheric
 pressure, prepares the pipework arrays once, evaluates the four system curves over one
 flow grid, the segment table at design flow, and — where the project has a pump — the
 fitted curves, operating points at both static extremes for new and aged pipe and 1..N
-pumps, variable speed, NPSH, energy and the checks.
+pumps, NPSH and energy (:func:`solve_curves`), then variable speed and the checks
+(:func:`complete_solution`).  The window draws the plot from the first stage before
+the second has run.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from functools import lru_cache
 
 import numpy as np
@@ -48,84 +50,107 @@ def npsh_static_head(project: Project, atmospheric_pa: float, fluid) -> float:
 
 
 def solve(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> Solution:
-    """Everything PumpSketch computes for ``project`` (raises ModelError on bad input)."""
+    """Everything PumpSketch computes for ``project`` (raises ModelError on bad input).
+
+    The two stages of :func:`solve_curves` and :func:`complete_solution` in turn.
+    """
+    return complete_solution(solve_curves(project, n_flow_points))
+
+
+@dataclass(frozen=True, eq=False)
+class CurvesStage:
+    """The first stage of a solve: a :class:`Solution` without checks or variable speed.
+
+    ``solution`` has ``complete=False``; the other fields are what
+    :func:`complete_solution` needs to finish it without repeating any of the work.
+    """
+
+    solution: Solution
+    system: object
+    fitted: object | None
+    npsh_static_m: float | None
+
+
+def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> CurvesStage:
+    """What the head–flow plot shows: system curves, pump curves and operating points.
+
+    Validates the project, computes the fluid properties and the site's atmospheric
+    pressure, prepares the pipework arrays once, evaluates the four system curves over
+    one flow grid and the segment table at design flow and — with a pump — the fitted
+    curves, the operating points at the arrangement's speed (both static extremes, new
+    and aged pipe, 1..N pumps), NPSH and energy.  Raises ModelError on bad input.
+    """
     validate_project(project)
     fluid = fluid_properties(project.fluid)
     p_atm = atmospheric_pressure(project)
     system = prepare_system(project, fluid)
     design_flow = project.site.design_flow_m3_s
     at_design = segment_results(system, design_flow)
-
-    pump_part = _solve_pumps(project, system, fluid, p_atm) if project.duty_pump is not None else None
     max_flow = project.flow_grid_max_factor * design_flow
-    if pump_part is not None:
-        max_flow = max(max_flow, pump_part["curve_max_flow"])
-    flows = flow_grid(max_flow, n_flow_points)
-    curves = system_curves(system, flows)
-
-    findings = checks.regime_findings(at_design)
-    findings += checks.profile_findings(project, system.static_head_m["min"])
-    if pump_part is None:
-        findings += checks.velocity_findings(project, at_design)
-        return Solution(
-            project=project, fluid=fluid, atmospheric_pressure_pa=p_atm,
-            static_head_min_m=system.static_head_m["min"], static_head_max_m=system.static_head_m["max"],
-            design_flow_m3_s=design_flow, curves=curves, segments=at_design,
-            findings=checks.sort_findings(findings),
-        )
-
-    found = [p for p in pump_part["points"] if p.found]
-    lowest = segment_results(system, min(p.flow_m3_s for p in found)) if found else None
-    highest = segment_results(system, max(p.flow_m3_s for p in found)) if found else None
-    findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
-    findings += checks.pump_findings(project, pump_part["fitted"], pump_part["points"], system.static_head_m["max"])
-    findings += pump_part["variable_speed_findings"]
-    npsh_curve = _npsh_curve(system, pump_part, flows)
-    return Solution(
+    common = dict(
         project=project, fluid=fluid, atmospheric_pressure_pa=p_atm,
         static_head_min_m=system.static_head_m["min"], static_head_max_m=system.static_head_m["max"],
-        design_flow_m3_s=design_flow, curves=curves, segments=at_design,
-        findings=checks.sort_findings(findings),
-        pump_fits=(pump_part["fitted"],),
-        operating_points=tuple(pump_part["points"]),
-        variable_speed=pump_part["variable_speed"],
-        energy=pump_part["energy"],
-        pump_curves=pump_part["pump_curves"],
-        npsh_available_curve=npsh_curve,
+        design_flow_m3_s=design_flow, segments=at_design, complete=False,
     )
+    if project.duty_pump is None:
+        curves = system_curves(system, flow_grid(max_flow, n_flow_points))
+        return CurvesStage(Solution(curves=curves, **common), system, None, None)
 
-
-def _solve_pumps(project: Project, system, fluid, p_atm: float) -> dict:
-    """Fitted pump, operating points, variable speed and energy."""
     from hydraulics.energy import annual_energy
     from hydraulics.operating_points import operating_points
-    from hydraulics.pump_arrangement import arrangement_curve
-    from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
 
     arrangement = project.arrangement
     fitted = _cached_fit(project.duty_pump, fluid.density_kg_m3)
     npsh_static = npsh_static_head(project, p_atm, fluid)
-    search = search_speeds(system, fitted, arrangement, project.site.design_flow_m3_s)
-    # One batched solve: the arrangement's own speed first, then the variable-speed ones.
-    own_speed = float(arrangement.speed_ratio)
-    batch = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3,
-                             speed_ratios=tuple(dict.fromkeys((own_speed,) + search.speeds_to_intersect)))
-    points = tuple(p for p in batch if p.speed_ratio == own_speed)
-    speed = variable_speed_points(search, batch)
-    curves = tuple(
-        arrangement_curve(fitted, n, arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
-                          preferred_region=(project.criteria.preferred_region_low,
-                                            project.criteria.preferred_region_high))
-        for n in range(1, arrangement.duty_count + 1)
+    points = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3)
+    pump_curves = _cached_pump_curves(project.duty_pump, fluid.density_kg_m3, arrangement.duty_count,
+                                      arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
+                                      (project.criteria.preferred_region_low, project.criteria.preferred_region_high))
+    curve_max = max(float(np.max(c.flow_m3_s)) for c in pump_curves)
+    flows = flow_grid(max(max_flow, 1.05 * curve_max), n_flow_points)
+    solution = Solution(
+        curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
+        energy=annual_energy(points, project.energy, design_flow), pump_curves=pump_curves,
+        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows), **common,
     )
-    energy = annual_energy(points, project.energy, project.site.design_flow_m3_s)
-    curve_max = max(float(np.max(c.flow_m3_s)) for c in curves)
-    return {
-        "fitted": fitted, "points": points, "variable_speed": speed,
-        "variable_speed_findings": variable_speed_findings(speed, fitted),
-        "pump_curves": curves, "energy": energy, "curve_max_flow": 1.05 * curve_max,
-        "npsh_static": npsh_static,
-    }
+    return CurvesStage(solution, system, fitted, npsh_static)
+
+
+def complete_solution(stage: CurvesStage) -> Solution:
+    """The finished :class:`Solution`: ``stage``'s results with the checks and variable speed.
+
+    Variable speed: the speeds that deliver the design flow are searched and the
+    operating points intersected afresh at those speeds (those at the arrangement's own
+    speed are reused).  Everything of ``stage`` is passed on unchanged (the same objects).
+    """
+    first = stage.solution
+    project, system = first.project, stage.system
+    at_design = first.segments
+    findings = checks.regime_findings(at_design)
+    findings += checks.profile_findings(project, system.static_head_m["min"])
+    if stage.fitted is None:
+        findings += checks.velocity_findings(project, at_design)
+        return replace(first, findings=checks.sort_findings(findings), complete=True)
+
+    from hydraulics.operating_points import operating_points
+    from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
+
+    arrangement, fitted, points = project.arrangement, stage.fitted, first.operating_points
+    search = search_speeds(system, fitted, arrangement, project.site.design_flow_m3_s)
+    other_speeds = tuple(s for s in dict.fromkeys(search.speeds_to_intersect) if s != float(arrangement.speed_ratio))
+    at_speeds = points
+    if other_speeds:
+        at_speeds += operating_points(system, fitted, arrangement, stage.npsh_static_m, first.fluid.density_kg_m3,
+                                      speed_ratios=other_speeds)
+    speed = variable_speed_points(search, at_speeds)
+
+    found = [p for p in points if p.found]
+    lowest = segment_results(system, min(p.flow_m3_s for p in found)) if found else None
+    highest = segment_results(system, max(p.flow_m3_s for p in found)) if found else None
+    findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
+    findings += checks.pump_findings(project, fitted, points, system.static_head_m["max"])
+    findings += variable_speed_findings(speed, fitted)
+    return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True)
 
 
 @lru_cache(maxsize=16)
@@ -138,6 +163,29 @@ def _cached_fit(pump, density_kg_m3: float):
     from hydraulics.pump_fit import fit_pump
 
     return fit_pump(pump, density_kg_m3)
+
+
+@lru_cache(maxsize=16)
+def _cached_pump_curves(pump, density_kg_m3: float, duty_count: int, series_stages: int, speed_ratio: float,
+                        trim_ratio: float, preferred_region: tuple[float, float]) -> tuple:
+    """The curves of 1..``duty_count`` pumps running, reused while the pump set is unchanged.
+
+    They depend on the pump, the fluid density and the arrangement only, not on the
+    pipework, so a pipe edit does not rebuild them.  Their arrays are made read-only,
+    as they are shared by every solution that reuses them.
+    """
+    from hydraulics.pump_arrangement import arrangement_curve
+
+    fitted = _cached_fit(pump, density_kg_m3)
+    curves = tuple(
+        arrangement_curve(fitted, n, series_stages, speed_ratio, trim_ratio, preferred_region=preferred_region)
+        for n in range(1, duty_count + 1)
+    )
+    for curve in curves:
+        for value in vars(curve).values():
+            if isinstance(value, np.ndarray):
+                value.flags.writeable = False
+    return curves
 
 
 @dataclass(frozen=True, eq=False)
@@ -155,13 +203,12 @@ class NpshCurve:
     required_m: np.ndarray | None
 
 
-def _npsh_curve(system, pump_part, flows) -> NpshCurve:
-    static = pump_part["npsh_static"]
-    first = pump_part["pump_curves"][0]
+def _npsh_curve(system, npsh_static_m: float, first_curve, flows) -> NpshCurve:
+    """NPSH available over ``flows`` (static part less the suction losses) beside NPSH required."""
     return NpshCurve(
         flow_m3_s=flows,
-        available_new_m=static - system.suction_loss(flows, False),
-        available_aged_m=static - system.suction_loss(flows, True),
-        required_flow_m3_s=first.flow_m3_s,
-        required_m=first.npsh_required_m,
+        available_new_m=npsh_static_m - system.suction_loss(flows, False),
+        available_aged_m=npsh_static_m - system.suction_loss(flows, True),
+        required_flow_m3_s=first_curve.flow_m3_s,
+        required_m=first_curve.npsh_required_m,
     )

@@ -62,3 +62,61 @@ def test_saved_and_reloaded_project_solves_identically(tmp_path_factory, suction
     reloaded = load_project(path)
     assert reloaded == project
     assert solution_to_json_dict(solve(reloaded)) == solution_to_json_dict(solve(project))
+
+
+def test_pump_curves_are_reused_across_pipe_edits_and_rebuilt_for_a_new_arrangement():
+    from dataclasses import replace
+
+    from hydraulics.pump_arrangement import arrangement_curve
+    from hydraulics.solve import _cached_fit
+
+    project = load_project(SAMPLES[0])
+    first = solve(project)
+    longer = replace(project, segments=tuple(replace(s, length_m=s.length_m * 1.5) for s in project.segments))
+    assert solve(longer).pump_curves is first.pump_curves  # same pump set: the same (read-only) curves
+    assert not first.pump_curves[0].head_m.flags.writeable
+    slower = replace(project, arrangement=replace(project.arrangement, speed_ratio=0.9))
+    rebuilt = solve(slower).pump_curves
+    assert rebuilt is not first.pump_curves
+    # the cache returns exactly what the curve function computes afresh
+    fitted = _cached_fit(slower.duty_pump, first.fluid.density_kg_m3)
+    fresh = arrangement_curve(fitted, 1, slower.arrangement.series_stages, 0.9, slower.arrangement.trim_ratio,
+                              preferred_region=(slower.criteria.preferred_region_low,
+                                                slower.criteria.preferred_region_high))
+    np.testing.assert_array_equal(rebuilt[0].head_m, fresh.head_m)
+    np.testing.assert_array_equal(rebuilt[0].flow_m3_s, fresh.flow_m3_s)
+
+
+def test_the_curves_stage_holds_what_the_plot_draws_and_completion_adds_checks_and_variable_speed():
+    from hydraulics.solve import complete_solution, solve_curves
+
+    with_findings = 0
+    for sample in SAMPLES:
+        stage = solve_curves(load_project(sample))
+        first = stage.solution
+        assert not first.complete and first.findings == () and first.variable_speed is None
+        assert first.operating_points and first.pump_curves and first.energy is not None
+        full = complete_solution(stage)
+        assert full.complete and full.variable_speed is not None
+        with_findings += bool(full.findings)
+        # completion passes the first stage's results on as the very same objects
+        for name in ("curves", "segments", "operating_points", "pump_curves", "energy", "npsh_available_curve"):
+            assert getattr(full, name) is getattr(first, name), name
+        # and a one-call solve gives the same numbers (here: every operating point's flow)
+        again = solve(load_project(sample))
+        assert [p.flow_m3_s for p in again.operating_points] == [p.flow_m3_s for p in full.operating_points]
+        assert [f.code for f in again.findings] == [f.code for f in full.findings]
+    assert with_findings  # the checks ran: some sample has a finding (the sewage and river ones do)
+
+
+def test_a_project_without_pump_solves_in_both_stages():
+    from dataclasses import replace
+
+    from hydraulics.solve import complete_solution, solve_curves
+
+    project = replace(load_project(SAMPLES[0]), pumps=(), arrangement=None)
+    stage = solve_curves(project)
+    assert stage.fitted is None and stage.solution.operating_points == ()
+    full = complete_solution(stage)
+    assert full.complete and full.curves is stage.solution.curves
+    assert all(f.code != "speed_target_unreachable" for f in full.findings)

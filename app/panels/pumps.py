@@ -165,6 +165,7 @@ class PumpsPanel(QWidget):
         layout.addWidget(self.arrangement_form)
         layout.addStretch(1)
 
+        self._shown: tuple | None = None
         document.projectChanged.connect(self.refresh)
         self.refresh()
 
@@ -172,6 +173,10 @@ class PumpsPanel(QWidget):
     def refresh(self) -> None:
         project = self._document.project
         pump = project.duty_pump
+        shown = (project.pumps, project.arrangement.pump_id if project.arrangement is not None else None)
+        if shown == self._shown:
+            return  # an edit elsewhere (the pipework): the chooser and points stay as they are
+        self._shown = shown
         with QSignalBlocker(self.chooser):
             self.chooser.clear()
             for p in project.pumps:

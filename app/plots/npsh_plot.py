@@ -24,6 +24,7 @@ from app.plots.plot_base import (
     ViewFollower,
     add_legend_row,
     add_plot,
+    completes_drawn,
     empty_array,
     make_canvas,
     make_points_item,
@@ -90,8 +91,16 @@ class NpshPlot(QWidget):
         self._sync_legend()
 
     # ------------------------------------------------------------------ public API
+    @property
+    def drawn_solution(self) -> Any:
+        """The solution drawn now (a first-stage one until the finished solve arrives)."""
+        return self._solution
+
     def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
+        if completes_drawn(self._solution, self._unit_system, solution, unit_system):
+            self._solution = solution  # the finished solve of what is drawn: nothing to redraw
+            return
         self._solution = solution
         self._unit_system = unit_system
         self._apply_titles()

@@ -219,6 +219,24 @@ def set_axis_title(plot_item: pg.PlotItem, axis: str, text: str) -> None:
     plot_item.setLabel(axis, text, **label_style)
 
 
+_STAGE_PARTS = ("curves", "segments", "operating_points", "pump_curves", "pump_fits", "npsh_available_curve")
+
+
+def completes_drawn(drawn, drawn_units: str | None, solution, unit_system: str) -> bool:
+    """True when ``solution`` only completes the first-stage solution ``drawn``.
+
+    The engine finishes a solve in two stages (:func:`hydraulics.solve.solve_curves`,
+    then :func:`hydraulics.solve.complete_solution`) and the window draws the plots from
+    the first.  The finished solution adds checks and variable speed and passes every
+    drawn part on as the very same object, so a plot showing ``drawn`` in the same units
+    needs no redraw.
+    """
+    return (drawn is not None and solution is not None and drawn_units == unit_system
+            and getattr(drawn, "complete", True) is False and getattr(solution, "complete", False) is True
+            and getattr(solution, "project", None) is getattr(drawn, "project", None)
+            and all(getattr(solution, name, None) is getattr(drawn, name, None) for name in _STAGE_PARTS))
+
+
 def empty_array() -> np.ndarray:
     return np.empty(0, dtype=float)
 

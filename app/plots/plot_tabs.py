@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
+from PySide6.QtCore import QCoreApplication, QEvent
 from PySide6.QtWidgets import QTabWidget, QWidget
 
 from app.plots.efficiency_power_plot import EfficiencyPowerPlot
@@ -47,9 +48,31 @@ class PlotTabs(QTabWidget):
             else:
                 self._pending[index] = (solution, unit_system)
 
+    def drawn_solution(self) -> Any:
+        """The solution the visible plot has drawn."""
+        return self.plots()[self.currentIndex()].drawn_solution
+
     def current_canvas(self):
         """The plot canvas of the visible tab."""
         return self.plots()[self.currentIndex()].canvas
+
+    def show_and_paint(self, solution: Any, unit_system: str = "SI") -> None:
+        """:meth:`show_solution`, then :meth:`paint_now` (the live path's first stage)."""
+        self.show_solution(solution, unit_system)
+        self.paint_now()
+
+    def paint_now(self) -> None:
+        """Paint the visible plot's new drawing now, with whatever else of the window waits.
+
+        A graphics scene gathers its changed items in a queued call and only then asks
+        its view to repaint, so the plot would otherwise wait for a later paint, behind
+        the checks and tables updated meanwhile.  Delivering that call now makes the
+        scene hand its changes to the view, which then paints the window's pending
+        updates at once (Qt's own behaviour for scenes); the plot is painted once.
+        """
+        if self.isVisible():
+            scene = self.current_canvas().scene()
+            QCoreApplication.sendPostedEvents(scene, QEvent.Type.MetaCall.value)
 
     def _draw_pending(self, index: int) -> None:
         pending = self._pending.pop(index, None)

@@ -97,6 +97,15 @@ class ProjectTableModel(QAbstractTableModel):
         """The records shown as rows."""
         raise NotImplementedError
 
+    def rows_source(self, project: Project) -> Any:
+        """The one model object every cell of ``project`` is read from, if there is one.
+
+        When it is the very same object in the old and the new project (an edit elsewhere
+        in the frozen model), no cell can have changed and :meth:`refresh` announces
+        nothing.  ``None`` (the default) means no such object: the rows are compared.
+        """
+        return None
+
     def value(self, project: Project, row: int, column: Column) -> Any:
         """The stored value of one cell (SI float, text, choice value or ``None``)."""
         raise NotImplementedError
@@ -189,6 +198,10 @@ class ProjectTableModel(QAbstractTableModel):
         columns = self.columns_for(project)
         if columns != self._columns:
             self.reset()
+            return
+        source = self.rows_source(project)
+        if source is not None and source is self.rows_source(self._project):
+            self._project = project
             return
         old = tuple(self.items(self._project)) if self._row_count else ()
         new = tuple(self.items(project))

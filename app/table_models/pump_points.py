@@ -98,6 +98,10 @@ class PumpPointsModel(ProjectTableModel):
     def columns_for(self, project: Project) -> tuple[Column, ...]:
         return _COLUMNS
 
+    def rows_source(self, project: Project) -> PumpModel | None:
+        index = self._pump_index(project)
+        return None if index is None else project.pumps[index]
+
     def items(self, project: Project) -> Sequence[Point]:
         index = self._pump_index(project)
         return () if index is None else pump_points(project.pumps[index])

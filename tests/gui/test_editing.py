@@ -82,6 +82,42 @@ def test_an_edit_right_after_a_solve_waits_out_the_throttle(window, document, qt
     assert solutions[-1].project is document.project
 
 
+def test_the_plot_is_painted_from_the_first_stage_before_the_checks_arrive(window, document, qtbot):
+    """The live path: curves and points first (drawn and painted at once), then the checks."""
+    window.show()
+    qtbot.waitExposed(window)
+    qtbot.wait(50)  # the first paint of the shown window
+    plot = window.plot_tabs.head_flow
+    old = document.solution
+    at_paint = []
+    window.plot_tabs.current_canvas().painted.connect(
+        lambda: at_paint.append((plot.drawn_solution, document.solution, window.checks_panel.findings)))
+    redraws = []
+    original = plot._update_points
+    plot._update_points = lambda: (redraws.append(1), original())
+    window.pipework.step_size(RISING_MAIN, 1)
+    document.recompute_now()
+    assert at_paint, "the canvas was not painted within the solve"
+    drawn, published, findings = at_paint[0]
+    assert drawn.project is document.project and not drawn.complete and drawn.findings == ()
+    assert published is old and findings == old.findings  # the checks had not arrived yet
+    full = document.solution
+    assert full.complete and full.operating_points is drawn.operating_points
+    assert redraws == [1]  # the finished solution added checks only: the plot was not redrawn
+    assert plot.drawn_solution is full and window.checks_panel.findings == full.findings
+
+
+def test_a_failure_in_the_second_stage_clears_the_plot_and_says_why(window, document, monkeypatch):
+    def broken(_stage):
+        raise RuntimeError("checks failed")
+
+    monkeypatch.setattr("app.document.complete_solution", broken)
+    window.pipework.step_size(RISING_MAIN, 1)
+    assert document.recompute_now() is None
+    assert "checks failed" in document.solve_error and window.message_bar.kind == "stale"
+    assert window.plot_tabs.head_flow.drawn_solution is None
+
+
 def test_a_project_the_engine_refuses_shows_a_message_not_a_crash(window, document):
     project = document.project
     bad = replace(project, segments=(replace(project.segments[0], material_id="no_such_material"),)
@@ -210,6 +246,24 @@ def test_pasting_a_pump_curve_adds_rows_and_fills_a_column(window, document):
     assert pump.efficiency[6] == pytest.approx(0.75)
     document.undo_stack.undo()
     assert len(document.project.duty_pump.flow_m3_s) == 8
+
+
+def test_a_pipe_edit_leaves_the_pump_panel_alone_and_a_point_edit_updates_it(window, document):
+    panel = window.pumps_panel
+    model = panel.points_model
+    announced = []
+    for signal in (model.dataChanged, model.modelReset, model.rowsInserted, model.rowsRemoved):
+        signal.connect(lambda *args: announced.append(args))
+    chooser_items = [panel.chooser.itemText(i) for i in range(panel.chooser.count())]
+    assert window.pipework.step_size(RISING_MAIN, 1)
+    assert announced == []  # the pump's points are the same objects: nothing to announce
+    assert [panel.chooser.itemText(i) for i in range(panel.chooser.count())] == chooser_items
+    head = model.index(1, model.column_index("head_m"))
+    assert model.setData(head, "77", EDIT)
+    assert announced and model.data(head) == "77"
+    assert document.project.duty_pump.head_m[1] == pytest.approx(77.0)
+    document.undo_stack.undo()  # the chooser and points follow an undo of a pump edit too
+    assert model.data(head) != "77"
 
 
 def test_delete_clears_optional_cells_in_one_step(window, document, qtbot):

@@ -161,6 +161,30 @@ def test_new_solution_updates_the_same_items(head_flow):
     assert len(head_flow.plot_item.items) == plot_children
 
 
+def test_the_finished_solve_of_what_is_drawn_redraws_nothing(head_flow):
+    """Two-stage solves: the completion of a drawn first stage is adopted without a redraw."""
+    from dataclasses import replace
+
+    from app.plots.plot_base import completes_drawn
+
+    first = replace(make_solution(duty_count=2), complete=False)
+    head_flow.show_solution(first)
+    full = replace(first, findings=(), complete=True)  # shares every drawn part
+    other = replace(make_solution(duty_count=2, scale=0.7), complete=True)
+    assert completes_drawn(first, "SI", full, "SI")
+    assert not completes_drawn(first, "SI", full, "US")  # other units: redraw
+    assert not completes_drawn(first, "SI", other, "SI")  # other arrays: redraw
+    assert not completes_drawn(full, "SI", full, "SI")  # only a first stage is completed
+    redraws = []
+    original = head_flow._update_points
+    head_flow._update_points = lambda: (redraws.append(1), original())
+    head_flow.show_solution(full)
+    assert redraws == [] and head_flow.drawn_solution is full
+    head_flow.show_solution(other)
+    assert redraws == [1]
+    np.testing.assert_allclose(head_flow.curve_data("max", "aged")[1], other.curve("max", "aged").head_m)
+
+
 def test_system_band_spans_lowest_to_highest_curve(head_flow):
     solution = make_solution()
     head_flow.show_solution(solution)
