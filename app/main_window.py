@@ -166,8 +166,7 @@ class MainWindow(QMainWindow):
 
     def _connect(self) -> None:
         doc = self.document
-        # The plot, watched while editing, is painted first; the checks follow a few ms later.
-        doc.curvesReady.connect(lambda first: self.plot_tabs.show_and_paint(first, self.document.unit_system))
+        doc.curvesReady.connect(self._show_first_stage)
         doc.solutionChanged.connect(self._show_solution)
         doc.solveFailed.connect(self._show_solve_failure)
         doc.editRefused.connect(self._show_refusal)
@@ -183,6 +182,9 @@ class MainWindow(QMainWindow):
         self.pumps_panel.message.connect(self.show_status)
 
     # ------------------------------------------------------------------ showing results
+    def _show_first_stage(self, first) -> None:  # the plot is painted first, the checks a few ms later
+        self.plot_tabs.show_and_paint(first, self.document.unit_system)
+
     def _show_solution(self, solution) -> None:
         system = self.document.unit_system
         self.plot_tabs.show_solution(solution, system)  # no redraw when only the checks were added
@@ -350,12 +352,10 @@ class MainWindow(QMainWindow):
     # ------------------------------------------------------------------ questions (tests replace these)
     def ask_save_changes(self) -> str:
         """Ask whether to save unsaved changes: "save", "discard" or "cancel"."""
-        answer = QMessageBox.question(
-            self, APP_TITLE, f"Save the changes to {self.document.display_name()}?",
-            QMessageBox.StandardButton.Save | QMessageBox.StandardButton.Discard
-            | QMessageBox.StandardButton.Cancel, QMessageBox.StandardButton.Save)
-        return {QMessageBox.StandardButton.Save: "save",
-                QMessageBox.StandardButton.Discard: "discard"}.get(answer, "cancel")
+        buttons = QMessageBox.StandardButton
+        answer = QMessageBox.question(self, APP_TITLE, f"Save the changes to {self.document.display_name()}?",
+                                      buttons.Save | buttons.Discard | buttons.Cancel, buttons.Save)
+        return {buttons.Save: "save", buttons.Discard: "discard"}.get(answer, "cancel")
 
     def ask_open_path(self) -> str:
         path, _filter = QFileDialog.getOpenFileName(self, "Open project", self._start_folder(), PROJECT_FILTER)
