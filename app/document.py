@@ -7,11 +7,11 @@ never keep data of their own.  After every change the document schedules a live 
 (:func:`hydraulics.solve.solve_curves`: curves and operating points) is emitted as
 ``curvesReady`` for the plot, the finished solution
 (:func:`hydraulics.solve.complete_solution`: with the checks) as ``solutionChanged``.
-The first edit after a pause is solved as soon as control
-returns to the event loop, before the window repaints; edits that arrive while a solve is
-pending join it, and solves follow each other no closer than :data:`RECOMPUTE_DELAY_MS`
-(a single-shot timer holds the next one back), so a burst of edits (mouse-wheel steps,
-typing) redraws live without queuing a solve per edit.
+The first edit after a pause is solved as soon as control returns to the event loop,
+before the window repaints; edits that arrive while a solve is pending join it, and
+solves follow each other no closer than :data:`RECOMPUTE_DELAY_MS` (a single-shot timer
+holds the next one back), so a burst of edits (mouse-wheel steps, typing) redraws live
+without queuing a solve per edit.
 
 Changing the unit system changes only what is shown: the stored project stays in SI.
 """
@@ -324,10 +324,10 @@ def measure_edit_to_redraw(window, n: int = 50) -> RedrawTimings:
     and back when it is already the largest size; or, without one, changes the last
     segment's length by 1 % and back).  Nothing is bypassed: the edit is pushed as the
     user's would be, the throttled recompute fires from the event loop, and the clock
-    stops when the plot canvas has painted the new solution — drawn from the solve's
-    first stage — (and again when the event loop has brought up every other panel).  Each edit waits out the throttle interval
-    first, as a single keystroke or click would.  The edits are undone afterwards, so
-    the project is left as it was.
+    stops when the plot canvas has painted the new solution, drawn from the solve's
+    first stage (and again when the event loop has brought up every other panel).  Each
+    edit waits out the throttle interval first, as a single keystroke or click would.
+    The edits are undone afterwards, so the project is left as it was.
     """
     document: ProjectDocument = window.document
     app = QApplication.instance()
