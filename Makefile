@@ -3,7 +3,7 @@ PYTHON ?= python3
 VENV := .venv
 PY := $(VENV)/bin/python
 STAMP := $(VENV)/.installed
-SAMPLE := sample_projects/hilltop_booster.pumpsketch.json
+SAMPLE := hilltop_booster
 
 .PHONY: run test bench install clean
 
@@ -18,7 +18,7 @@ $(STAMP): $(PY) pyproject.toml constraints.txt
 install: $(STAMP)
 
 run: $(STAMP)
-	$(PY) -m app $(SAMPLE)
+	$(PY) -m app --sample $(SAMPLE)
 
 test: $(STAMP)
 	QT_QPA_PLATFORM=offscreen $(PY) -m pytest

@@ -2,6 +2,7 @@
 
 ``pumpsketch``                     open the window (empty, or on the last project)
 ``pumpsketch FILE``                open the window on a project file
+``pumpsketch --sample NAME``       open the window on a bundled sample, as an unsaved copy
 ``pumpsketch solve FILE [--json] [--units SI|US]``   print the results
 ``pumpsketch import-pump CSV [--speed RPM]``          validate pump data and show the fit
 ``pumpsketch shot FILE -o OUT.png``                   render the window offscreen to a PNG
@@ -88,6 +89,19 @@ def _cmd_shot(args) -> int:
     return 0
 
 
+def _open_sample(names: list[str]) -> int:
+    from app.panels.file_controller import sample_names, sample_path
+
+    path = sample_path(names[0]) if len(names) == 1 else None
+    if path is None:
+        given = f"no sample called {names[0]!r}" if len(names) == 1 else "give one sample name"
+        print(f"pumpsketch: --sample: {given}; the samples are {', '.join(sample_names())}", file=sys.stderr)
+        return BAD_INPUT
+    from app.gui import run_gui
+
+    return run_gui(str(path), as_copy=True)
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="pumpsketch",
@@ -117,6 +131,8 @@ def build_parser() -> argparse.ArgumentParser:
 
 def main(argv: list[str] | None = None) -> int:
     argv = list(sys.argv[1:] if argv is None else argv)
+    if argv and argv[0] == "--sample":
+        return _open_sample(argv[1:])
     if not argv or (argv[0] not in SUBCOMMANDS and not argv[0].startswith("-")):
         if len(argv) > 1:
             print("pumpsketch: give at most one project file to open", file=sys.stderr)

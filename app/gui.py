@@ -23,20 +23,24 @@ def application() -> QApplication:
     return created
 
 
-def open_window(path: str | Path | None) -> MainWindow:
+def open_window(path: str | Path | None, as_copy: bool = False) -> MainWindow:
     """A main window on ``path``; on the last project when ``path`` is None and one is
     remembered; else on a new project.  A file that cannot be read leaves a new project
-    open and says why."""
+    open and says why.  ``as_copy`` opens ``path`` as an unsaved copy (a sample), so
+    that saving asks where instead of overwriting it."""
     window = MainWindow()
+    if path is not None and as_copy:
+        window.files.open_sample(path)
+        return window
     target = path if path is not None else settings.last_project()
     if target is not None:
         window.files.open_path(target, ask=False)
     return window
 
 
-def run_gui(path: str | None) -> int:
+def run_gui(path: str | None, as_copy: bool = False) -> int:
     """Open the window (see :func:`open_window`) and run until it closes; the exit code."""
     app = application()
-    window = open_window(path)
+    window = open_window(path, as_copy)
     window.show()
     return int(app.exec())

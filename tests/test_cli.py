@@ -113,3 +113,13 @@ def test_import_pump_bad_file(tmp_path):
     result = run("import-pump", str(path))
     assert result.returncode == 2
     assert "line 3" in result.stderr and len(result.stderr.strip().splitlines()) == 1
+
+
+@pytest.mark.parametrize("args, needle", [(("--sample", "no_such_sample"), "no sample called 'no_such_sample'"),
+                                          (("--sample",), "give one sample name"),
+                                          (("--sample", "../README"), "no sample called")])
+def test_an_unknown_sample_exits_2_naming_the_samples(args, needle):
+    result = run(*args)
+    assert result.returncode == 2 and len(result.stderr.strip().splitlines()) == 1
+    assert needle in result.stderr
+    assert all(path.name.removesuffix(".pumpsketch.json") in result.stderr for path in SAMPLES)

@@ -168,6 +168,23 @@ def test_startup_opens_the_last_project_or_a_new_one(qtbot, window, hilltop, sam
     assert given.document.file_path == given_path.resolve()
 
 
+def test_a_sample_opened_from_the_command_line_is_an_unsaved_copy(qtbot, dialogs, monkeypatch, tmp_path):
+    from app.panels.file_controller import sample_path
+
+    path = sample_path("river_intake")
+    assert path is not None and sample_path("no_such_sample") is None and sample_path("") is None
+    before = path.read_bytes()
+    window = open_window(str(path), as_copy=True)
+    qtbot.addWidget(window)
+    dialogs.install(monkeypatch, window)
+    assert window.document.file_path is None and not window.document.is_modified
+    assert window.document.project.name == load_project(path).name
+    dialogs.save_path = tmp_path / "mine.pumpsketch.json"
+    assert window.files.save()  # Save asks where: the sample itself is never written
+    assert window.document.file_path == dialogs.save_path.resolve()
+    assert path.read_bytes() == before
+
+
 def test_the_suffix_rule():
     assert with_suffix("a/b").name == "b.pumpsketch.json"
     assert with_suffix("b.json").name == "b.pumpsketch.json"
