@@ -79,7 +79,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
             scenario = f"{op.static} static, {op.pipe}"
             if not op.found:
                 rows.append([scenario, str(op.pumps_running), f"{op.speed_ratio * 100:.0f}", "—", "—", "—", "—",
-                             "—", "—", "—", op.reason or "no point"])
+                             "—", "—", "—", op.reason_text(system) or "no point"])
                 continue
             eff = "—" if op.efficiency is None else f"{op.efficiency * 100:.1f}"
             bep = "—" if op.bep_flow_ratio is None else f"{op.bep_flow_ratio * 100:.0f}"
@@ -122,6 +122,6 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
     if not solution.findings:
         out.append("  none")
     for finding in solution.findings:
-        out.append(f"  [{finding.severity.upper()}] {finding.code}: {finding.message}")
+        out.append(f"  [{finding.severity.upper()}] {finding.code}: {finding.text(system)}")
         out.append(f"      where: {finding.where}" + (f" — {finding.remedy}" if finding.remedy else ""))
     return "\n".join(out) + "\n"

@@ -173,10 +173,14 @@ def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m:
         where = f"{pump_where}, {label}"
         target = ("scenario", (point.static, point.pipe, point.pumps_running, point.speed_ratio))
         if not point.found:
-            out.append(Finding(
-                "critical", "no_operating_point",
-                f"No operating point: {point.reason}.", where,
-                "Check the static head, the pump curve and the number of pumps running.", target))
+            remedy = "Check the static head, the pump curve and the number of pumps running."
+            if point.reason_template is not None:  # quoted heads follow the display units
+                out.append(finding("critical", "no_operating_point", f"No operating point: {point.reason_template}.",
+                                   {name: (value, quantity) for name, value, quantity in point.reason_values},
+                                   where, remedy, target))
+            else:
+                out.append(Finding("critical", "no_operating_point", f"No operating point: {point.reason}.", where,
+                                   remedy, target))
             continue
         if point.extrapolated:
             out.append(finding(

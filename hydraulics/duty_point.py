@@ -39,6 +39,7 @@ import numpy as np
 
 from hydraulics.pump_arrangement import arrangement_head
 from hydraulics.pump_fit import FittedPump
+from hydraulics.results import render_template
 
 __all__ = [
     "bracketed_roots",
@@ -162,7 +163,10 @@ class DutyPoints:
 
     ``flow_m3_s`` and ``head_m`` are NaN where no point was found.  ``found`` is True for
     statuses :data:`STATUS_FOUND` and :data:`STATUS_EXTRAPOLATED`; ``extrapolated`` flags
-    the latter.  ``reasons`` holds, per scenario, ``None`` or a plain sentence fragment.
+    the latter.  ``reasons`` holds, per scenario, ``None`` or a plain sentence fragment
+    (heads in SI); ``reason_templates`` holds, per scenario, ``None`` or the same fragment
+    as ``(template, values)``: ``{name}`` placeholders and ``(name, value_si, quantity)``
+    values, to show it in another unit system (:func:`hydraulics.results.render_template`).
     """
 
     flow_m3_s: np.ndarray
@@ -173,6 +177,7 @@ class DutyPoints:
     extrapolated: np.ndarray
     reasons: tuple[str | None, ...]
     iterations: int
+    reason_templates: tuple[tuple[str, tuple] | None, ...] = ()
 
 
 def _narrowed_brackets(fitted, residual, pump_args, lo, hi, f_lo, f_hi, active, width: float = 0.04):
@@ -290,6 +295,7 @@ def solve_duty_points(system, fitted: FittedPump, pumps_running, series_stages=1
     head = np.where(found, arrangement_head(fitted, np.where(found, flow, 0.0), n, stages, s, t), np.nan)
 
     reasons: list[str | None] = []
+    templates: list[tuple[str, tuple] | None] = []
     flat_status = status.ravel().tolist()
     pump_at_left = arrangement_head(fitted, q_left, n, stages, s, t)
     pump_left = pump_at_left.ravel().tolist()
@@ -297,6 +303,7 @@ def solve_duty_points(system, fitted: FittedPump, pumps_running, series_stages=1
     left_list = q_left.ravel().tolist()
     beyond_list = beyond.ravel().tolist()
     for i, st in enumerate(flat_status):
+        quoted = None
         if st == STATUS_FOUND:
             reasons.append(None)
         elif st == STATUS_EXTRAPOLATED:
@@ -304,15 +311,17 @@ def solve_duty_points(system, fitted: FittedPump, pumps_running, series_stages=1
                            if beyond_list[i] else "intersection below the lowest tested flow (extrapolated fit)")
         elif st == STATUS_CANNOT_LIFT:
             if left_list[i] == 0.0:
-                reasons.append(f"cannot lift the static head (shut-off head {pump_left[i]:.1f} m, "
-                               f"static head {system_left[i]:.1f} m)")
+                template = "cannot lift the static head (shut-off head {pump}, static head {system})"
             else:
-                reasons.append(f"cannot lift the static head (highest pump head {pump_left[i]:.1f} m, "
-                               f"system head there {system_left[i]:.1f} m)")
+                template = "cannot lift the static head (highest pump head {pump}, system head there {system})"
+            quoted = (template, (("pump", pump_left[i], "head"), ("system", system_left[i], "head")))
+            reasons.append(render_template(template, quoted[1], "SI"))
         else:
             reasons.append(f"runs beyond the end of its curve (no intersection up to {extension:g} × the "
                            "largest tested flow)")
+        templates.append(quoted)
     return DutyPoints(
         flow_m3_s=flow, head_m=head, residual_m=np.where(found, roots.f, np.nan), status=status,
         found=found, extrapolated=extrapolated, reasons=tuple(reasons), iterations=roots.iterations,
+        reason_templates=tuple(templates),
     )

@@ -179,7 +179,10 @@ def annual_energy(points: Sequence, energy_inputs: EnergyInputs, design_flow_m3_
             return None
         point = match[0]
         if not point.found:
-            notes.append(f"no operating point at {static} static, {pipe} pipe with {n} pump(s): {point.reason}")
+            # the gist of the reason only: its bracketed detail quotes heads in SI, and the
+            # operating points show it in the display units
+            gist = (point.reason or "not found").split(" (")[0]
+            notes.append(f"no operating point at {static} static, {pipe} pipe with {n} pump(s): {gist}")
             return None
         if point.input_power_w is None or point.specific_energy_kwh_m3 is None:
             notes.append(f"power unknown at {static} static (the pump has no efficiency or power data)")

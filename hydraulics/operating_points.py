@@ -31,6 +31,7 @@ from hydraulics.duty_point import DEFAULT_EXTENSION, solve_duty_points
 from hydraulics.model import Arrangement, ModelError
 from hydraulics.pump_arrangement import arrangement_performance
 from hydraulics.pump_fit import FittedPump
+from hydraulics.results import render_template
 
 __all__ = ["npsh_available", "OperatingPoint", "ScenarioGrid", "scenario_grid", "operating_points",
            "STATIC_CASES", "PIPE_STATES"]
@@ -118,10 +119,21 @@ class OperatingPoint:
     npsh_margin_m: float | None
     npsh_margin_ratio: float | None
     segment_velocities_m_s: tuple[float, ...]
+    reason_template: str | None = None
+    """``reason`` with ``{name}`` placeholders for its quoted heads (``None``: plain text)."""
+    reason_values: tuple[tuple[str, float, str], ...] = ()
+    """``(name, value_si, quantity)`` for the placeholders of ``reason_template``."""
+
+    def reason_text(self, unit_system: str = "SI") -> str | None:
+        """``reason`` with its quoted values in ``unit_system`` ("SI" or "US")."""
+        if self.reason_template is None:
+            return self.reason
+        return render_template(self.reason_template, self.reason_values, unit_system)
 
     def to_json_dict(self) -> dict:
         data = asdict(self)
         data["segment_velocities_m_s"] = list(self.segment_velocities_m_s)
+        del data["reason_template"], data["reason_values"]  # ``reason`` carries the SI text
         return data
 
 
@@ -248,6 +260,7 @@ def operating_points(system, fitted: FittedPump, arrangement: Arrangement, npsh_
     pumps = n.astype(int).tolist()
     speed_list = s.tolist()
     statics = grid.static_head_m.tolist()
+    templates = duty.reason_templates or (None,) * grid.size
     points = []
     for i in range(grid.size):
         points.append(OperatingPoint(
@@ -255,6 +268,8 @@ def operating_points(system, fitted: FittedPump, arrangement: Arrangement, npsh_
             trim_ratio=trim, series_stages=stages, static_head_m=statics[i],
             found=found_list[i], reason=duty.reasons[i], extrapolated=extrapolated[i],
             segment_velocities_m_s=tuple(velocities[i]) if found_list[i] else (),
+            reason_template=templates[i][0] if templates[i] else None,
+            reason_values=templates[i][1] if templates[i] else (),
             **{key: values[i] for key, values in cols.items()},
         ))
     return tuple(points)

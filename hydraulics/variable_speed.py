@@ -33,7 +33,7 @@ from hydraulics.model import Arrangement, ModelError
 from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, OperatingPoint, operating_points
 from hydraulics.pump_arrangement import arrangement_head, rated_equivalent_flow
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import Finding
+from hydraulics.results import Finding, finding
 
 __all__ = ["SpeedForFlow", "VariableSpeedResult", "SpeedSearch", "search_speeds", "variable_speed_points",
            "variable_speed", "variable_speed_findings",
@@ -284,21 +284,21 @@ def variable_speed_findings(result: VariableSpeedResult, fitted: FittedPump) -> 
     pump = fitted.pump
     where = f"pump '{pump.name}'"
     target = ("pump", pump.pump_id)
-    flow_l_s = result.target_flow_m3_s * 1000.0
+    target_flow = {"q": (result.target_flow_m3_s, "flow")}
     out: list[Finding] = []
     for item in result.scenarios:
         label = f"{item.static} static, {item.pipe} pipe"
         if item.limit == LIMITED_BY_MAX:
-            out.append(Finding(
+            out.append(finding(
                 "warning", "speed_target_unreachable",
-                f"With {item.pumps_running} duty pump(s) the target flow {flow_l_s:.1f} L/s needs more than the "
-                f"maximum speed ratio {result.max_speed_ratio * 100:.0f} % at {label}.",
+                f"With {item.pumps_running} duty pump(s) the target flow {{q}} needs more than the "
+                f"maximum speed ratio {result.max_speed_ratio * 100:.0f} % at {label}.", target_flow,
                 f"{where}, {label}", "Choose a larger pump, more duty pumps or a higher maximum speed.", target))
         elif item.limit == LIMITED_BY_MIN:
-            out.append(Finding(
+            out.append(finding(
                 "info", "speed_below_minimum",
                 f"At {label} even the minimum speed ratio {result.min_speed_ratio * 100:.0f} % delivers more than "
-                f"the target flow {flow_l_s:.1f} L/s.",
+                "the target flow {q}.", target_flow,
                 f"{where}, {label}", "Lower the minimum speed if the pump allows it, or accept the higher flow.",
                 target))
         elif item.achievable and item.extrapolated:

@@ -130,3 +130,16 @@ def test_no_operating_point_is_a_finding_not_an_exception():
     solution = solve(CRAFTED["no_operating_point"](clean_project()))
     assert not any(p.found for p in solution.operating_points if p.static == "max")
     assert any(f.code == "no_operating_point" and f.severity == "critical" for f in solution.findings)
+
+
+def test_the_heads_quoted_by_a_missing_point_follow_the_display_units():
+    solution = solve(CRAFTED["no_operating_point"](clean_project()))
+    missing = next(f for f in solution.findings if f.code == "no_operating_point")
+    point = next(p for p in solution.operating_points if not p.found)
+    assert missing.text("SI") == f"No operating point: {point.reason}."
+    us = missing.text("US")
+    assert "cannot lift the static head" in us and " ft" in us and " m," not in us and " m)" not in us
+    # the shut-off head in feet is the SI value / 0.3048 (1 ft = 0.3048 m exactly, NIST SP 811)
+    shutoff_m = dict((name, value) for name, value, _ in point.reason_values)["pump"]
+    assert f"{shutoff_m / 0.3048:.0f} ft" in us and point.reason_text("US") in us
+    assert "reason_template" not in point.to_json_dict() and point.to_json_dict()["reason"] == point.reason

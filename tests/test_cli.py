@@ -123,3 +123,24 @@ def test_an_unknown_sample_exits_2_naming_the_samples(args, needle):
     assert result.returncode == 2 and len(result.stderr.strip().splitlines()) == 1
     assert needle in result.stderr
     assert all(path.name.removesuffix(".pumpsketch.json") in result.stderr for path in SAMPLES)
+
+
+def test_the_us_summary_quotes_every_check_and_missing_point_in_us_units():
+    from dataclasses import replace
+
+    from app.text_report import summary_text
+    from hydraulics.project_io import load_project
+    from hydraulics.solve import solve
+
+    project = load_project(ROOT / "sample_projects" / "hilltop_booster.pumpsketch.json")
+    tank = project.site.delivery  # 40 m higher (invented): above the pump's shut-off head at the top level
+    site = replace(project.site, delivery=replace(tank, level_low_m=tank.level_low_m + 40.0,
+                                                  level_high_m=tank.level_high_m + 40.0))
+    solution = solve(replace(project, site=site))
+    assert {"no_operating_point", "speed_target_unreachable"} <= {f.code for f in solution.findings}
+    text = summary_text(solution, "US")
+    checks = text[text.index("Checks ("):]
+    points = text[text.index("Operating points:"):text.index("Checks (")]
+    assert "gpm" in checks and " ft" in checks and "cannot lift" in points
+    for part in (checks, points):
+        assert not any(unit in part for unit in ("L/s", " m,", " m)", " m.", "m/s", "kPa")), part

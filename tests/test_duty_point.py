@@ -25,6 +25,7 @@ from hydraulics.duty_point import (
 )
 from hydraulics.pump_arrangement import arrangement_head
 from hydraulics.pump_fit import fit_pump
+from hydraulics.results import render_template
 from tests.pump_fakes import QuadraticSystem, quadratic_pump
 
 A, B, K = 60.0, 20000.0, 4000.0  # invented coefficients
@@ -82,6 +83,12 @@ def test_cannot_lift_the_static_head(fitted):
     assert (duty.status == STATUS_CANNOT_LIFT).all()
     assert np.isnan(duty.flow_m3_s).all() and np.isnan(duty.head_m).all()
     assert duty.reasons[0] == "cannot lift the static head (shut-off head 60.0 m, static head 61.0 m)"
+    # The same reason in US units: 1 ft = 0.3048 m exactly (NIST SP 811, App. B), so
+    # 60 m = 196.85 ft and 61 m = 200.13 ft, shown to three significant digits.
+    template, values = duty.reason_templates[0]
+    assert render_template(template, values, "US") == \
+        "cannot lift the static head (shut-off head 197 ft, static head 200 ft)"
+    assert render_template(template, values, "SI") == duty.reasons[0]
 
 
 def test_static_head_equal_to_shutoff_is_no_point(fitted):

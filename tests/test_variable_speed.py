@@ -77,8 +77,13 @@ def test_target_beyond_the_maximum_speed(fitted):
     assert _exact_speed(30.0, 6000.0, 2, 0.06) > 1.0  # 1.077 (closed form)
     assert not item.achievable and item.speed_ratio is None and item.limit == "max_speed"
     assert "maximum speed ratio 100 %" in item.reason
-    codes = [f.code for f in variable_speed_findings(result, fitted)]
-    assert "speed_target_unreachable" in codes
+    findings = variable_speed_findings(result, fitted)
+    assert "speed_target_unreachable" in [f.code for f in findings]
+    # The target flow follows the display units: 60 L/s = 0.06 m³/s / 3.785411784e-3 m³ per US gal
+    # × 60 s/min = 951.0 gpm (1 US gal = 3.785411784 L exactly, NIST SP 811, App. B).
+    unreachable = next(f for f in findings if f.code == "speed_target_unreachable")
+    assert "60.0 L/s" in unreachable.text("SI")
+    assert "951 gpm" in unreachable.text("US") and "L/s" not in unreachable.text("US")
 
 
 def test_target_below_the_minimum_speed(fitted):

@@ -155,7 +155,7 @@ class OperatingPointsModel(QAbstractTableModel):
             return text
         if role == Qt.ItemDataRole.ToolTipRole:
             if not found:
-                return f"No operating point: {read.field(point, 'reason', '') or 'not found'}"
+                return f"No operating point: {read.reason_text(point, self._unit_system)}"
             if index.column() == 0:
                 return read.point_label(point, with_speed=True)
             return column.tooltip or None
@@ -179,7 +179,7 @@ class OperatingPointsModel(QAbstractTableModel):
         value = column.read(point)
         if column_index >= FIRST_VALUE_COLUMN and not found:
             if column_index == FIRST_VALUE_COLUMN:
-                return f"No operating point: {read.field(point, 'reason', '') or 'not found'}"
+                return f"No operating point: {read.reason_text(point, self._unit_system)}"
             return ""
         if column_index == 0:
             return str(value)

@@ -25,6 +25,13 @@ def field(obj: Any, name: str, default: Any = None) -> Any:
     return getattr(obj, name, default)
 
 
+def reason_text(point: Any, unit_system: str = "SI") -> str:
+    """Why ``point`` has no operating point, with its quoted values in ``unit_system``."""
+    method = getattr(point, "reason_text", None)
+    text = method(unit_system) if callable(method) else field(point, "reason")
+    return text or "not found"
+
+
 def as_array(value: Any) -> np.ndarray | None:
     """A float64 1-D array, or ``None`` for a missing or empty value."""
     if value is None:

@@ -142,6 +142,33 @@ def test_the_unit_switch_applies_everywhere_and_is_remembered(window, make_windo
         remembered.deleteLater()
 
 
+def test_us_units_leave_no_si_unit_in_the_checks_or_the_operating_points(window):
+    """Every quoted value of the checks and of the rows without a point is shown in US units."""
+    from dataclasses import replace
+
+    document = window.document
+    project = document.project
+    # The delivery tank 40 m higher (invented): a static head of 108 m at most, above the pump's
+    # shut-off head of about 103 m, so there is no point at the maximum static head, and variable
+    # speed cannot reach the design flow.
+    tank = project.site.delivery
+    site = replace(project.site, delivery=replace(tank, level_low_m=tank.level_low_m + 40.0,
+                                                  level_high_m=tank.level_high_m + 40.0))
+    assert document.apply(replace(project, site=site), "raise the delivery tank")
+    window.set_unit_system("US")
+    solution = document.recompute_now()
+    codes = {f.code for f in solution.findings}
+    assert {"no_operating_point", "speed_target_unreachable"} <= codes
+    texts = [window.checks_panel.model.item(g).child(r, 0).text()
+             for g in range(window.checks_panel.model.rowCount())
+             for r in range(window.checks_panel.model.item(g).rowCount())]
+    table = window.points_table.model()
+    texts += [str(table.index(r, c).data() or "") for r in range(table.rowCount()) for c in range(table.columnCount())]
+    assert any("gpm" in t for t in texts) and any(" ft" in t for t in texts)
+    for text in texts:
+        assert not any(unit in text for unit in ("L/s", " m ", " m,", " m)", " m.", "m/s", "kPa")), text
+
+
 def test_the_unit_switch_widens_table_columns_to_the_converted_values(window):
     view = window.pumps_panel.points_view
     model = view.model()
