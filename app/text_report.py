@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from hydraulics.energy import JOULES_PER_KWH
 from hydraulics.results import Solution
 from hydraulics.results_json import CAUTIONS
 from hydraulics.units import to_display, unit_label
@@ -34,6 +35,9 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         if value is None:
             return "—"
         return fmt.format(float(to_display(value, quantity, system)))
+
+    def specific(kwh_m3):  # the engine reports kWh/m³; the quantity is stored in J/m³
+        return "—" if kwh_m3 is None else d(kwh_m3 * JOULES_PER_KWH, "specific_energy", "{:.3f}")
 
     fl, hd, vel, dia = (unit_label(q, system) for q in ("flow", "head", "velocity", "diameter"))
     p = solution.project
@@ -87,11 +91,11 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
             rows.append([scenario, str(op.pumps_running), f"{op.speed_ratio * 100:.0f}",
                          d(op.flow_m3_s, "flow", "{:.1f}"), d(op.head_m, "head", "{:.1f}"), eff,
                          d(op.input_power_w, "power", "{:.1f}"),
-                         "—" if op.specific_energy_kwh_m3 is None else f"{op.specific_energy_kwh_m3:.3f}",
+                         specific(op.specific_energy_kwh_m3),
                          margin, bep, "extrapolated" if op.extrapolated else ""])
         out += ["  " + line for line in _table(
             ["scenario", "pumps", "speed %", f"flow {fl}", f"head {hd}", "eff %", f"input {unit_label('power', system)}",
-             "kWh/m³", f"NPSH margin {hd}", "% BEP", "note"], rows)]
+             unit_label("specific_energy", system), f"NPSH margin {hd}", "% BEP", "note"], rows)]
     vs = solution.variable_speed
     if vs is not None:
         out += ["", f"Variable speed (design flow {d(vs.target_flow_m3_s, 'flow', '{:.1f}')} {fl} "
@@ -115,7 +119,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
             out.append(f"  annual energy {e.annual_energy_mean_kwh:,.0f} kWh "
                        f"(min static {ej['annual_energy_min_static_kwh']:,.0f}, max static {ej['annual_energy_max_static_kwh']:,.0f})")
             out.append(f"  annual cost {e.annual_cost_mean:,.0f} {e.currency} at {e.tariff_per_kwh:g} {e.currency}/kWh; "
-                       f"specific energy {e.specific_energy_mean_kwh_m3:.3f} kWh/m³")
+                       f"specific energy {specific(e.specific_energy_mean_kwh_m3)} {unit_label('specific_energy', system)}")
         for note in e.notes or ():
             out.append(f"  note: {note}")
     out += ["", f"Checks ({len(solution.findings)}):"]

@@ -144,3 +144,17 @@ def test_the_us_summary_quotes_every_check_and_missing_point_in_us_units():
     assert "gpm" in checks and " ft" in checks and "cannot lift" in points
     for part in (checks, points):
         assert not any(unit in part for unit in ("L/s", " m,", " m)", " m.", "m/s", "kPa")), part
+
+
+def test_the_us_summary_gives_specific_energy_per_thousand_gallons():
+    from app.text_report import summary_text
+    from hydraulics.project_io import load_project
+    from hydraulics.solve import solve
+
+    solution = solve(load_project(ROOT / "sample_projects" / "river_intake.pumpsketch.json"))
+    us, si = summary_text(solution, "US"), summary_text(solution, "SI")
+    assert "kWh/kgal" in us and "kWh/m³" not in us and "kWh/m³" in si
+    # 1 kgal = 1000 × 3.785411784 L = 3.785411784 m³ exactly (NIST SP 811, App. B)
+    mean = solution.energy.specific_energy_mean_kwh_m3
+    assert f"specific energy {mean * 3.785411784:.3f} kWh/kgal" in us
+    assert f"specific energy {mean:.3f} kWh/m³" in si
