@@ -29,6 +29,13 @@ def _wrap(text: str, width: int = 96) -> list[str]:
     return lines + ([line] if line else [])
 
 
+def _fluid_description(fluid, system: str) -> str:
+    """The engine's fluid description (temperature in °C) with the temperature in ``system``."""
+    si = f"at {fluid.temperature_c:.1f} °C"
+    shown = f"at {to_display(fluid.temperature_c, 'temperature', system):.1f} {unit_label('temperature', system)}"
+    return fluid.description.replace(si, shown, 1)
+
+
 def summary_text(solution: Solution, system: str = "SI") -> str:
     """A plain-text report of one solved project in the chosen unit system."""
     def d(value, quantity, fmt="{:.2f}"):
@@ -46,7 +53,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
     out += [f"CAUTION: {line}" if i == 0 else f"         {line}" for i, line in enumerate(_wrap(CAUTIONS, 86))]
     out += [
         "",
-        f"Fluid: {f.description}",
+        f"Fluid: {_fluid_description(f, system)}",
         f"  density {d(f.density_kg_m3, 'density', '{:.2f}')} {unit_label('density', system)}, "
         f"kinematic viscosity {d(f.kinematic_viscosity_m2_s, 'kinematic_viscosity', '{:.4g}')} "
         f"{unit_label('kinematic_viscosity', system)}, vapour pressure "

@@ -158,3 +158,15 @@ def test_the_us_summary_gives_specific_energy_per_thousand_gallons():
     mean = solution.energy.specific_energy_mean_kwh_m3
     assert f"specific energy {mean * 3.785411784:.3f} kWh/kgal" in us
     assert f"specific energy {mean:.3f} kWh/m³" in si
+
+
+def test_the_us_summary_gives_the_water_temperature_in_fahrenheit():
+    from app.text_report import summary_text
+    from hydraulics.project_io import load_project
+    from hydraulics.solve import solve
+
+    solution = solve(load_project(ROOT / "sample_projects" / "river_intake.pumpsketch.json"))
+    assert solution.fluid.temperature_c == 20.0  # the sample's water
+    # °F = °C × 9/5 + 32 (NIST SP 811, App. B): 20 °C = 68 °F
+    assert "Fluid: water at 68.0 °F (IAPWS-IF97" in summary_text(solution, "US")
+    assert "Fluid: water at 20.0 °C (IAPWS-IF97" in summary_text(solution, "SI")
