@@ -112,60 +112,64 @@ _F_FROM_VARIABLE = _HALF_LN10**2
 """f = (ln 10 / 2)² / F², from 1/√f = (2/ln 10) F."""
 
 
+def _clamond_steps(x1, x2, f_var, t, r, u, u2, num, den) -> None:
+    r"""Clamond's start and two third-order steps, in place: ``f_var`` ends as F = 1/√f·(ln 10/2).
+
+    ``x1`` and ``x2`` hold Clamond's variables; the other arguments are scratch arrays of
+    their shape.  With :math:`t = x_1 + F`, :math:`u = 1 + t` and the residual
+    :math:`r = \ln t + F - x_2` (so that Clamond's :math:`e = r/u`), each step
+
+    .. math:: F \leftarrow F - \frac{(u^2 + r/2)\, r\, t}{u (u^2 + r) + r^2/3}
+
+    is Clamond's correction with the divisions by :math:`u` multiplied out (one division
+    per step instead of three).
+    """
+    np.subtract(x2, 0.2, out=f_var)
+    np.add(x1, f_var, out=t)
+    np.log(t, out=r)
+    r -= 0.2
+    for step in range(2):
+        if step:
+            np.add(x1, f_var, out=t)
+            np.log(t, out=r)
+            r += f_var
+            r -= x2
+        np.add(t, 1.0, out=u)
+        np.multiply(u, u, out=u2)
+        np.multiply(r, 0.5, out=num)
+        num += u2
+        num *= r
+        num *= t
+        np.add(u2, r, out=den)
+        den *= u
+        np.multiply(r, r, out=t)  # t is not read again in this step
+        t *= 1.0 / 3.0
+        den += t
+        num /= den
+        f_var -= num
+
+
 def _clamond_kernel(re: np.ndarray, rr: np.ndarray, floor_re: float = 0.0) -> np.ndarray:
-    r"""Clamond's two third-order steps for flat arrays of Re and ε/D; returns f.
+    """Clamond's iteration (:func:`_clamond_steps`) for flat arrays of Re and ε/D; returns f.
 
-    Same iteration as :func:`colebrook_clamond`, rearranged for speed: with
-    :math:`t = x_1 + F`, :math:`u = 1 + t` and the residual :math:`r = \ln t + F - x_2`
-    (so that Clamond's :math:`e = r/u`), each step
-
-    .. math:: F \leftarrow F - \frac{(u^2 + r/2)\, r\, t}{u^3 + r u + r^2/3}
-
-    is the same correction with the divisions by :math:`u` multiplied out (one division
-    per step instead of three).  Works in place on contiguous blocks of
-    :data:`_KERNEL_CHUNK` elements so the temporaries stay in cache; the block loop is
-    over memory, not over flow points.  Re is raised to ``floor_re`` first.
+    Same iteration as :func:`colebrook_clamond`, rearranged for speed.  Works in place
+    on contiguous blocks of :data:`_KERNEL_CHUNK` elements so the temporaries stay in
+    cache; the block loop is over memory, not over flow points.  Re is raised to
+    ``floor_re`` first.
     """
     out = np.empty_like(re)
     n = re.size
     size = min(_KERNEL_CHUNK, n)
-    f_var, t, r, u, u2, num, den, w = (np.empty(size) for _ in range(8))
-    x1 = np.empty(size)
-    x2 = np.empty(size)
+    buffers = [np.empty(size) for _ in range(9)]
     for start in range(0, n, _KERNEL_CHUNK):
         stop = min(start + _KERNEL_CHUNK, n)
-        m = stop - start
-        if m != size:
-            f_var, t, r, u, u2, num, den, w, x1, x2 = (v[:m] for v in (f_var, t, r, u, u2, num, den, w, x1, x2))
+        x1, x2, f_var, t, r, u, u2, num, den = (v[:stop - start] for v in buffers)
         np.maximum(re[start:stop], floor_re, out=x2)
         np.multiply(x2, rr[start:stop], out=x1)
         x1 *= _X1_FACTOR
         np.log(x2, out=x2)
         x2 += _X2_OFFSET
-        np.subtract(x2, 0.2, out=f_var)
-        np.add(x1, f_var, out=t)
-        np.log(t, out=r)
-        r -= 0.2
-        for step in range(2):
-            if step:
-                np.add(x1, f_var, out=t)
-                np.log(t, out=r)
-                r += f_var
-                r -= x2
-            np.add(t, 1.0, out=u)
-            np.multiply(u, u, out=u2)
-            np.multiply(r, 0.5, out=num)
-            num += u2
-            num *= r
-            num *= t
-            np.multiply(u2, u, out=den)
-            np.multiply(r, u, out=w)
-            den += w
-            np.multiply(r, r, out=w)
-            w *= 1.0 / 3.0
-            den += w
-            num /= den
-            f_var -= num
+        _clamond_steps(x1, x2, f_var, t, r, u, u2, num, den)
         np.multiply(f_var, f_var, out=f_var)
         np.divide(_F_FROM_VARIABLE, f_var, out=out[start:stop])
     return out
@@ -442,18 +446,68 @@ def darcy_friction_factor_checked(re: np.ndarray, rr: np.ndarray) -> np.ndarray:
     needs, and the laminar and zero-flow entries are then overwritten.
     """
     f = colebrook_fast(re, rr, floor_re=TURBULENT_LIMIT_RE)
-    low = re < TURBULENT_LIMIT_RE
-    if low.any():
-        re_b = np.broadcast_to(re, f.shape)
-        re_low = re_b[low]
-        f_low = f[low]
-        weight = (re_low - LAMINAR_LIMIT_RE) / (TURBULENT_LIMIT_RE - LAMINAR_LIMIT_RE)
-        f_laminar_limit = 64.0 / LAMINAR_LIMIT_RE
-        with np.errstate(divide="ignore"):
-            laminar = np.where(re_low > 0.0, 64.0 / np.where(re_low > 0.0, re_low, 1.0), 0.0)
-        f[low] = np.where(re_low <= LAMINAR_LIMIT_RE, laminar,
-                          f_laminar_limit + (f_low - f_laminar_limit) * weight)
+    _blend_low_reynolds(np.broadcast_to(re, f.shape), f)
     return f
+
+
+def _blend_low_reynolds(re: np.ndarray, f: np.ndarray) -> None:
+    """Overwrite, in place, the entries of ``f`` (f_CW at max(Re, 4000)) where Re < 4000.
+
+    Laminar 64/Re up to Re = 2000 (Hagen–Poiseuille), 0 at Re = 0, and between 2000 and
+    4000 the linear interpolation in Re from 64/2000 to f_CW(4000, ε/D) described in
+    :func:`darcy_friction_factor`.  ``re`` has the shape of ``f``.
+    """
+    low = re < TURBULENT_LIMIT_RE
+    if not low.any():
+        return
+    re_low = re[low]
+    f_low = f[low]
+    weight = (re_low - LAMINAR_LIMIT_RE) / (TURBULENT_LIMIT_RE - LAMINAR_LIMIT_RE)
+    f_laminar_limit = 64.0 / LAMINAR_LIMIT_RE
+    with np.errstate(divide="ignore"):
+        laminar = np.where(re_low > 0.0, 64.0 / np.where(re_low > 0.0, re_low, 1.0), 0.0)
+    f[low] = np.where(re_low <= LAMINAR_LIMIT_RE, laminar, f_laminar_limit + (f_low - f_laminar_limit) * weight)
+
+
+def darcy_weighted_sums(abs_flow_m3_s: np.ndarray, reynolds_per_flow: np.ndarray,
+                        relative_roughness: np.ndarray, weight: np.ndarray) -> np.ndarray:
+    """Σ_i f_i w_i for each flow: Darcy friction factors summed over segments with weights.
+
+    For each flow Q of ``abs_flow_m3_s`` (N values, Q ≥ 0) and segment i (S values),
+    Re_i = Q × ``reynolds_per_flow[i]`` and f_i is :func:`darcy_friction_factor` of Re_i
+    and ``relative_roughness`` (shape S, or N × S for one row per flow): Colebrook–White
+    by Clamond's (2009) iteration, laminar 64/Re and the transition interpolation.  The
+    result equals ``darcy_friction_factor(Re, ε/D) @ weight`` to rounding, but the
+    (flows × segments) arrays are formed only a block of rows at a time, in cache-sized
+    scratch arrays, so nothing of that size is allocated.  Inputs must be valid
+    (checked once per project): Q ≥ 0, Re per flow > 0, ε/D ≥ 0.
+    """
+    q = np.ascontiguousarray(abs_flow_m3_s, dtype=float).ravel()
+    per_flow = np.asarray(reynolds_per_flow, dtype=float)
+    rr = np.asarray(relative_roughness, dtype=float)
+    n, n_segments = q.size, per_flow.size
+    out = np.empty(n)
+    if n == 0 or n_segments == 0:
+        out[:] = 0.0
+        return out
+    rows = max(1, _KERNEL_CHUNK // n_segments)
+    shape = (min(rows, n), n_segments)
+    buffers = [np.empty(shape) for _ in range(10)]
+    for start in range(0, n, rows):
+        stop = min(start + rows, n)
+        re, x1, x2, f_var, t, r, u, u2, num, den = (v[:stop - start] for v in buffers)
+        np.multiply.outer(q[start:stop], per_flow, out=re)
+        np.maximum(re, TURBULENT_LIMIT_RE, out=x2)
+        np.multiply(x2, rr if rr.ndim == 1 else rr[start:stop], out=x1)
+        x1 *= _X1_FACTOR
+        np.log(x2, out=x2)
+        x2 += _X2_OFFSET
+        _clamond_steps(x1, x2, f_var, t, r, u, u2, num, den)
+        np.multiply(f_var, f_var, out=f_var)
+        np.divide(_F_FROM_VARIABLE, f_var, out=f_var)
+        _blend_low_reynolds(re, f_var)
+        np.matmul(f_var, weight, out=out[start:stop])
+    return out
 
 
 def flow_regime(reynolds: ArrayLike) -> np.ndarray:

@@ -149,7 +149,8 @@ class SystemHydraulics:
         with the velocity per unit flow c_i = 1 / (n_i π D_i²/4), v_i = c_i Q, so
 
         * Darcy–Weisbach: Σ f_i (L_i/D_i) v_i²/2g = (Q|Q|/2g) · Σ_i f_i c_i² L_i/D_i,
-          one matrix–vector product over the (flows × segments) friction factors;
+          the weighted sum of the friction factors taken a block of flows at a time
+          (:func:`hydraulics.friction.darcy_weighted_sums`);
         * Hazen–Williams: Σ 10.67 L_i (Q/n_i)^1.852 / (C_i^1.852 D_i^4.8704)
           = Q^1.852 · Σ_i (per-segment constant), no per-element work;
         * minor losses: Σ K_i v_i²/2g = (Q|Q|/2g) · Σ_i K_i c_i².
@@ -177,15 +178,13 @@ class SystemHydraulics:
                 per_flow = np.where(aged_flat, k.hw_sum_aged, k.hw_sum_new)
             fric = np.sign(flat) * np.abs(flat) ** friction.HAZEN_WILLIAMS_FLOW_EXPONENT * per_flow
         else:
-            reynolds = np.multiply.outer(np.abs(flat), k.reynolds_per_flow)
             if n_aged == 0:
                 rr = k.relative_roughness_new
             elif n_aged == flat.size:
                 rr = k.relative_roughness_aged
             else:
                 rr = np.where(aged_flat[:, None], k.relative_roughness_aged, k.relative_roughness_new)
-            f = friction.darcy_friction_factor_checked(reynolds, rr)
-            fric = q_abs_q * (f @ k.friction_weight)
+            fric = q_abs_q * friction.darcy_weighted_sums(np.abs(flat), k.reynolds_per_flow, rr, k.friction_weight)
         return fric.reshape(q.shape), minor.reshape(q.shape)
 
     @cached_property

@@ -31,3 +31,24 @@ def test_all_regime_factor_uses_floor_only_for_transition():
     f4000 = friction.colebrook_clamond(4000.0, 1e-4)
     assert np.isclose(f[3], 0.032 + (f4000 - 0.032) * 0.5, rtol=1e-14)  # documented linear interpolation
     assert np.isclose(f[4], f4000, rtol=1e-14)
+
+
+def test_weighted_sums_equal_the_friction_factors_times_the_weights(monkeypatch):
+    """The blocked sums used by the system curves against darcy_friction_factor(...) @ weight."""
+    rng = np.random.default_rng(3)  # random test inputs, not data
+    flows = np.concatenate([[0.0, 1e-7, 1e-5, 2e-4, 3e-4], np.linspace(1e-3, 0.5, 95)])  # laminar to turbulent
+    per_flow = rng.uniform(1e5, 2e7, 13)
+    rr_new = np.concatenate([[0.0], rng.uniform(1e-6, 5e-3, 12)])
+    rr_aged = rr_new * 4.0
+    weight = rng.uniform(0.1, 50.0, 13)
+    re = np.multiply.outer(flows, per_flow)
+    assert (re < 2000).any() and ((re > 2000) & (re < 4000)).any() and (re > 4000).any()
+    for chunk in (7, 64, 8192):  # rows per block: 1, 4 and all 100
+        monkeypatch.setattr(friction, "_KERNEL_CHUNK", chunk)
+        expected = friction.darcy_friction_factor(re, rr_new) @ weight
+        np.testing.assert_allclose(friction.darcy_weighted_sums(flows, per_flow, rr_new, weight), expected,
+                                   rtol=1e-14, atol=0)
+        mixed = np.where((np.arange(flows.size) % 2 == 0)[:, None], rr_aged, rr_new)  # one row per flow
+        np.testing.assert_allclose(friction.darcy_weighted_sums(flows, per_flow, mixed, weight),
+                                   friction.darcy_friction_factor(re, mixed) @ weight, rtol=1e-14, atol=0)
+    assert friction.darcy_weighted_sums(flows, per_flow[:0], rr_new[:0], weight[:0]).tolist() == [0.0] * flows.size
