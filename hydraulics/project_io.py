@@ -263,10 +263,6 @@ class _Reader:
                 "shaft_power_w": self.quantity_list(points, "shaft_power", ppath, "power"),
                 "npsh_required_m": self.quantity_list(points, "npsh_required", ppath, "head"),
             }
-            n = len(columns["flow_m3_s"])
-            for key, values in columns.items():
-                if values and len(values) != n:
-                    raise ProjectFileError(f"{ppath}.{key}", f"has {len(values)} values; flow has {n}")
             pump = PumpModel(
                 pump_id=pump_id, name=name,
                 rated_speed_rpm=rated_speed if rated_speed is not None else 1450.0,
@@ -289,8 +285,7 @@ class _Reader:
             )
         else:
             raise ProjectFileError(path, "a pump needs 'points' or 'source_csv'")
-        _check_pump_points(pump, path)
-        return pump
+        return pump  # its points are checked with the whole project (validation.validate_project)
 
     def _pump_from_csv(self, relative: str, pump_id: str, name: str, rated_speed: float | None,
                        path: str) -> PumpModel:
@@ -479,17 +474,6 @@ def _catalogue_diameter(series_id: str, nominal: str, path: str) -> float:
     except ModelError as exc:
         field = exc.field_path if exc.field_path in ("pipe_series", "nominal_size") else "nominal_size"
         raise ProjectFileError(_join(path, field), exc.problem) from None
-
-
-def _check_pump_points(pump: PumpModel, path: str) -> None:
-    n = len(pump.flow_m3_s)
-    if n < 3:
-        raise ProjectFileError(f"{path}.points", f"a pump curve needs at least 3 points; got {n}")
-    if len(pump.head_m) != n:
-        raise ProjectFileError(f"{path}.points.head", f"has {len(pump.head_m)} values; flow has {n}")
-    flows = pump.flow_m3_s
-    if any(b <= a for a, b in zip(flows, flows[1:])):
-        raise ProjectFileError(f"{path}.points.flow", "flows must be strictly increasing")
 
 
 def project_from_dict(data: Any, source: str = "", base_dir: Path | None = None) -> Project:

@@ -49,13 +49,11 @@ import re
 from dataclasses import dataclass
 from pathlib import Path
 
-from hydraulics.model import PumpModel
+from hydraulics.model import ModelError, PumpModel
 from hydraulics.units import convert_to_si
+from hydraulics.validation import require_pump_points, validate_pump
 
-__all__ = ["PumpCsvError", "read_pump_csv", "read_pump_csv_with_messages", "MIN_POINTS"]
-
-MIN_POINTS = 3
-"""Fewest test points accepted (a second-order fit needs order + 1 = 3)."""
+__all__ = ["PumpCsvError", "read_pump_csv", "read_pump_csv_with_messages"]
 
 RECOMMENDED_POINTS = 4
 """Points recommended for a second-order least-squares fit (leaves a residual to show)."""
@@ -290,9 +288,10 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
     if columns is None:
         raise PumpCsvError("no header line found; the first data line must name the columns, e.g. "
                            "'flow [L/s], head [m]'")
-    if len(rows) < MIN_POINTS:
-        raise PumpCsvError(f"{len(rows)} data rows; a pump curve needs at least {MIN_POINTS} "
-                           f"({RECOMMENDED_POINTS} or more recommended)")
+    try:
+        require_pump_points(len(rows), "pump.points")
+    except ModelError as exc:
+        raise PumpCsvError(f"{len(rows)} data rows; {exc.problem} ({RECOMMENDED_POINTS} or more recommended)") from None
     if len(rows) < RECOMMENDED_POINTS:
         messages.append(f"only {len(rows)} points: a second-order fit passes through them exactly, "
                         f"so no residual can be shown; {RECOMMENDED_POINTS} or more are recommended")
@@ -316,8 +315,6 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
         speed = metadata["rated_speed"]
     else:
         raise PumpCsvError("no rated speed: add a line '# rated_speed [rpm] = 1480' or give the speed")
-    if not (math.isfinite(speed) and speed > 0):
-        raise PumpCsvError(f"rated speed {speed:g} rpm must be a positive number")
 
     def column(key: str) -> tuple[float, ...]:
         if not any(c.key == key for c in columns):
@@ -335,7 +332,26 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
         npsh_required_m=column("npsh_required"),
         impeller_diameter_m=metadata.get("impeller_diameter"),
     )
+    try:
+        validate_pump(pump, "pump")
+    except ModelError as exc:
+        raise _csv_error(exc, rows, columns) from None
     return pump, tuple(messages)
+
+
+_POINT_PATH = re.compile(r"^pump\.points\[(\d+)\]\.(\w+)$")
+_CSV_KEYS = {"flow_m3_s": "flow", "head_m": "head", "efficiency": "efficiency",
+             "shaft_power_w": "power", "npsh_required_m": "npsh_required"}
+
+
+def _csv_error(exc: ModelError, rows: list[tuple[int, dict[str, float]]], columns: list[_Column]) -> PumpCsvError:
+    """A pump rule broken by the file's data (:func:`validate_pump`), placed at its line and column."""
+    found = _POINT_PATH.match(exc.field_path)
+    if found is None:
+        return PumpCsvError(exc.problem)
+    key = _CSV_KEYS.get(found.group(2))
+    column = next((c.index + 1 for c in columns if c.key == key), None)
+    return PumpCsvError(exc.problem, rows[int(found.group(1))][0], column, key)
 
 
 def read_pump_csv(path_or_text: str | Path, pump_id: str, name: str,

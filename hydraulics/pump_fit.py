@@ -45,6 +45,7 @@ from scipy.optimize import minimize_scalar, nnls
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import ModelError, PumpModel
+from hydraulics.validation import require_pump_points
 
 __all__ = ["FitQuality", "FittedPump", "fit_pump", "EFFICIENCY_FLOOR", "RISING_HEAD_TOLERANCE",
            "EXTRAPOLATION_TOLERANCE"]
@@ -314,8 +315,7 @@ def fit_pump(pump: PumpModel, density_kg_m3: float) -> FittedPump:
     if not (isinstance(density_kg_m3, (int, float)) and math.isfinite(density_kg_m3) and density_kg_m3 > 0):
         raise ModelError("fluid.density_kg_m3", "must be a positive number", density_kg_m3)
     n = len(pump.flow_m3_s)
-    if n < 3:
-        raise ModelError("pump.flow_m3_s", f"a pump curve needs at least 3 points; got {n}", n)
+    require_pump_points(n, "pump.flow_m3_s")
     flow = _column(pump, "flow_m3_s", n, 0.0, math.inf)
     head = _column(pump, "head_m", n, 0.0, math.inf)
     if head is None:

@@ -1,7 +1,9 @@
-"""Allowed ranges of every user-editable number, and the checks that enforce them.
+"""Every rule a project must satisfy: the allowed ranges and the checks that enforce them.
 
-One table (:data:`LIMITS`) states each range once, so the project-file reader, the
-command line and the window's tables refuse the same values with the same words.
+One table (:data:`LIMITS`) states each range once, and :func:`validate_project` is the
+one check of a whole project (pumps and their curve points included).  The project-file
+reader, the command line and the window's edits all call it, so they refuse the same
+values with the same words and the same field path.
 Ranges are deliberately wide: they refuse what is physically meaningless or certainly a
 typing slip (a negative length, a 30 m pipe bore), not unusual designs.
 """
@@ -18,6 +20,7 @@ from hydraulics.model import (
     ModelError,
     PressurisedDelivery,
     Project,
+    PumpModel,
     Segment,
     Site,
     TankDelivery,
@@ -133,6 +136,23 @@ LIMITS: dict[str, Limit] = {
 }
 
 
+MIN_SEGMENTS = 1
+"""Fewest pipe segments a project may have."""
+
+MIN_PUMP_POINTS = 3
+"""Fewest test points a pump curve may have: a second-order fit needs three."""
+
+_POINT_COLUMNS = (
+    ("flow_m3_s", "pump.flow_m3_s", "flow"),
+    ("head_m", "pump.head_m", "head"),
+    ("efficiency", "pump.efficiency", "efficiency"),
+    ("npsh_required_m", "pump.npsh_required_m", "NPSH required"),
+    ("shaft_power_w", "pump.shaft_power_w", "shaft power"),
+)
+_OPTIONAL_POINT_COLUMNS = ("efficiency", "npsh_required_m", "shaft_power_w")
+_FIT_ORDERS = ("head_fit_order", "efficiency_fit_order", "power_fit_order")
+
+
 def check(key: str, value: object, field_path: str | None = None) -> float:
     """Check ``value`` against ``LIMITS[key]``; return it as float or raise ModelError."""
     return LIMITS[key].check(value, field_path or key)
@@ -199,6 +219,55 @@ def validate_segment(segment: Segment, path: str) -> None:
         _optional("fitting.k_override", fitting.k_override, f"{fpath}.k_override")
 
 
+def require_pump_points(count: int, field_path: str) -> None:
+    """Raise :class:`ModelError` when a pump curve has fewer than :data:`MIN_PUMP_POINTS` points.
+
+    >>> require_pump_points(2, "pumps[0].points")
+    Traceback (most recent call last):
+    ...
+    hydraulics.model.ModelError: pumps[0].points: a pump curve needs at least 3 points; it has 2
+    """
+    if count < MIN_PUMP_POINTS:
+        raise ModelError(field_path, f"a pump curve needs at least {MIN_PUMP_POINTS} points; it has {count}", count)
+
+
+def validate_pump(pump: PumpModel, path: str) -> None:
+    """Check one pump: its id, name, rated speed, curve points, fit orders and impeller.
+
+    At least :data:`MIN_PUMP_POINTS` points, every column as long as the flows, flows
+    strictly increasing, every value inside its :data:`LIMITS` range.  An optional column
+    (efficiency, NPSH required, shaft power) is given at every point or at none; a
+    missing value (NaN, as a table holds it while being edited) is refused by name.
+    """
+    if not isinstance(pump.pump_id, str) or not pump.pump_id.strip():
+        raise ModelError(f"{path}.id", "a pump needs an id")
+    if not isinstance(pump.name, str) or not pump.name.strip():
+        raise ModelError(f"{path}.name", "a pump needs a name")
+    check("pump.rated_speed_rpm", pump.rated_speed_rpm, f"{path}.rated_speed")
+    n = len(pump.flow_m3_s)
+    require_pump_points(n, f"{path}.points")
+    for attribute, key, words in _POINT_COLUMNS:
+        values = getattr(pump, attribute)
+        if attribute in _OPTIONAL_POINT_COLUMNS and not values:
+            continue
+        if len(values) != n:
+            raise ModelError(f"{path}.points.{attribute}", f"has {len(values)} values; the curve has {n} points")
+        for j, value in enumerate(values):
+            if isinstance(value, float) and math.isnan(value):
+                raise ModelError(
+                    f"{path}.points[{j}].{attribute}",
+                    f"{words} is missing at point {j + 1}; give it at every point or clear the whole column")
+            check(key, value, f"{path}.points[{j}].{attribute}")
+    flows = pump.flow_m3_s
+    for j in range(1, n):
+        if flows[j] <= flows[j - 1]:
+            raise ModelError(f"{path}.points[{j}].flow_m3_s",
+                             f"flows must increase from point to point (point {j + 1} is not above point {j})")
+    for name in _FIT_ORDERS:
+        check("pump.fit_order", getattr(pump, name), f"{path}.{name}")
+    _optional("segment.internal_diameter_m", pump.impeller_diameter_m, f"{path}.impeller_diameter")
+
+
 def validate_arrangement(arrangement: Arrangement, project: Project, path: str = "arrangement") -> None:
     """Check the pump arrangement and that it names a pump of the project."""
     if project.pump(arrangement.pump_id) is None:
@@ -246,14 +315,18 @@ def validate_energy(energy: EnergyInputs, path: str = "energy") -> None:
 
 
 def validate_project(project: Project) -> None:
-    """Check every number of ``project``; raise :class:`ModelError` at the first bad field.
+    """Check everything a project must satisfy; raise :class:`ModelError` at the first bad field.
+
+    The one set of project rules: the file reader, the command line and the window's
+    edits all call this function, so they refuse the same project with the same words
+    and the same field path.
 
     Catalogue references (material, pipe series, fitting type) are checked where the
     catalogue is read, by :func:`hydraulics.system_curve.prepare_system`.
     """
     validate_fluid(project.fluid)
     validate_site(project.site)
-    if not project.segments:
+    if len(project.segments) < MIN_SEGMENTS:
         raise ModelError("segments", "the project needs at least one pipe segment")
     for i, segment in enumerate(project.segments):
         validate_segment(segment, f"segments[{i}]")
@@ -262,6 +335,8 @@ def validate_project(project: Project) -> None:
     pump_ids = [p.pump_id for p in project.pumps]
     if len(set(pump_ids)) != len(pump_ids):
         raise ModelError("pumps", "two pumps share one id")
+    for i, pump in enumerate(project.pumps):
+        validate_pump(pump, f"pumps[{i}]")
     if project.arrangement is not None:
         validate_arrangement(project.arrangement, project)
     validate_criteria(project.criteria)
