@@ -21,20 +21,18 @@ from __future__ import annotations
 import logging
 import math
 import time
-from dataclasses import dataclass, replace
 from pathlib import Path
 
-from PySide6.QtCore import QCoreApplication, QEvent, QEventLoop, QObject, Qt, QTimer, Signal
+from PySide6.QtCore import QCoreApplication, QEvent, QObject, Qt, QTimer, Signal
 from PySide6.QtGui import QUndoStack
-from PySide6.QtWidgets import QApplication
 
-from app.commands import ReplaceProjectCommand, check_candidate
-from app.table_models.segments import stepped_segment
+from app.commands import Focus, ReplaceProjectCommand
 from hydraulics.model import ModelError, Project
 from hydraulics.project_io import FILE_SUFFIX, load_project, new_project, save_project
 from hydraulics.results import Solution
 from hydraulics.solve import complete_solution, solve_curves
 from hydraulics.units import UNIT_SYSTEMS
+from hydraulics.validation import validate_project
 
 log = logging.getLogger(__name__)
 
@@ -163,21 +161,22 @@ class ProjectDocument(QObject):
             self.unitSystemChanged.emit(system)
 
     # ------------------------------------------------------------------ edits
-    def apply(self, candidate: Project, description: str, focus: tuple[str, object] | None = None) -> bool:
+    def apply(self, candidate: Project, description: str, focus: Focus | None = None) -> bool:
         """Replace the project by ``candidate`` as one undoable step.
 
-        The candidate is checked first (:func:`app.commands.check_candidate`); a refusal
+        The candidate is checked first (:func:`hydraulics.validation.validate_project`,
+        the same rules as the file reader and the command line); a refusal
         emits ``editRefused`` with the reason and leaves the project unchanged.  Returns
         whether the edit was applied (an edit that changes nothing counts as applied).
         """
         if candidate == self._project:
             return True
         try:
-            check_candidate(candidate)
+            validate_project(candidate)
         except ModelError as exc:
             self.refuse(f"Not applied — {describe_model_error(exc)}")
             return False
-        self.undo_stack.push(ReplaceProjectCommand(self, self._project, candidate, description, focus))
+        self.undo_stack.push(ReplaceProjectCommand(self._install, self._project, candidate, description, focus))
         return True
 
     def refuse(self, message: str) -> None:
@@ -190,7 +189,7 @@ class ProjectDocument(QObject):
         """How many edits were refused so far (lets a view tell whether its last commit was)."""
         return self._refusals
 
-    def _install(self, project: Project, focus: tuple[str, object] | None) -> None:
+    def _install(self, project: Project, focus: Focus | None) -> None:
         """Make ``project`` current (called by the undo commands only)."""
         self._project = project
         self.projectChanged.emit()
@@ -298,88 +297,11 @@ class ProjectDocument(QObject):
         self.solveFailed.emit(message)
 
     @property
+    def last_solve_end(self) -> float:
+        """When the last live solve ended (``time.perf_counter()``; ``-inf`` before the first)."""
+        return self._last_solve_end
+
+    @property
     def recompute_pending(self) -> bool:
         """True while a live solve is waiting (posted, or held back by the throttle)."""
         return self._solve_posted or self._timer.isActive()
-
-
-@dataclass(frozen=True)
-class RedrawTimings:
-    """Milliseconds per edit from :func:`measure_edit_to_redraw`."""
-
-    plot_ms: tuple[float, ...]
-    """From the edit to the visible plot painted with the edit's solution."""
-    window_ms: tuple[float, ...]
-    """From the edit to every panel updated and painted (checks, operating points, tables)."""
-    solve_ms: tuple[float, ...]
-    """The part of ``plot_ms`` spent in the engine: the first stage of the solve."""
-    finishing_ms: tuple[float, ...]
-    """The engine's second stage (checks, variable speed), run after the plot is painted."""
-
-
-def measure_edit_to_redraw(window, n: int = 50) -> RedrawTimings:
-    """Time real edits through the window's own path: edit, live solve, plot painted.
-
-    Alternately steps the first segment with a pipe series one size up and back (down
-    and back when it is already the largest size; or, without one, changes the last
-    segment's length by 1 % and back).  Nothing is bypassed: the edit is pushed as the
-    user's would be, the throttled recompute fires from the event loop, and the clock
-    stops when the plot canvas has painted the new solution, drawn from the solve's
-    first stage (and again when the event loop has brought up every other panel).  Each
-    edit waits out the throttle interval first, as a single keystroke or click would.
-    The edits are undone afterwards, so the project is left as it was.
-    """
-    document: ProjectDocument = window.document
-    app = QApplication.instance()
-    canvas = window.plot_tabs.current_canvas()
-    painted_at: list[float | None] = [None]
-
-    def on_paint() -> None:
-        drawn = window.plot_tabs.drawn_solution()
-        if painted_at[0] is None and drawn is not None and drawn.project is document.project:
-            painted_at[0] = time.perf_counter()  # the plot is painted; the rest may follow in the same turn
-
-    canvas.painted.connect(on_paint)
-    start_index = document.undo_stack.index()
-    series_rows = [i for i, s in enumerate(document.project.segments) if s.pipe_series is not None]
-    first_step = 1
-    if series_rows:
-        segment = document.project.segments[series_rows[0]]
-        first_step = 1 if stepped_segment(segment, 1) != segment else -1  # at the top: step down first
-    plot_ms: list[float] = []
-    window_ms: list[float] = []
-    solve_ms: list[float] = []
-    finishing_ms: list[float] = []
-    try:
-        for k in range(n):
-            app.processEvents()
-            rest = RECOMPUTE_DELAY_MS / 1000.0 - (time.perf_counter() - document._last_solve_end)
-            if rest > 0:
-                time.sleep(rest)
-            painted_at[0] = None
-            t0 = time.perf_counter()
-            if series_rows:
-                window.pipework.step_size(series_rows[0], first_step if k % 2 == 0 else -first_step)
-            else:
-                project = document.project
-                last = project.segments[-1]
-                factor = 1.01 if k % 2 == 0 else 1 / 1.01
-                segments = project.segments[:-1] + (replace(last, length_m=last.length_m * factor),)
-                document.apply(replace(project, segments=segments), "Benchmark edit")
-            deadline = t0 + 5.0
-            while painted_at[0] is None and time.perf_counter() < deadline:
-                app.processEvents(QEventLoop.ProcessEventsFlag.AllEvents, 5)
-            app.processEvents()
-            t2 = time.perf_counter()
-            if painted_at[0] is None:
-                raise RuntimeError("the plot was not repainted within 5 s of an edit")
-            plot_ms.append((painted_at[0] - t0) * 1000.0)
-            window_ms.append((t2 - t0) * 1000.0)
-            solve_ms.append(document.last_curves_ms)
-            finishing_ms.append(document.last_solve_ms - document.last_curves_ms)
-    finally:
-        canvas.painted.disconnect(on_paint)
-        document.undo_stack.setIndex(start_index)
-        document.recompute_now()
-    return RedrawTimings(plot_ms=tuple(plot_ms), window_ms=tuple(window_ms), solve_ms=tuple(solve_ms),
-                         finishing_ms=tuple(finishing_ms))

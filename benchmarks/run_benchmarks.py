@@ -12,7 +12,7 @@ machines):
 3. Window — edit → redrawn plot <= 16 ms median on each sample project: a pipe-size step
    pushed as the user's, the live solve fired from the event loop, until the plot canvas
    has painted the new solution, drawn from the solve's first stage
-   (:func:`app.document.measure_edit_to_redraw`).  The time
+   (:func:`benchmarks.redraw_timing.measure_edit_to_redraw`).  The time
    until every other panel is painted too is printed beside it.
 """
 
@@ -162,7 +162,7 @@ def bench_operating_points() -> None:
 def bench_window() -> None:
     os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
     try:
-        from app.document import measure_edit_to_redraw
+        from benchmarks.redraw_timing import measure_edit_to_redraw
     except ImportError as exc:
         print(f"3. Window: not measured ({exc})")
         return

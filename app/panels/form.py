@@ -28,8 +28,9 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from app.document import describe_model_error
 from app.table_models.cells import CellError, display_text, parse_value, range_text, same_value, unit_suffix
-from hydraulics.model import Project
+from hydraulics.model import ModelError, Project
 from hydraulics.validation import LIMITS
 
 Getter = Callable[[Project], Any]
@@ -281,6 +282,10 @@ class FormPanel(QWidget):
             candidate = spec.set(project, value)
         except CellError as exc:
             self._document.refuse(str(exc))
+            self.refresh()
+            return False
+        except ModelError as exc:
+            self._document.refuse(f"Not applied — {describe_model_error(exc)}")
             self.refresh()
             return False
         applied = self._document.apply(candidate, f"Set {spec.label.lower()}", (self._area, spec.key))

@@ -8,8 +8,6 @@ window); each step is one undo step and the curves and checks follow at once.
 
 from __future__ import annotations
 
-from dataclasses import replace
-
 from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import (
     QAbstractSpinBox,
@@ -24,11 +22,12 @@ from PySide6.QtWidgets import (
 )
 
 from app.panels.table_view import SpreadsheetView
-from app.table_models.cells import CellError, display_text, unit_suffix
+from app.table_models.cells import display_text, unit_suffix
 from app.table_models.fittings import FittingsModel
-from app.table_models.segments import SegmentsModel, stepped_segment
+from app.table_models.segments import SegmentsModel
 from hydraulics import catalogue, fittings
 from hydraulics.model import ModelError
+from hydraulics.project_edits import stepped_segment, with_segment
 
 
 class SizeStepper(QAbstractSpinBox):
@@ -223,7 +222,7 @@ class PipeworkPanel(QWidget):
     def _can_step(segment, steps: int) -> bool:
         try:
             return stepped_segment(segment, steps) != segment
-        except (CellError, ModelError):
+        except ModelError:
             return False
 
     # ------------------------------------------------------------------ pipe size steps
@@ -235,16 +234,15 @@ class PipeworkPanel(QWidget):
         segment = project.segments[index]
         try:
             changed = stepped_segment(segment, steps)
-        except (CellError, ModelError) as exc:
-            self._document.refuse(f"Segment {index + 1} '{segment.name}' — {exc}")
+        except ModelError as exc:
+            self._document.refuse(f"Segment {index + 1} '{segment.name}' — {exc.problem}")
             return False
         if changed == segment:
             end = "largest" if steps > 0 else "smallest"
             self._document.refuse(f"Segment {index + 1} '{segment.name}' is already the {end} size of its series")
             return False
-        segments = project.segments[:index] + (changed,) + project.segments[index + 1:]
         word = "Larger" if steps > 0 else "Smaller"
-        return self._document.apply(replace(project, segments=segments),
+        return self._document.apply(with_segment(project, index, changed),
                                     f"{word} pipe: segment {index + 1} to {changed.nominal_size}", ("segment", index))
 
     def step_selected(self, steps: int) -> bool:

@@ -22,10 +22,10 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.panels import pump_edits
 from app.panels.form import FormPanel, NumberField, Section, TextField
 from app.panels.table_view import SpreadsheetView
 from app.table_models.pump_points import PumpPointsModel
+from hydraulics import project_edits
 from hydraulics.model import Project, PumpModel
 from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
 
@@ -42,7 +42,7 @@ def _pump_field(key: str, label: str, quantity: str, limit: str, attribute: str,
     return NumberField(
         key, label, quantity, limit,
         lambda p: getattr(p.duty_pump, attribute) if p.duty_pump is not None else None,
-        lambda p, v: pump_edits.with_pump_changes(p, p.duty_pump.pump_id, **{attribute: v}),
+        lambda p, v: project_edits.with_pump_changes(p, p.duty_pump.pump_id, **{attribute: v}),
         visible=_has_pump, **extra)
 
 
@@ -50,14 +50,14 @@ def _arrangement_field(key: str, label: str, quantity: str, limit: str, attribut
     return NumberField(
         key, label, quantity, limit,
         lambda p: getattr(p.arrangement, attribute) if p.arrangement is not None else None,
-        lambda p, v: pump_edits.with_arrangement_changes(p, **{attribute: v}),
+        lambda p, v: project_edits.with_arrangement_changes(p, **{attribute: v}),
         visible=_has_pump, **extra)
 
 
 PUMP_SECTIONS = (
     Section("Pump data", (
         TextField("pump_name", "Name", lambda p: p.duty_pump.name if p.duty_pump else "",
-                  lambda p, v: pump_edits.with_pump_changes(p, p.duty_pump.pump_id, name=v), visible=_has_pump),
+                  lambda p, v: project_edits.with_pump_changes(p, p.duty_pump.pump_id, name=v), visible=_has_pump),
         _pump_field("rated_speed", "Rated (test) speed", "speed", "pump.rated_speed_rpm", "rated_speed_rpm",
                     tooltip="Speed at which the curve points were measured."),
         _pump_field("impeller_diameter", "Impeller diameter", "diameter", "segment.internal_diameter_m",
@@ -198,19 +198,19 @@ class PumpsPanel(QWidget):
         if pump_id is None:
             return
         project = self._document.project
-        self._document.apply(pump_edits.with_duty_pump(project, pump_id), "Choose pump model", ("pump", pump_id))
+        self._document.apply(project_edits.with_duty_pump(project, pump_id), "Choose pump model", ("pump", pump_id))
 
     def add_example_pump(self) -> bool:
         project = self._document.project
-        pump = pump_edits.example_pump(project, self._document.solution)
-        return self._document.apply(pump_edits.with_added_pump(project, pump), "New pump", ("pump", pump.pump_id))
+        pump = project_edits.example_pump(project, self._document.solution)
+        return self._document.apply(project_edits.with_added_pump(project, pump), "New pump", ("pump", pump.pump_id))
 
     def remove_pump(self) -> bool:
         project = self._document.project
         pump = project.duty_pump
         if pump is None:
             return False
-        return self._document.apply(pump_edits.with_removed_pump(project, pump.pump_id),
+        return self._document.apply(project_edits.with_removed_pump(project, pump.pump_id),
                                     f"Remove pump '{pump.name}'", ("pump", pump.pump_id))
 
     def ask_csv_path(self) -> str:
@@ -233,7 +233,7 @@ class PumpsPanel(QWidget):
             return False
         project = self._document.project
         file_name = Path(path).name
-        pump_id = pump_edits.imported_pump_id(project, Path(path))
+        pump_id = project_edits.imported_pump_id(project, Path(path))
         name = Path(path).stem
         try:
             try:
@@ -248,7 +248,7 @@ class PumpsPanel(QWidget):
         except (PumpCsvError, OSError, ValueError) as exc:
             self._document.refuse(f"Pump data not imported — {file_name}: {exc}")
             return False
-        applied = self._document.apply(pump_edits.with_added_pump(project, pump),
+        applied = self._document.apply(project_edits.with_added_pump(project, pump),
                                        f"Import pump curve {file_name}", ("pump", pump_id))
         if applied:
             summary = f"Imported {len(pump.flow_m3_s)} points from {file_name}."

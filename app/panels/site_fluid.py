@@ -9,24 +9,18 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from hydraulics.atmosphere import standard_atmosphere_pressure
-from hydraulics.fluid import fluid_properties
 from hydraulics.model import PressurisedDelivery, Project, TankDelivery, UserFluid, WaterFluid
+from hydraulics.project_edits import (
+    with_atmosphere_mode,
+    with_delivery_changes,
+    with_delivery_kind,
+    with_fluid_changes,
+    with_fluid_kind,
+    with_site_changes,
+)
 from hydraulics.units import format_quantity
 
 from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
-
-
-def _site(project: Project, **changes) -> Project:
-    return replace(project, site=replace(project.site, **changes))
-
-
-def _delivery(project: Project, **changes) -> Project:
-    return _site(project, delivery=replace(project.site.delivery, **changes))
-
-
-def _fluid(project: Project, **changes) -> Project:
-    return replace(project, fluid=replace(project.fluid, **changes))
 
 
 def _is_tank(project: Project) -> bool:
@@ -49,42 +43,6 @@ def _pressure_given(project: Project) -> bool:
     return project.site.atmospheric_pressure_pa is not None
 
 
-# ---------------------------------------------------------------------- switching kinds
-def with_delivery_kind(project: Project, kind: str) -> Project:
-    """Switch between an open tank and a pressurised point, keeping the elevation."""
-    delivery = project.site.delivery
-    if kind == "tank" and isinstance(delivery, PressurisedDelivery):
-        return _site(project, delivery=TankDelivery(delivery.elevation_m, delivery.elevation_m))
-    if kind == "pressurised" and isinstance(delivery, TankDelivery):
-        return _site(project, delivery=PressurisedDelivery(elevation_m=delivery.level_high_m, pressure_pa=0.0))
-    return project
-
-
-def with_atmosphere_mode(project: Project, mode: str) -> Project:
-    """Atmospheric pressure from the altitude (standard atmosphere) or given; a given value
-    starts from the standard atmosphere at the site altitude."""
-    if mode == "altitude":
-        return _site(project, atmospheric_pressure_pa=None)
-    if project.site.atmospheric_pressure_pa is None:
-        return _site(project, atmospheric_pressure_pa=float(standard_atmosphere_pressure(project.site.altitude_m)))
-    return project
-
-
-def with_fluid_kind(project: Project, kind: str) -> Project:
-    """Water from temperature, or a user fluid starting from water's properties at that temperature."""
-    fluid = project.fluid
-    if kind == "user" and isinstance(fluid, WaterFluid):
-        water = fluid_properties(fluid)
-        return replace(project, fluid=UserFluid(
-            name="user fluid", density_kg_m3=water.density_kg_m3,
-            kinematic_viscosity_m2_s=water.kinematic_viscosity_m2_s,
-            vapour_pressure_pa=water.vapour_pressure_pa, temperature_c=fluid.temperature_c))
-    if kind == "water" and isinstance(fluid, UserFluid):
-        temperature = min(max(fluid.temperature_c, 0.0), 100.0)
-        return replace(project, fluid=WaterFluid(temperature_c=temperature))
-    return project
-
-
 def _atmosphere_placeholder(document) -> str:
     solution = document.solution
     if solution is None:
@@ -98,10 +56,10 @@ SECTIONS = (
     )),
     Section("Suction (source) water level", (
         NumberField("suction_level_low", "Lowest level", "elevation", "site.level_m",
-                    lambda p: p.site.suction_level_low_m, lambda p, v: _site(p, suction_level_low_m=v),
+                    lambda p: p.site.suction_level_low_m, lambda p, v: with_site_changes(p, suction_level_low_m=v),
                     tooltip="Lowest water level at the source (gives the maximum static head)."),
         NumberField("suction_level_high", "Highest level", "elevation", "site.level_m",
-                    lambda p: p.site.suction_level_high_m, lambda p, v: _site(p, suction_level_high_m=v),
+                    lambda p: p.site.suction_level_high_m, lambda p, v: with_site_changes(p, suction_level_high_m=v),
                     tooltip="Highest water level at the source (gives the minimum static head)."),
     ), note="Elevations above one common datum."),
     Section("Delivery", (
@@ -110,24 +68,24 @@ SECTIONS = (
                                ("pressurised", "a pressurised point")],
                     lambda p: p.site.delivery.kind, with_delivery_kind),
         NumberField("delivery_level_low", "Lowest level", "elevation", "site.level_m",
-                    lambda p: p.site.delivery.level_low_m, lambda p, v: _delivery(p, level_low_m=v),
+                    lambda p: p.site.delivery.level_low_m, lambda p, v: with_delivery_changes(p, level_low_m=v),
                     visible=_is_tank, tooltip="Lowest water level in the receiving tank."),
         NumberField("delivery_level_high", "Highest level", "elevation", "site.level_m",
-                    lambda p: p.site.delivery.level_high_m, lambda p, v: _delivery(p, level_high_m=v),
+                    lambda p: p.site.delivery.level_high_m, lambda p, v: with_delivery_changes(p, level_high_m=v),
                     visible=_is_tank, tooltip="Highest (overflow) level in the receiving tank."),
         NumberField("delivery_elevation", "Point elevation", "elevation", "site.level_m",
-                    lambda p: p.site.delivery.elevation_m, lambda p, v: _delivery(p, elevation_m=v),
+                    lambda p: p.site.delivery.elevation_m, lambda p, v: with_delivery_changes(p, elevation_m=v),
                     visible=_is_pressurised),
         NumberField("delivery_pressure", "Required pressure (gauge)", "pressure", "site.delivery_pressure_pa",
-                    lambda p: p.site.delivery.pressure_pa, lambda p, v: _delivery(p, pressure_pa=v),
+                    lambda p: p.site.delivery.pressure_pa, lambda p, v: with_delivery_changes(p, pressure_pa=v),
                     visible=_is_pressurised, tooltip="Gauge pressure needed at the delivery point."),
     )),
     Section("Pump and duty", (
         NumberField("pump_datum", "Pump datum elevation", "elevation", "site.level_m",
-                    lambda p: p.site.pump_datum_m, lambda p, v: _site(p, pump_datum_m=v),
+                    lambda p: p.site.pump_datum_m, lambda p, v: with_site_changes(p, pump_datum_m=v),
                     tooltip="Elevation of the pump's NPSH datum (impeller eye centre line)."),
         NumberField("design_flow", "Design flow", "flow", "site.design_flow_m3_s",
-                    lambda p: p.site.design_flow_m3_s, lambda p, v: _site(p, design_flow_m3_s=v),
+                    lambda p: p.site.design_flow_m3_s, lambda p, v: with_site_changes(p, design_flow_m3_s=v),
                     tooltip="Station flow the scheme is designed for."),
     )),
     Section("Atmosphere", (
@@ -137,10 +95,10 @@ SECTIONS = (
                     lambda p: "given" if p.site.atmospheric_pressure_pa is not None else "altitude",
                     with_atmosphere_mode),
         NumberField("altitude", "Site altitude", "elevation", "site.altitude_m",
-                    lambda p: p.site.altitude_m, lambda p, v: _site(p, altitude_m=v),
+                    lambda p: p.site.altitude_m, lambda p, v: with_site_changes(p, altitude_m=v),
                     tooltip="Altitude above sea level, for the standard atmosphere."),
         NumberField("atmospheric_pressure", "Atmospheric pressure", "pressure", "site.atmospheric_pressure_pa",
-                    lambda p: p.site.atmospheric_pressure_pa, lambda p, v: _site(p, atmospheric_pressure_pa=v),
+                    lambda p: p.site.atmospheric_pressure_pa, lambda p, v: with_site_changes(p, atmospheric_pressure_pa=v),
                     visible=_pressure_given, placeholder=_atmosphere_placeholder),
     )),
     Section("Fluid", (
@@ -149,19 +107,19 @@ SECTIONS = (
                                ("user", "user fluid (properties given)")],
                     lambda p: p.fluid.kind, with_fluid_kind),
         NumberField("temperature", "Temperature", "temperature", "fluid.temperature_c",
-                    lambda p: p.fluid.temperature_c, lambda p, v: _fluid(p, temperature_c=v)),
+                    lambda p: p.fluid.temperature_c, lambda p, v: with_fluid_changes(p, temperature_c=v)),
         TextField("fluid_name", "Fluid name", lambda p: getattr(p.fluid, "name", ""),
-                  lambda p, v: _fluid(p, name=v), visible=_is_user_fluid),
+                  lambda p, v: with_fluid_changes(p, name=v), visible=_is_user_fluid),
         NumberField("density", "Density", "density", "fluid.density_kg_m3",
-                    lambda p: getattr(p.fluid, "density_kg_m3", None), lambda p, v: _fluid(p, density_kg_m3=v),
+                    lambda p: getattr(p.fluid, "density_kg_m3", None), lambda p, v: with_fluid_changes(p, density_kg_m3=v),
                     visible=_is_user_fluid),
         NumberField("kinematic_viscosity", "Kinematic viscosity", "kinematic_viscosity",
                     "fluid.kinematic_viscosity_m2_s",
                     lambda p: getattr(p.fluid, "kinematic_viscosity_m2_s", None),
-                    lambda p, v: _fluid(p, kinematic_viscosity_m2_s=v), visible=_is_user_fluid),
+                    lambda p, v: with_fluid_changes(p, kinematic_viscosity_m2_s=v), visible=_is_user_fluid),
         NumberField("vapour_pressure", "Vapour pressure", "pressure", "fluid.vapour_pressure_pa",
                     lambda p: getattr(p.fluid, "vapour_pressure_pa", None),
-                    lambda p, v: _fluid(p, vapour_pressure_pa=v), visible=_is_user_fluid),
+                    lambda p, v: with_fluid_changes(p, vapour_pressure_pa=v), visible=_is_user_fluid),
     ), note="Water properties follow the IAPWS formulations (0–100 °C); a user fluid's are "
             "taken as given."),
     Section("Pipe friction", (
@@ -180,4 +138,4 @@ class SiteFluidPanel(FormPanel):
         super().__init__(document, "site", SECTIONS, parent)
 
 
-__all__ = ["SiteFluidPanel", "with_delivery_kind", "with_atmosphere_mode", "with_fluid_kind"]
+__all__ = ["SiteFluidPanel"]

@@ -8,8 +8,9 @@ Each function returns ``(value, label)`` pairs; the value is what the project st
 from __future__ import annotations
 
 from hydraulics import catalogue, fittings
-from hydraulics.catalogue import PipeSeries, PipeSize
+from hydraulics.catalogue import PipeSize
 from hydraulics.model import ModelError
+from hydraulics.project_edits import series_of_material
 
 TYPED_SERIES_LABEL = "typed (no series)"
 """The pipe-series choice meaning that the internal diameter was typed."""
@@ -22,14 +23,9 @@ def material_choices() -> list[tuple[str | None, str]]:
     return [(m.material_id, m.name) for m in catalogue.materials().values()]
 
 
-def series_for_material(material_id: str) -> list[PipeSeries]:
-    """The pipe series made of ``material_id``, in catalogue order."""
-    return [s for s in catalogue.pipe_series().values() if s.material_id == material_id]
-
-
 def series_choices(material_id: str, current: str | None = None) -> list[tuple[str | None, str]]:
     """"typed", then the series of the segment's material (and the current one if other)."""
-    found = series_for_material(material_id)
+    found = series_of_material(material_id)
     every = catalogue.pipe_series()
     if current is not None and current in every and current not in {s.series_id for s in found}:
         found.append(every[current])

@@ -3,7 +3,7 @@
 Flow and head are needed at every point.  Efficiency, NPSH required and shaft power are
 optional columns: each is given at every point or at none.  While a table is being
 edited a missing value is held as NaN; the document refuses a project in which a column
-is partly filled (see :func:`app.commands.check_pump`), so a lone value typed into an
+is partly filled (see :func:`hydraulics.validation.validate_pump`), so a lone value typed into an
 empty column is refused with that reason — paste the whole column, or import a CSV.
 Clearing every cell of an optional column removes it.
 """
@@ -16,6 +16,7 @@ from typing import Any, Sequence
 
 from app.table_models.base import Column, ProjectTableModel
 from hydraulics.model import Project, PumpModel
+from hydraulics.validation import MIN_PUMP_POINTS
 
 _COLUMNS: tuple[Column, ...] = (
     Column("flow_m3_s", "Flow", quantity="flow", limit="pump.flow_m3_s", tooltip="Flow of one pump."),
@@ -117,7 +118,7 @@ class PumpPointsModel(ProjectTableModel):
         return "point"
 
     def min_rows(self) -> int:
-        return 3
+        return MIN_PUMP_POINTS
 
     def row_name(self, project: Project, row: int) -> str:
         index = self._pump_index(project)

@@ -25,6 +25,7 @@ from app.table_models.cells import CellError, display_text
 from app.table_models import choices
 from hydraulics import catalogue
 from hydraulics.model import ModelError, Project, Segment
+from hydraulics.validation import MIN_SEGMENTS
 
 _COMMON_COLUMNS: tuple[Column, ...] = (
     Column("name", "Name", kind="text"),
@@ -97,7 +98,7 @@ class SegmentsModel(ProjectTableModel):
         return "segment"
 
     def min_rows(self) -> int:
-        return 1
+        return MIN_SEGMENTS
 
     def row_name(self, project: Project, row: int) -> str:
         if 0 <= row < len(project.segments):
@@ -216,30 +217,3 @@ class SegmentsModel(ProjectTableModel):
         column = len(self.table_columns) - 1
         self.dataChanged.emit(self.index(0, column), self.index(self.rowCount() - 1, column),
                               [Qt.ItemDataRole.DisplayRole])
-
-
-def stepped_segment(segment: Segment, steps: int) -> Segment:
-    """``segment`` moved ``steps`` nominal sizes through its pipe series (clamped at the ends).
-
-    A segment whose diameter was typed joins the first series of its material at the
-    catalogue size next above (``steps`` > 0) or below (``steps`` < 0) its bore.
-    Raises :class:`CellError` when its material has no pipe series.
-    """
-    if segment.pipe_series is not None:
-        size = catalogue.series(segment.pipe_series).step(segment.nominal_size, steps)
-        return replace(segment, nominal_size=size.nominal, internal_diameter_m=size.internal_diameter_m)
-    candidates = choices.series_for_material(segment.material_id)
-    if not candidates:
-        raise CellError(f"no pipe series of material '{segment.material_id}' to step through; type the diameter")
-    found = candidates[0]
-    bores = [s.internal_diameter_m for s in found.sizes]
-    d = segment.internal_diameter_m
-    if steps > 0:
-        above = [i for i, b in enumerate(bores) if b > d * (1 + 1e-9)]
-        index = min((above[0] if above else len(bores) - 1) + steps - 1, len(bores) - 1)
-    else:
-        below = [i for i, b in enumerate(bores) if b < d * (1 - 1e-9)]
-        index = max((below[-1] if below else 0) + steps + 1, 0)
-    size = found.sizes[index]
-    return replace(segment, pipe_series=found.series_id, nominal_size=size.nominal,
-                   internal_diameter_m=size.internal_diameter_m)

@@ -1,0 +1,235 @@
+"""Edits of a project: each builds a new :class:`~hydraulics.model.Project` from an old one.
+
+The window calls these and hands the result to its document as one undo step; the
+command line and tests call them directly.  None of them checks the whole project: the
+result is checked by :func:`hydraulics.validation.validate_project` before it is
+accepted.  A request that cannot be carried out at all (stepping a pipe whose material
+has no pipe series, changing an arrangement that does not exist) raises
+:class:`~hydraulics.model.ModelError` naming the field.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import replace
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from hydraulics import catalogue
+from hydraulics.atmosphere import standard_atmosphere_pressure
+from hydraulics.catalogue import PipeSeries
+from hydraulics.fluid import fluid_properties
+from hydraulics.model import (
+    Arrangement,
+    ModelError,
+    PressurisedDelivery,
+    Project,
+    PumpModel,
+    Segment,
+    TankDelivery,
+    UserFluid,
+    WaterFluid,
+)
+
+if TYPE_CHECKING:  # pragma: no cover - for the annotation only
+    from hydraulics.results import Solution
+
+EXAMPLE_RATED_SPEED_RPM = 1450.0
+"""Rated speed given to a new pump's example curve (a common four-pole speed at 50 Hz)."""
+
+_EXAMPLE_FLOW_FRACTIONS = (0.0, 0.5, 1.0, 1.25, 1.5)
+
+
+# ---------------------------------------------------------------------- site and fluid
+def with_site_changes(project: Project, **changes: Any) -> Project:
+    """The project with fields of its site changed."""
+    return replace(project, site=replace(project.site, **changes))
+
+
+def with_delivery_changes(project: Project, **changes: Any) -> Project:
+    """The project with fields of its delivery (tank or pressurised point) changed."""
+    return with_site_changes(project, delivery=replace(project.site.delivery, **changes))
+
+
+def with_fluid_changes(project: Project, **changes: Any) -> Project:
+    """The project with fields of its fluid changed."""
+    return replace(project, fluid=replace(project.fluid, **changes))
+
+
+def with_delivery_kind(project: Project, kind: str) -> Project:
+    """Switch between an open tank (``"tank"``) and a pressurised point (``"pressurised"``).
+
+    The elevation is kept: a tank's highest level becomes the point's elevation (at zero
+    gauge pressure), a point's elevation becomes both levels of the tank.  Any other
+    ``kind``, or the kind the project already has, leaves the project as it is.
+    """
+    delivery = project.site.delivery
+    if kind == "tank" and isinstance(delivery, PressurisedDelivery):
+        return with_site_changes(project, delivery=TankDelivery(delivery.elevation_m, delivery.elevation_m))
+    if kind == "pressurised" and isinstance(delivery, TankDelivery):
+        return with_site_changes(project, delivery=PressurisedDelivery(elevation_m=delivery.level_high_m,
+                                                                       pressure_pa=0.0))
+    return project
+
+
+def with_atmosphere_mode(project: Project, mode: str) -> Project:
+    """Atmospheric pressure from the altitude (``"altitude"``) or given (any other mode).
+
+    A given value starts from the standard atmosphere at the site altitude
+    (:func:`hydraulics.atmosphere.standard_atmosphere_pressure`); one already given is kept.
+    """
+    if mode == "altitude":
+        return with_site_changes(project, atmospheric_pressure_pa=None)
+    if project.site.atmospheric_pressure_pa is None:
+        return with_site_changes(
+            project, atmospheric_pressure_pa=float(standard_atmosphere_pressure(project.site.altitude_m)))
+    return project
+
+
+def with_fluid_kind(project: Project, kind: str) -> Project:
+    """Water from its temperature (``"water"``), or a user fluid (``"user"``).
+
+    A user fluid starts from water's properties at the water's temperature
+    (:func:`hydraulics.fluid.fluid_properties`); water made from a user fluid takes its
+    temperature, clamped to water's 0–100 °C.
+    """
+    fluid = project.fluid
+    if kind == "user" and isinstance(fluid, WaterFluid):
+        water = fluid_properties(fluid)
+        return replace(project, fluid=UserFluid(
+            name="user fluid", density_kg_m3=water.density_kg_m3,
+            kinematic_viscosity_m2_s=water.kinematic_viscosity_m2_s,
+            vapour_pressure_pa=water.vapour_pressure_pa, temperature_c=fluid.temperature_c))
+    if kind == "water" and isinstance(fluid, UserFluid):
+        temperature = min(max(fluid.temperature_c, 0.0), 100.0)
+        return replace(project, fluid=WaterFluid(temperature_c=temperature))
+    return project
+
+
+# ---------------------------------------------------------------------- pipe sizes
+def series_of_material(material_id: str) -> list[PipeSeries]:
+    """The catalogue's pipe series made of ``material_id``, in catalogue order."""
+    return [s for s in catalogue.pipe_series().values() if s.material_id == material_id]
+
+
+def stepped_segment(segment: Segment, steps: int) -> Segment:
+    """``segment`` moved ``steps`` nominal sizes through its pipe series (clamped at the ends).
+
+    A segment whose diameter was typed joins the first series of its material at the
+    catalogue size next above (``steps`` > 0) or below (``steps`` < 0) its bore.
+    Raises :class:`ModelError` (field ``material``) when its material has no pipe series.
+    """
+    if segment.pipe_series is not None:
+        size = catalogue.series(segment.pipe_series).step(segment.nominal_size, steps)
+        return replace(segment, nominal_size=size.nominal, internal_diameter_m=size.internal_diameter_m)
+    candidates = series_of_material(segment.material_id)
+    if not candidates:
+        raise ModelError("material", f"no pipe series of material '{segment.material_id}' to step through; "
+                                     "type the diameter", segment.material_id)
+    found = candidates[0]
+    bores = [s.internal_diameter_m for s in found.sizes]
+    d = segment.internal_diameter_m
+    if steps > 0:
+        above = [i for i, b in enumerate(bores) if b > d * (1 + 1e-9)]
+        index = min((above[0] if above else len(bores) - 1) + steps - 1, len(bores) - 1)
+    else:
+        below = [i for i, b in enumerate(bores) if b < d * (1 - 1e-9)]
+        index = max((below[-1] if below else 0) + steps + 1, 0)
+    size = found.sizes[index]
+    return replace(segment, pipe_series=found.series_id, nominal_size=size.nominal,
+                   internal_diameter_m=size.internal_diameter_m)
+
+
+def with_segment(project: Project, index: int, segment: Segment) -> Project:
+    """The project with segment ``index`` replaced by ``segment``."""
+    if not 0 <= index < len(project.segments):
+        raise ModelError(f"segments[{index}]", f"no such segment; the project has {len(project.segments)}", index)
+    return replace(project, segments=project.segments[:index] + (segment,) + project.segments[index + 1:])
+
+
+# ---------------------------------------------------------------------- pumps
+def unique_pump_id(project: Project, wanted: str) -> str:
+    """``wanted`` made into an id (letters, digits, ``_``) not used by another pump."""
+    base = re.sub(r"[^A-Za-z0-9_]+", "_", wanted).strip("_") or "pump"
+    taken = {p.pump_id for p in project.pumps}
+    candidate, number = base, 2
+    while candidate in taken:
+        candidate = f"{base}_{number}"
+        number += 1
+    return candidate
+
+
+def imported_pump_id(project: Project, path: str | Path) -> str:
+    """An id for a pump read from ``path``: its file name without the suffix, made unique."""
+    return unique_pump_id(project, Path(path).stem)
+
+
+def with_duty_pump(project: Project, pump_id: str) -> Project:
+    """The station uses pump ``pump_id`` (an arrangement of one duty pump is made if none)."""
+    if project.arrangement is None:
+        return replace(project, arrangement=Arrangement(pump_id=pump_id))
+    if project.arrangement.pump_id == pump_id:
+        return project
+    return replace(project, arrangement=replace(project.arrangement, pump_id=pump_id))
+
+
+def with_added_pump(project: Project, pump: PumpModel) -> Project:
+    """``pump`` added to the project and made the station's pump."""
+    return with_duty_pump(replace(project, pumps=project.pumps + (pump,)), pump.pump_id)
+
+
+def with_removed_pump(project: Project, pump_id: str) -> Project:
+    """The pump ``pump_id`` removed; the station then uses the first remaining pump, or none."""
+    pumps = tuple(p for p in project.pumps if p.pump_id != pump_id)
+    arrangement = project.arrangement
+    if arrangement is not None and arrangement.pump_id == pump_id:
+        arrangement = replace(arrangement, pump_id=pumps[0].pump_id) if pumps else None
+    return replace(project, pumps=pumps, arrangement=arrangement)
+
+
+def with_pump_changes(project: Project, pump_id: str, **changes: Any) -> Project:
+    """The pump ``pump_id`` with fields changed (no pump of that id: the project unchanged)."""
+    pumps = tuple(replace(p, **changes) if p.pump_id == pump_id else p for p in project.pumps)
+    return replace(project, pumps=pumps)
+
+
+def with_arrangement_changes(project: Project, **changes: Any) -> Project:
+    """The arrangement with fields changed; a project without one raises :class:`ModelError`."""
+    if project.arrangement is None:
+        raise ModelError("arrangement", "the project has no pump arrangement yet; choose or add a pump first")
+    return replace(project, arrangement=replace(project.arrangement, **changes))
+
+
+def example_pump(project: Project, solution: Solution | None) -> PumpModel:
+    """A starting curve to edit: an invented pump that meets the design flow.
+
+    Its head at the design flow is the highest system head there (maximum static, aged
+    pipe) from ``solution``, else the maximum static head plus 20 %; the curve is the
+    parabola H = H₀ − kQ² with a shut-off head 25 % higher.  Clearly named as an example:
+    replace its points with a manufacturer's test data.
+    """
+    q_design = project.site.design_flow_m3_s
+    head_design = None
+    if solution is not None:
+        try:
+            curve = solution.curve("max", "aged")
+            head_design = float(np.interp(q_design, curve.flow_m3_s, curve.head_m))
+        except KeyError:
+            head_design = None
+    if head_design is None or not np.isfinite(head_design) or head_design <= 0:
+        delivery = project.site.delivery
+        top = delivery.level_high_m if isinstance(delivery, TankDelivery) else delivery.elevation_m
+        head_design = max(1.2 * (top - project.site.suction_level_low_m), 5.0)
+    shutoff = 1.25 * head_design
+    k = (shutoff - head_design) / q_design**2
+    flows = tuple(f * q_design for f in _EXAMPLE_FLOW_FRACTIONS)
+    heads = tuple(max(shutoff - k * q * q, 0.0) for q in flows)
+    return PumpModel(
+        pump_id=unique_pump_id(project, "example_pump"),
+        name="Example pump (replace with test data)",
+        rated_speed_rpm=EXAMPLE_RATED_SPEED_RPM,
+        flow_m3_s=flows, head_m=heads,
+        notes="Invented example curve made by PumpSketch; replace with the manufacturer's test points.",
+    )
