@@ -7,6 +7,8 @@ from pathlib import Path
 
 import pytest
 
+from tests.bad_pump_files import BAD_FIELD, BAD_PROBLEM, write_bad_pump_project
+
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = sorted((ROOT / "sample_projects").glob("*.pumpsketch.json"))
 PUMP_FILES = sorted((ROOT / "sample_projects" / "pumps").glob("*.csv"))
@@ -93,6 +95,14 @@ def test_bad_files_exit_2_with_one_line(tmp_path, content, needle):
     assert result.stdout == ""
     lines = result.stderr.strip().splitlines()
     assert len(lines) == 1 and needle in lines[0] and "Traceback" not in result.stderr
+
+
+def test_a_bad_pump_is_refused_in_the_words_of_the_file_reader(tmp_path):
+    path = write_bad_pump_project(tmp_path)
+    result = run("solve", str(path))
+    assert result.returncode == 2 and result.stdout == ""
+    lines = result.stderr.strip().splitlines()
+    assert lines == [f"pumpsketch: {path}: {BAD_FIELD}: {BAD_PROBLEM}"]
 
 
 def test_missing_file_exit_2():

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import pytest
 from PySide6.QtCore import Qt
 
@@ -9,6 +11,7 @@ from app import settings
 from app.gui import open_window
 from app.panels.file_controller import sample_projects, with_suffix
 from hydraulics.project_io import load_project
+from tests.bad_pump_files import BAD_FIELD, BAD_PROBLEM, write_bad_pump_project
 
 try:
     from conftest import SAMPLE_PATHS
@@ -110,6 +113,31 @@ def test_a_file_that_cannot_be_read_is_reported_and_nothing_changes(window, dial
     assert window.document.project is before
     title, text = dialogs.errors[-1]
     assert title == "Cannot open the project" and "not valid JSON" in text
+
+
+def test_a_file_with_an_impossible_pump_is_refused_and_later_edits_still_apply(window, dialogs, tmp_path):
+    path = write_bad_pump_project(tmp_path)
+    before = window.document.project
+    assert not window.open_path(path)
+    assert window.document.project is before
+    title, text = dialogs.errors[-1]
+    assert title == "Cannot open the project" and text == f"{path}: {BAD_FIELD}: {BAD_PROBLEM}"
+    window.site_panel.set_text("name", "Renamed after the refusal")
+    assert window.document.project.name == "Renamed after the refusal"
+
+
+def test_an_edit_making_the_pump_impossible_is_refused_in_the_same_words(window):
+    refusals: list[str] = []
+    window.document.editRefused.connect(refusals.append)
+    project = window.document.project
+    pump = project.pumps[0]
+    heads = pump.head_m[:2] + (-5.0,) + pump.head_m[3:]
+    candidate = replace(project, pumps=(replace(pump, head_m=heads),) + project.pumps[1:])
+    assert not window.document.apply(candidate, "Impossible head")
+    assert window.document.project is project
+    assert refusals == [f"Not applied — {BAD_PROBLEM} ({BAD_FIELD})"]
+    window.site_panel.set_text("name", "Renamed after the refusal")
+    assert window.document.project.name == "Renamed after the refusal"
 
 
 def test_a_sample_opens_as_an_unsaved_copy(window, dialogs, tmp_path):
