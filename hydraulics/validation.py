@@ -122,6 +122,7 @@ LIMITS: dict[str, Limit] = {
     "pump.shaft_power_w": Limit("shaft power", "power", 0.0, 1e8),
     "pump.npsh_required_m": Limit("NPSH required", "head", 0.0, 200.0),
     "pump.fit_order": Limit("fit order", "dimensionless", 1, 4, integer=True),
+    "pump.impeller_diameter_m": Limit("impeller diameter", "diameter", 0.005, 5.0),
     # criteria
     "criteria.velocity_m_s": Limit("velocity limit", "velocity", 0.0, 20.0),
     "criteria.npsh_margin_ratio": Limit("NPSH margin ratio", "dimensionless", 1.0, 3.0),
@@ -265,7 +266,7 @@ def validate_pump(pump: PumpModel, path: str) -> None:
                              f"flows must increase from point to point (point {j + 1} is not above point {j})")
     for name in _FIT_ORDERS:
         check("pump.fit_order", getattr(pump, name), f"{path}.{name}")
-    _optional("segment.internal_diameter_m", pump.impeller_diameter_m, f"{path}.impeller_diameter")
+    _optional("pump.impeller_diameter_m", pump.impeller_diameter_m, f"{path}.impeller_diameter")
 
 
 def validate_arrangement(arrangement: Arrangement, project: Project, path: str = "arrangement") -> None:

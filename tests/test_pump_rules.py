@@ -57,7 +57,7 @@ CASES = [
     (lambda p: {"head_fit_order": 5},
      "pumps[0].head_fit_order", "fit order must be between 1 and 4; got 5"),
     (lambda p: {"impeller_diameter_m": 0.001},
-     "pumps[0].impeller_diameter", "internal diameter must be between 0.005 and 5 m; got 0.001"),
+     "pumps[0].impeller_diameter", "impeller diameter must be between 0.005 and 5 m; got 0.001"),
     (lambda p: {"name": "  "}, "pumps[0].name", "a pump needs a name"),
 ]
 

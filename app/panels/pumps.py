@@ -60,7 +60,7 @@ PUMP_SECTIONS = (
                   lambda p, v: project_edits.with_pump_changes(p, p.duty_pump.pump_id, name=v), visible=_has_pump),
         _pump_field("rated_speed", "Rated (test) speed", "speed", "pump.rated_speed_rpm", "rated_speed_rpm",
                     tooltip="Speed at which the curve points were measured."),
-        _pump_field("impeller_diameter", "Impeller diameter", "diameter", "segment.internal_diameter_m",
+        _pump_field("impeller_diameter", "Impeller diameter", "diameter", "pump.impeller_diameter_m",
                     "impeller_diameter_m", optional=True, tooltip="Tested impeller diameter (optional)."),
         _pump_field("head_fit_order", "Fit order: head", "dimensionless", "pump.fit_order", "head_fit_order",
                     tooltip="Polynomial order of the head curve fit (1–4)."),

@@ -1,0 +1,1 @@
+"""PumpSketch benchmarks (``make bench``) and the timing harnesses they use."""
