@@ -1,7 +1,9 @@
 """Units at the edges: the application's single pint registry, typed-input parsing and display units.
 
 The engine works in plain SI floats (see :mod:`hydraulics.model`).  This module is the
-only place that talks to pint:
+only place that talks to pint.  Its registry knows the units of ``unit_definitions.txt``
+(beside this module, shipped as package data): the ones a pumping-station tool reads,
+shows and accepts, each with its published definition.
 
 * :func:`parse_quantity` turns what a user types (``"300 mm"``, ``"550 gpm"``,
   ``"20 °C"``) into the SI float the model stores, or raises :class:`UnitInputError`
