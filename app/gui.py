@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import sys
 from pathlib import Path
 
@@ -38,9 +39,31 @@ def open_window(path: str | Path | None, as_copy: bool = False) -> MainWindow:
     return window
 
 
+STARTUP_PROBE_VARIABLE = "PUMPSKETCH_STARTUP_PROBE"
+"""When this environment variable is set, the window prints ``painted`` as soon as its plot
+has first painted a solution and the process ends at once: the start-up benchmark
+(``benchmarks/startup_timing.py``) times a real start this way."""
+
+
+def _end_after_first_plot_paint(window: MainWindow) -> None:
+    canvas = window.plot_tabs.current_canvas()
+
+    def on_paint() -> None:
+        if window.plot_tabs.drawn_solution() is None:
+            return
+        canvas.painted.disconnect(on_paint)
+        sys.stdout.write("painted\n")
+        sys.stdout.flush()
+        os._exit(0)  # at once: tearing the window down is not part of start-up
+
+    canvas.painted.connect(on_paint)
+
+
 def run_gui(path: str | None, as_copy: bool = False) -> int:
     """Open the window (see :func:`open_window`) and run until it closes; the exit code."""
     app = application()
     window = open_window(path, as_copy)
+    if os.environ.get(STARTUP_PROBE_VARIABLE):
+        _end_after_first_plot_paint(window)
     window.show()
     return int(app.exec())

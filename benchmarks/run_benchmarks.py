@@ -14,6 +14,10 @@ machines):
    has painted the new solution, drawn from the solve's first stage
    (:func:`benchmarks.redraw_timing.measure_edit_to_redraw`).  The time
    until every other panel is painted too is printed beside it.
+4. Start-up — fresh processes beside baselines started in the same run (bare
+   ``python -c pass`` and ``python -c "import PySide6.QtWidgets"``): ``pumpsketch solve`` on
+   the largest sample <= 0.5 s wall; the window on it, until its plot has painted the solved
+   project, <= 1.2 s wall (:mod:`benchmarks.startup_timing`).
 """
 
 from __future__ import annotations
@@ -197,3 +201,7 @@ if __name__ == "__main__":
     bench_operating_points()
     print()
     bench_window()
+    print()
+    from benchmarks.startup_timing import bench_startup
+
+    bench_startup()

@@ -27,7 +27,6 @@ from dataclasses import dataclass
 
 import numpy as np
 from numpy.typing import ArrayLike
-from scipy.special import lambertw
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import ModelError
@@ -262,6 +261,10 @@ def colebrook_lambert_w(reynolds: ArrayLike, relative_roughness: ArrayLike) -> n
             "Re·ε/D is too large for the Lambert W form (exp overflows); "
             "use colebrook_friction_factor, which switches to Clamond's method",
         )
+    # Imported here: scipy.special costs about 0.1 s to import and only this reference form
+    # (not the engine's own darcy_friction_factor) needs it.
+    from scipy.special import lambertw
+
     w = lambertw(np.exp(log_z), k=0).real
     inv_sqrt_f = (x2 - np.log(w)) / _HALF_LN10
     return np.asarray(1.0 / (inv_sqrt_f * inv_sqrt_f))

@@ -18,8 +18,8 @@ Methods
   efficiency falls below :data:`EFFICIENCY_FLOOR` (near shut-off) the derived power is
   undefined and returned as NaN.
 * NPSH required: a quadratic a + b x + c x² fitted by non-negative least squares
-  (Lawson & Hanson, *Solving Least Squares Problems*, 1974, ch. 23;
-  :func:`scipy.optimize.nnls`).  With a, b, c ≥ 0 and x ≥ 0 the fitted NPSHr is positive
+  (Lawson & Hanson, *Solving Least Squares Problems*, 1974, ch. 23), solved exactly by
+  :func:`nonnegative_least_squares`.  With a, b, c ≥ 0 and x ≥ 0 the fitted NPSHr is positive
   and non-decreasing in flow, as NPSH3 test curves are over the normal operating range;
   a dip of the data at part load is smoothed over and shows in the residuals.
 * The quality of each fit is reported as :class:`FitQuality` (RMS and largest absolute
@@ -41,7 +41,6 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 from numpy.polynomial import polynomial as npoly
-from scipy.optimize import minimize_scalar, nnls
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import ModelError, PumpModel
@@ -268,6 +267,43 @@ def _bep_of_polynomial(coefficients: tuple[float, ...], x_lo: float, x_hi: float
     return float(candidates[int(np.argmax(values))])
 
 
+def nonnegative_least_squares(design: np.ndarray, target: np.ndarray) -> np.ndarray:
+    """Coefficients c >= 0 minimising ||design · c − target||, for a design of a few columns.
+
+    Non-negative least squares (Lawson & Hanson, *Solving Least Squares Problems*, 1974,
+    ch. 23).  By the Kuhn–Tucker conditions of the problem (ibid., theorem 23.4) the
+    solution is the ordinary least-squares solution on its set of free coefficients, with
+    the others zero.  With n columns there are 2ⁿ such sets; every candidate whose
+    coefficients are all non-negative is a feasible point, and the solution is one of
+    them, so the feasible candidate of least residual is the solution.  For the three
+    columns of the NPSH fit that is eight small solves, exact and without iteration;
+    ``tests/test_pump_fit.py`` compares it with :func:`scipy.optimize.nnls`.
+
+    >>> design = np.array([[1.0, 0.0], [1.0, 1.0], [1.0, 2.0]])
+    >>> nonnegative_least_squares(design, np.array([3.0, 2.0, 1.0]))   # a falling line: slope held at 0
+    array([2., 0.])
+    """
+    design = np.asarray(design, dtype=np.float64)
+    target = np.asarray(target, dtype=np.float64)
+    n_columns = design.shape[1]
+    if n_columns > 8:
+        raise ValueError(f"nonnegative_least_squares enumerates 2**n sets; {n_columns} columns is too many")
+    best = np.zeros(n_columns)
+    best_residual = float(np.dot(target, target))
+    for free_set in range(1, 2**n_columns):
+        free = np.array([(free_set >> j) & 1 == 1 for j in range(n_columns)])
+        coefficients, *_ = np.linalg.lstsq(design[:, free], target, rcond=None)
+        if np.any(coefficients < 0.0):
+            continue
+        residual_vector = design[:, free] @ coefficients - target
+        residual = float(np.dot(residual_vector, residual_vector))
+        if residual < best_residual:
+            best_residual = residual
+            best = np.zeros(n_columns)
+            best[free] = coefficients
+    return best
+
+
 def _argmax_on_interval(func, x_lo: float, x_hi: float) -> float:
     """x of the largest value of a smooth scalar function on [x_lo, x_hi]: grid then bounded refinement."""
     grid = np.linspace(x_lo, x_hi, 401)
@@ -277,6 +313,10 @@ def _argmax_on_interval(func, x_lo: float, x_hi: float) -> float:
     if i in (0, grid.size - 1):
         return float(grid[i])
     lo, hi = grid[i - 1], grid[i + 1]
+    # Imported here: scipy.optimize costs about 0.1 s to import, and only pumps whose data
+    # give power without efficiency reach this refinement.
+    from scipy.optimize import minimize_scalar
+
     result = minimize_scalar(lambda x: -float(func(np.asarray(x))), bounds=(lo, hi), method="bounded",
                              options={"xatol": 1e-12 * max(x_hi, 1e-300)})
     return float(result.x) if -result.fun >= values[i] else float(grid[i])
@@ -352,7 +392,7 @@ def fit_pump(pump: PumpModel, density_kg_m3: float) -> FittedPump:
     npsh_c = npsh_q = None
     if npsh is not None:
         design = np.stack([np.ones_like(x), x, x * x], axis=1)
-        solution, _ = nnls(design, npsh)
+        solution = nonnegative_least_squares(design, npsh)
         npsh_c = tuple(float(c) for c in solution)
         npsh_q = _quality(_polyval(npsh_c, x), npsh, 2)
 

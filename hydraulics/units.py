@@ -1,7 +1,9 @@
 """Units at the edges: the application's single pint registry, typed-input parsing and display units.
 
 The engine works in plain SI floats (see :mod:`hydraulics.model`).  This module is the
-only place that talks to pint:
+only place that talks to pint.  Its registry knows the units of ``unit_definitions.txt``
+(beside this module, shipped as package data): the ones a pumping-station tool reads,
+shows and accepts, each with its published definition.
 
 * :func:`parse_quantity` turns what a user types (``"300 mm"``, ``"550 gpm"``,
   ``"20 °C"``) into the SI float the model stores, or raises :class:`UnitInputError`
@@ -30,6 +32,7 @@ from __future__ import annotations
 
 import math
 import re
+from importlib import resources
 from dataclasses import dataclass
 from functools import cached_property, lru_cache
 from typing import Final, overload
@@ -56,12 +59,20 @@ __all__ = [
 ]
 
 # --------------------------------------------------------------------------- registry
-ureg: Final = pint.UnitRegistry()
+UNIT_DEFINITIONS: Final = "unit_definitions.txt"
+"""Our definitions file, beside this module: only the units the application reads, shows
+or accepts, each with its published definition.  pint's complete default set takes about
+ten times longer to load, at every start."""
+
+
+def _build_registry() -> pint.UnitRegistry:
+    with resources.as_file(resources.files("hydraulics").joinpath(UNIT_DEFINITIONS)) as path:
+        return pint.UnitRegistry(str(path))
+
+
+ureg: Final = _build_registry()
 """The one unit registry of the application (never create another: pint#725)."""
 
-ureg.define("gallon_per_minute = gallon / minute = gpm")
-ureg.define("million_gallons_per_day = 1e6 * gallon / day = MGD")
-ureg.define("metre_water_column = meter_H2O = mwc")
 pint.set_application_registry(ureg)
 
 Q_ = ureg.Quantity

@@ -17,7 +17,7 @@ import pytest
 from hydraulics.constants import STANDARD_GRAVITY_M_S2 as G
 from hydraulics.model import ModelError, PumpModel
 from hydraulics.pump_csv import read_pump_csv
-from hydraulics.pump_fit import fit_pump
+from hydraulics.pump_fit import fit_pump, nonnegative_least_squares
 from tests.pump_fakes import parabolic_efficiency, quadratic_pump
 
 PUMPS = Path(__file__).resolve().parent.parent / "sample_projects" / "pumps"
@@ -234,3 +234,42 @@ def test_sample_pumps_fit_as_intended(name, bep_flow, bep_eta, shutoff):
     assert fitted.head_fit.max_abs < 0.5 and fitted.efficiency_fit.max_abs < 0.02
     q = np.linspace(fitted.flow_min_m3_s, fitted.flow_max_m3_s, 50)
     assert np.all(np.diff(fitted.head(q)) < 0) and np.all(np.diff(fitted.npsh_required(q)) >= 0)
+
+
+# --------------------------------------------------------------------------- non-negative least squares
+def _nnls_cases():
+    """Random NPSH-like data (invented for the check): some need every coefficient, some hit the bounds."""
+    rng = np.random.default_rng(20240611)
+    x = np.linspace(0.0, 1.0, 9)
+    design = np.stack([np.ones_like(x), x, x * x], axis=1)
+    cases = [(design, 2.0 + 0.5 * x + 3.0 * x * x)]  # exact, all coefficients positive
+    cases.append((design, 5.0 - 2.0 * x + 4.0 * x * x))  # dips: b held at zero
+    cases.append((design, 3.0 - 1.0 * x))  # falls: only the constant is free
+    cases.append((design, -1.0 - x))  # negative everywhere: all coefficients zero
+    for _ in range(40):
+        cases.append((design, rng.normal(3.0, 1.5) + rng.normal(0.0, 2.0) * x + rng.normal(0.0, 3.0) * x * x
+                      + rng.normal(0.0, 0.3, x.size)))
+    for _ in range(10):
+        wide = rng.uniform(0.0, 1.0, (12, 5))
+        cases.append((wide, rng.normal(0.0, 1.0, 12)))
+    return cases
+
+
+@pytest.mark.parametrize("case", range(len(_nnls_cases())))
+def test_nonnegative_least_squares_matches_scipy_nnls(case):
+    from scipy.optimize import nnls  # reference implementation (Lawson & Hanson's active-set method)
+
+    design, target = _nnls_cases()[case]
+    ours = nonnegative_least_squares(design, target)
+    reference, _ = nnls(design, target)
+    assert np.all(ours >= 0.0)
+    np.testing.assert_allclose(ours, reference, rtol=1e-9, atol=1e-9 * max(1.0, float(np.max(np.abs(target)))))
+
+
+def test_nonnegative_least_squares_known_solutions():
+    x = np.array([0.0, 0.5, 1.0])
+    design = np.stack([np.ones_like(x), x, x * x], axis=1)
+    # Exact data 2 + 3x²: recovered (the residual is zero, the unconstrained solution is feasible)
+    np.testing.assert_allclose(nonnegative_least_squares(design, 2.0 + 3.0 * x * x), [2.0, 0.0, 3.0], atol=1e-12)
+    # Data below zero everywhere: c = 0 (hand calculation: any c >= 0 only moves the fit away)
+    np.testing.assert_array_equal(nonnegative_least_squares(design, -np.ones(3)), [0.0, 0.0, 0.0])
