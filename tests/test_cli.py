@@ -125,6 +125,30 @@ def test_an_unknown_sample_exits_2_naming_the_samples(args, needle):
     assert all(path.name.removesuffix(".pumpsketch.json") in result.stderr for path in SAMPLES)
 
 
+def test_solve_names_a_bundled_sample_as_the_same_file(tmp_path):
+    by_name = subprocess.run([sys.executable, "-m", "app", "solve", "--sample", "river_intake"],
+                             capture_output=True, text=True, cwd=tmp_path, timeout=120)
+    by_file = run("solve", str(ROOT / "sample_projects" / "river_intake.pumpsketch.json"))
+    assert by_name.returncode == 0, by_name.stderr
+    assert by_name.stdout == by_file.stdout
+
+
+@pytest.mark.parametrize("args, needle", [(("solve", "--sample", "no_such_sample"), "no sample called 'no_such_sample'"),
+                                          (("solve", "--sample", "../README"), "no sample called"),
+                                          (("shot", "--sample", "no_such_sample", "-o", "x.png"), "no sample called")])
+def test_solve_and_shot_refuse_an_unknown_sample_naming_the_samples(args, needle):
+    result = run(*args)
+    assert result.returncode == 2 and len(result.stderr.strip().splitlines()) == 1
+    assert needle in result.stderr
+    assert all(path.name.removesuffix(".pumpsketch.json") in result.stderr for path in SAMPLES)
+
+
+@pytest.mark.parametrize("args", [("solve",), ("solve", str(SAMPLES[0]), "--sample", "river_intake")])
+def test_solve_wants_a_file_or_a_sample_but_not_both(args):
+    result = run(*args)
+    assert result.returncode == 2 and "give a project file or --sample NAME" in result.stderr
+
+
 def test_the_us_summary_quotes_every_check_and_missing_point_in_us_units():
     from dataclasses import replace
 
