@@ -7,12 +7,14 @@ from pathlib import Path
 
 import pytest
 
+from hydraulics.cautions import CAUTIONS_TEXT
+
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = sorted((ROOT / "sample_projects").glob("*.pumpsketch.json"))
 PUMP_FILES = sorted((ROOT / "sample_projects" / "pumps").glob("*.csv"))
 
-ENGINE_KEYS = {"format", "version", "fluid", "static_head_m", "design_flow_m3_s", "system_curves",
-               "segments", "findings"}
+ENGINE_KEYS = {"format", "version", "project", "cautions", "fluid", "static_head_m", "design_flow_m3_s",
+               "system_curves", "segments", "findings"}
 PUMP_KEYS = {"pumps", "operating_points", "variable_speed", "energy"}
 SEGMENT_KEYS = {"name", "side", "length_m", "internal_diameter_m", "roughness_m", "parallel_pipes",
                 "velocity_m_s", "reynolds", "friction_factor", "friction_loss_m", "minor_k_total", "minor_loss_m"}
@@ -36,6 +38,7 @@ def solved(request):
 def test_json_has_the_contract_keys(solved):
     assert ENGINE_KEYS | PUMP_KEYS <= set(solved)
     assert solved["format"] == "pumpsketch-results"
+    assert solved["cautions"] == CAUTIONS_TEXT
     assert set(solved["fluid"]) >= {"temperature_c", "density_kg_m3", "kinematic_viscosity_m2_s", "vapour_pressure_pa"}
     assert solved["static_head_m"]["min"] <= solved["static_head_m"]["max"]
     combos = {(c["static"], c["pipe"]) for c in solved["system_curves"]}
@@ -67,7 +70,7 @@ def test_operating_points_at_both_extremes_for_every_pump_count(solved):
 def test_human_summary(sample):
     result = run("solve", str(sample))
     assert result.returncode == 0, result.stderr
-    out = result.stdout
+    out = " ".join(result.stdout.split())  # the cautions paragraph is wrapped
     for text in ("Static head", "Segments at design flow", "System curves", "Operating points", "Checks",
                  "Preliminary design aid", "licensed engineer"):
         assert text in out

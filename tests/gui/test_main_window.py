@@ -11,7 +11,7 @@ from PySide6.QtGui import QHelpEvent, QKeySequence
 from PySide6.QtWidgets import QApplication, QToolTip
 
 from app import settings
-from app.cautions import CAUTIONS_TEXT
+from hydraulics.cautions import CAUTIONS_TEXT
 from app.document import measure_edit_to_redraw
 from app.panels.table_view import MAX_COLUMN_WIDTH
 from app.results.checks_panel import ChecksPanel
