@@ -17,7 +17,9 @@ $(STAMP): $(PY) pyproject.toml constraints.txt
 
 install: $(STAMP)
 
+# The check installs (as root with apt-get) or names the missing X11 libraries of Qt, exit status 2.
 run: $(STAMP)
+	$(PY) -m app.platform_check
 	$(PY) -m app --sample $(SAMPLE)
 
 test: $(STAMP)

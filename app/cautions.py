@@ -1,4 +1,4 @@
-"""The cautions every result of PumpSketch carries, and the banner that shows them in the window."""
+"""The banner that keeps the cautions in view in the window (the text is :mod:`hydraulics.cautions`)."""
 
 from __future__ import annotations
 
@@ -6,20 +6,7 @@ from PySide6.QtCore import Qt, Signal
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QSizePolicy, QWidget
 
 from app import style
-
-CAUTIONS_TEXT = (
-    "Preliminary design aid. The results are preliminary estimates by the methods listed "
-    "on the methods page and are only as good as the data entered. Surge (water hammer), "
-    "structural and electrical checks need specialist analysis. Local codes and standards and "
-    "a licensed engineer govern the design."
-)
-"""One paragraph stating what the results are and are not (also printed in reports)."""
-
-CAUTIONS_SHORT = (
-    "Preliminary design aid: surge, structural and electrical checks need specialist analysis; "
-    "local codes and a licensed engineer govern the design."
-)
-"""The one-line form shown in the window's banner."""
+from hydraulics.cautions import CAUTIONS_SHORT, CAUTIONS_TEXT
 
 
 class CautionsBanner(QWidget):

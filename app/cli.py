@@ -4,8 +4,10 @@
 ``pumpsketch FILE``                open the window on a project file
 ``pumpsketch --sample NAME``       open the window on a bundled sample, as an unsaved copy
 ``pumpsketch solve FILE [--json] [--units SI|US]``   print the results
+``pumpsketch solve --sample NAME [...]``             the same for a bundled sample
 ``pumpsketch import-pump CSV [--speed RPM]``          validate pump data and show the fit
 ``pumpsketch shot FILE -o OUT.png``                   render the window offscreen to a PNG
+``pumpsketch shot --sample NAME -o OUT.png``          the same for a bundled sample
 
 Exit status: 0 on success, 2 on bad input (with a one-line reason on stderr).
 """
@@ -39,10 +41,24 @@ def _load_and_solve(path: str):
         raise BadInput(f"{path}: {exc}") from None
 
 
+def _project_file(args) -> str:
+    """The project file a sub-command works on: FILE, or the bundled sample ``--sample NAME``."""
+    if (args.file is None) == (args.sample is None):
+        raise BadInput("give a project file or --sample NAME (one of the two)")
+    if args.sample is None:
+        return args.file
+    from app.samples import sample_names, sample_path
+
+    path = sample_path(args.sample)
+    if path is None:
+        raise BadInput(f"--sample: no sample called {args.sample!r}; the samples are {', '.join(sample_names())}")
+    return str(path)
+
+
 def _cmd_solve(args) -> int:
     from hydraulics.results_json import solution_to_json_dict
 
-    solution = _load_and_solve(args.file)
+    solution = _load_and_solve(_project_file(args))
     if args.json:
         json.dump(solution_to_json_dict(solution), sys.stdout, indent=1)
         sys.stdout.write("\n")
@@ -78,19 +94,20 @@ def _cmd_import_pump(args) -> int:
 def _cmd_shot(args) -> int:
     from hydraulics.project_io import ProjectFileError, load_project
 
+    file = _project_file(args)
     try:
-        load_project(args.file)
+        load_project(file)
     except ProjectFileError as exc:
         raise BadInput(str(exc)) from None
     from app.screenshot import render_window_png
 
-    out = render_window_png(args.file, args.output, width=args.width, height=args.height)
+    out = render_window_png(file, args.output, width=args.width, height=args.height)
     print(f"wrote {out}")
     return 0
 
 
 def _open_sample(names: list[str]) -> int:
-    from app.panels.file_controller import sample_names, sample_path
+    from app.samples import sample_names, sample_path
 
     path = sample_path(names[0]) if len(names) == 1 else None
     if path is None:
@@ -110,7 +127,8 @@ def build_parser() -> argparse.ArgumentParser:
     )
     sub = parser.add_subparsers(dest="command")
     solve = sub.add_parser("solve", help="solve a project file and print the results")
-    solve.add_argument("file")
+    solve.add_argument("file", nargs="?", help="the project file (*.pumpsketch.json)")
+    solve.add_argument("--sample", metavar="NAME", help="solve a bundled sample instead of a file")
     solve.add_argument("--json", action="store_true", help="print the results as JSON in SI units")
     solve.add_argument("--units", choices=("SI", "US"), default="SI", help="unit system of the text summary")
     solve.set_defaults(handler=_cmd_solve)
@@ -121,7 +139,8 @@ def build_parser() -> argparse.ArgumentParser:
     imp.add_argument("--density", type=float, default=998.2, help="fluid density in kg/m³ for power (default 998.2)")
     imp.set_defaults(handler=_cmd_import_pump)
     shot = sub.add_parser("shot", help="render the window for a project offscreen to a PNG")
-    shot.add_argument("file")
+    shot.add_argument("file", nargs="?", help="the project file (*.pumpsketch.json)")
+    shot.add_argument("--sample", metavar="NAME", help="render a bundled sample instead of a file")
     shot.add_argument("-o", "--output", required=True)
     shot.add_argument("--width", type=int, default=1500)
     shot.add_argument("--height", type=int, default=950)

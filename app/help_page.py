@@ -12,7 +12,7 @@ from dataclasses import dataclass
 
 from PySide6.QtWidgets import QDialog, QDialogButtonBox, QTextBrowser, QVBoxLayout, QWidget
 
-from app.cautions import CAUTIONS_TEXT
+from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.model import Criteria
 
 

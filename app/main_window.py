@@ -29,7 +29,7 @@ from PySide6.QtWidgets import (
 )
 
 from app import clipboard, settings
-from app.cautions import CAUTIONS_TEXT, CautionsBanner
+from app.cautions import CautionsBanner
 from app.document import ProjectDocument
 from app.help_page import HelpDialog
 from app.layout_barrier import LayoutBarrier
@@ -44,6 +44,7 @@ from app.panels.table_view import SpreadsheetView
 from app.plots.plot_tabs import PlotTabs
 from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable
+from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.project_io import FILE_SUFFIX
 
 APP_TITLE = "PumpSketch"

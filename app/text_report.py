@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.energy import JOULES_PER_KWH
 from hydraulics.results import Solution
-from hydraulics.results_json import CAUTIONS
 from hydraulics.units import to_display, unit_label
 
 
@@ -50,7 +50,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
     p = solution.project
     f = solution.fluid
     out = [f"PumpSketch results — {p.name}", ""]
-    out += [f"CAUTION: {line}" if i == 0 else f"         {line}" for i, line in enumerate(_wrap(CAUTIONS, 86))]
+    out += [f"CAUTION: {line}" if i == 0 else f"         {line}" for i, line in enumerate(_wrap(CAUTIONS_TEXT, 86))]
     out += [
         "",
         f"Fluid: {_fluid_description(f, system)}",

@@ -1,4 +1,4 @@
-"""Pipe materials and pipe-series catalogues, read from ``resources/``.
+"""Pipe materials and pipe-series catalogues, read from the bundled ``resources/``.
 
 Two kinds of data file, both JSON with a format name and a version number:
 
@@ -40,9 +40,10 @@ from types import MappingProxyType
 from typing import Any
 
 from hydraulics.model import ModelError, PipeState
+from hydraulics.package_data import resources_dir
 
-RESOURCES_DIR = Path(__file__).resolve().parent.parent / "resources"
-"""Folder of the bundled catalogues."""
+RESOURCES_DIR = resources_dir()
+"""Folder of the bundled catalogues (``resources/`` of the repository, installed as package data)."""
 
 MATERIALS_FILE = RESOURCES_DIR / "materials.json"
 PIPE_SERIES_DIR = RESOURCES_DIR / "pipe_series"

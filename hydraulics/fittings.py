@@ -25,6 +25,7 @@ from numpy.typing import ArrayLike
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.friction import fully_turbulent_friction_factor
 from hydraulics.model import Fitting, ModelError
+from hydraulics.package_data import resources_dir
 
 CATALOGUE_FORMAT = "pumpsketch-fittings"
 """Format name in the ``format`` field of the fittings catalogue."""
@@ -43,8 +44,8 @@ K_OVERRIDE_MAX = 1000.0
 
 FittingMethod = Literal["constant", "crane"]
 
-DEFAULT_CATALOGUE_PATH = Path(__file__).resolve().parent.parent / "resources" / "fittings.json"
-"""The fittings catalogue shipped with PumpSketch (``resources/`` beside ``hydraulics/``)."""
+DEFAULT_CATALOGUE_PATH = resources_dir() / "fittings.json"
+"""The fittings catalogue shipped with PumpSketch (in the bundled ``resources/``)."""
 
 
 @dataclass(frozen=True)

@@ -23,6 +23,7 @@ from pathlib import Path
 from typing import Any
 
 from hydraulics import units
+from hydraulics.format_migrations import MigrationError, migrate
 from hydraulics.model import (
     Arrangement,
     Criteria,
@@ -477,11 +478,18 @@ def _catalogue_diameter(series_id: str, nominal: str, path: str) -> float:
 
 
 def project_from_dict(data: Any, source: str = "", base_dir: Path | None = None) -> Project:
-    """Build a validated :class:`Project` from parsed JSON, or raise ProjectFileError."""
+    """Build a validated :class:`Project` from parsed JSON, or raise ProjectFileError.
+
+    A file of an older format version is first brought up to :data:`FORMAT_VERSION` by the
+    registered migrations (:mod:`hydraulics.format_migrations`); the caller's ``data`` is not
+    changed.
+    """
     try:
+        if isinstance(data, dict) and data.get("format") == FORMAT_NAME:
+            data = migrate(data, FORMAT_VERSION)
         project = _Reader(base_dir).project(data)
         validate_project(project)
-    except ProjectFileError as exc:
+    except (ProjectFileError, MigrationError) as exc:
         raise ProjectFileError(exc.field_path, exc.problem, source) from None
     except ModelError as exc:
         raise ProjectFileError(exc.field_path, exc.problem, source) from None

@@ -14,16 +14,11 @@ from typing import Any
 
 import numpy as np
 
+from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.results import Solution
 
 RESULTS_FORMAT = "pumpsketch-results"
 RESULTS_VERSION = 1
-
-CAUTIONS = (
-    "Preliminary design aid. Results are preliminary and depend on the data entered; "
-    "surge (water hammer), structural and electrical checks need specialist analysis; "
-    "local codes and a licensed engineer govern the design."
-)
 
 
 def _clean(value: Any) -> Any:
@@ -59,7 +54,7 @@ def solution_to_json_dict(solution: Solution) -> dict:
         "format": RESULTS_FORMAT,
         "version": RESULTS_VERSION,
         "project": solution.project.name,
-        "cautions": CAUTIONS,
+        "cautions": CAUTIONS_TEXT,
         "fluid": {
             "description": fluid.description,
             "temperature_c": fluid.temperature_c,

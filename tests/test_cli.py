@@ -7,14 +7,15 @@ from pathlib import Path
 
 import pytest
 
+from hydraulics.cautions import CAUTIONS_TEXT
 from tests.bad_pump_files import BAD_FIELD, BAD_PROBLEM, write_bad_pump_project
 
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = sorted((ROOT / "sample_projects").glob("*.pumpsketch.json"))
 PUMP_FILES = sorted((ROOT / "sample_projects" / "pumps").glob("*.csv"))
 
-ENGINE_KEYS = {"format", "version", "fluid", "static_head_m", "design_flow_m3_s", "system_curves",
-               "segments", "findings"}
+ENGINE_KEYS = {"format", "version", "project", "cautions", "fluid", "static_head_m", "design_flow_m3_s",
+               "system_curves", "segments", "findings"}
 PUMP_KEYS = {"pumps", "operating_points", "variable_speed", "energy"}
 SEGMENT_KEYS = {"name", "side", "length_m", "internal_diameter_m", "roughness_m", "parallel_pipes",
                 "velocity_m_s", "reynolds", "friction_factor", "friction_loss_m", "minor_k_total", "minor_loss_m"}
@@ -38,6 +39,7 @@ def solved(request):
 def test_json_has_the_contract_keys(solved):
     assert ENGINE_KEYS | PUMP_KEYS <= set(solved)
     assert solved["format"] == "pumpsketch-results"
+    assert solved["cautions"] == CAUTIONS_TEXT
     assert set(solved["fluid"]) >= {"temperature_c", "density_kg_m3", "kinematic_viscosity_m2_s", "vapour_pressure_pa"}
     assert solved["static_head_m"]["min"] <= solved["static_head_m"]["max"]
     combos = {(c["static"], c["pipe"]) for c in solved["system_curves"]}
@@ -69,7 +71,7 @@ def test_operating_points_at_both_extremes_for_every_pump_count(solved):
 def test_human_summary(sample):
     result = run("solve", str(sample))
     assert result.returncode == 0, result.stderr
-    out = result.stdout
+    out = " ".join(result.stdout.split())  # the cautions paragraph is wrapped
     for text in ("Static head", "Segments at design flow", "System curves", "Operating points", "Checks",
                  "Preliminary design aid", "licensed engineer"):
         assert text in out
@@ -133,6 +135,30 @@ def test_an_unknown_sample_exits_2_naming_the_samples(args, needle):
     assert result.returncode == 2 and len(result.stderr.strip().splitlines()) == 1
     assert needle in result.stderr
     assert all(path.name.removesuffix(".pumpsketch.json") in result.stderr for path in SAMPLES)
+
+
+def test_solve_names_a_bundled_sample_as_the_same_file(tmp_path):
+    by_name = subprocess.run([sys.executable, "-m", "app", "solve", "--sample", "river_intake"],
+                             capture_output=True, text=True, cwd=tmp_path, timeout=120)
+    by_file = run("solve", str(ROOT / "sample_projects" / "river_intake.pumpsketch.json"))
+    assert by_name.returncode == 0, by_name.stderr
+    assert by_name.stdout == by_file.stdout
+
+
+@pytest.mark.parametrize("args, needle", [(("solve", "--sample", "no_such_sample"), "no sample called 'no_such_sample'"),
+                                          (("solve", "--sample", "../README"), "no sample called"),
+                                          (("shot", "--sample", "no_such_sample", "-o", "x.png"), "no sample called")])
+def test_solve_and_shot_refuse_an_unknown_sample_naming_the_samples(args, needle):
+    result = run(*args)
+    assert result.returncode == 2 and len(result.stderr.strip().splitlines()) == 1
+    assert needle in result.stderr
+    assert all(path.name.removesuffix(".pumpsketch.json") in result.stderr for path in SAMPLES)
+
+
+@pytest.mark.parametrize("args", [("solve",), ("solve", str(SAMPLES[0]), "--sample", "river_intake")])
+def test_solve_wants_a_file_or_a_sample_but_not_both(args):
+    result = run(*args)
+    assert result.returncode == 2 and "give a project file or --sample NAME" in result.stderr
 
 
 def test_the_us_summary_quotes_every_check_and_missing_point_in_us_units():

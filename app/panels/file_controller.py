@@ -8,42 +8,15 @@ sample itself is never overwritten.
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 
 from PySide6.QtCore import QObject
 from PySide6.QtWidgets import QMenu
 
-import app
 from app import settings
+from app.samples import sample_projects
 from hydraulics.model import ModelError
 from hydraulics.project_io import FILE_SUFFIX, ProjectFileError, load_project
-
-SAMPLE_DIR = Path(app.__file__).resolve().parent.parent / "sample_projects"
-
-
-def sample_path(name: str) -> Path | None:
-    """The bundled sample called ``name`` (its file name without the suffix), or ``None``."""
-    path = SAMPLE_DIR / f"{name}{FILE_SUFFIX}"
-    return path if name and "/" not in name and "\\" not in name and path.is_file() else None
-
-
-def sample_names() -> list[str]:
-    """The names :func:`sample_path` accepts, in file-name order."""
-    return [path.name[: -len(FILE_SUFFIX)] for path in sorted(SAMPLE_DIR.glob(f"*{FILE_SUFFIX}"))]
-
-
-def sample_projects() -> list[tuple[str, Path]]:
-    """``(title, path)`` of every sample project, in file-name order."""
-    found = []
-    for path in sorted(SAMPLE_DIR.glob(f"*{FILE_SUFFIX}")):
-        title = path.name[: -len(FILE_SUFFIX)].replace("_", " ")
-        try:
-            name = json.loads(path.read_text(encoding="utf-8")).get("name")
-        except (OSError, ValueError, AttributeError):
-            name = None
-        found.append((name if isinstance(name, str) and name else title, path))
-    return found
 
 
 def with_suffix(path: str | Path) -> Path:

@@ -197,7 +197,7 @@ def test_startup_opens_the_last_project_or_a_new_one(qtbot, window, hilltop, sam
 
 
 def test_a_sample_opened_from_the_command_line_is_an_unsaved_copy(qtbot, dialogs, monkeypatch, tmp_path):
-    from app.panels.file_controller import sample_path
+    from app.samples import sample_path
 
     path = sample_path("river_intake")
     assert path is not None and sample_path("no_such_sample") is None and sample_path("") is None

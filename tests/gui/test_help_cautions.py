@@ -5,8 +5,9 @@ from __future__ import annotations
 import pytest
 from PySide6.QtWidgets import QDialog
 
-from app.cautions import CAUTIONS_SHORT, CAUTIONS_TEXT, CautionsBanner
+from app.cautions import CautionsBanner
 from app.help_page import METHODS, HelpDialog, MethodsPage, methods_html
+from hydraulics.cautions import CAUTIONS_SHORT, CAUTIONS_TEXT
 from hydraulics.model import Criteria
 
 # The offscreen platform warns whenever a top-level widget with a layout is shown; the

@@ -11,8 +11,8 @@ from PySide6.QtGui import QHelpEvent, QKeySequence
 from PySide6.QtWidgets import QApplication, QToolTip
 
 from app import settings
-from app.cautions import CAUTIONS_TEXT
 from benchmarks.redraw_timing import measure_edit_to_redraw
+from hydraulics.cautions import CAUTIONS_TEXT
 from app.panels.table_view import MAX_COLUMN_WIDTH
 from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable

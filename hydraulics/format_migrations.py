@@ -1,0 +1,94 @@
+"""Upgrading project files of an older format version, one version at a time.
+
+A project file carries an integer ``"version"``.  When the format changes, the version goes up by
+one and a *migration* is registered here: a pure function that takes the parsed JSON dictionary of
+a version-n file and returns a new dictionary in the shape of version n + 1.  On reading,
+:func:`migrate` applies the registered steps in order, from the file's version up to the version
+the program writes, and the strict reader (:mod:`hydraulics.project_io`) then sees only the current
+shape.  A migration
+
+* never mutates its argument (build new dictionaries and lists; :func:`migrate` also hands the
+  first step a deep copy, so the caller's data stays as parsed whatever a step does);
+* need not set ``"version"``: :func:`migrate` writes n + 1 after the step;
+* reads the old shape defensively (the strict reader validates what comes out); a step that
+  fails on a damaged file with ``KeyError``, ``TypeError``, ``ValueError``, ``AttributeError``
+  or ``IndexError`` is reported as a :class:`MigrationError`, not a crash.
+
+Versions outside the range a migration can handle (not a whole number, below 1, or newer than the
+program) pass through unchanged, so the reader refuses them with its own message.  A missing step
+between the file's version and the current one is an error naming both versions.
+
+The registry is empty while the format is at version 1.  ``sample_projects/README.md`` explains
+how to add a migration.
+"""
+
+from __future__ import annotations
+
+import copy
+from collections.abc import Callable, Mapping
+from typing import Any
+
+Migration = Callable[[Mapping[str, Any]], dict[str, Any]]
+"""A step from format version n to n + 1 (see the module docstring)."""
+
+MIGRATIONS: dict[int, Migration] = {}
+"""Registered steps, keyed by the version they upgrade *from*."""
+
+
+class MigrationError(ValueError):
+    """A file that cannot be brought up to the current format version."""
+
+    field_path = "version"
+
+    def __init__(self, problem: str):
+        self.problem = problem
+        super().__init__(problem)
+
+
+def migration(from_version: int) -> Callable[[Migration], Migration]:
+    """Register the decorated function as the step ``from_version`` → ``from_version + 1``."""
+    def register(step: Migration) -> Migration:
+        if from_version in MIGRATIONS:
+            raise ValueError(f"a migration from format version {from_version} is already registered")
+        MIGRATIONS[from_version] = step
+        return step
+    return register
+
+
+def migrate(data: Any, target_version: int) -> Any:
+    """``data`` (a parsed project file) brought up to ``target_version`` by the registered steps.
+
+    The caller checks the file's ``format`` first: the steps are for project files only.
+    Returns ``data`` itself when there is nothing to do: not a dictionary, a version that is not
+    a whole number, below 1, or not below ``target_version`` (the reader decides on those).
+    Otherwise returns a new dictionary; ``data`` is left as it was.  Raises
+    :class:`MigrationError` when a step is missing or a step returns something other than a
+    dictionary.
+
+    >>> migrate({"format": "pumpsketch-project", "version": 1}, 1)
+    {'format': 'pumpsketch-project', 'version': 1}
+    """
+    if not isinstance(data, dict):
+        return data
+    version = data.get("version")
+    if isinstance(version, bool) or not isinstance(version, int) or not 1 <= version < target_version:
+        return data
+    current: dict[str, Any] = copy.deepcopy(data)
+    for step_from in range(version, target_version):
+        step = MIGRATIONS.get(step_from)
+        if step is None:
+            raise MigrationError(
+                f"this file is format version {version} and cannot be upgraded to version {target_version}: "
+                f"no migration from version {step_from} to {step_from + 1} is known")
+        try:
+            result = step(current)
+        except (KeyError, IndexError, TypeError, ValueError, AttributeError) as exc:
+            raise MigrationError(
+                f"this file is format version {version} and could not be upgraded from version {step_from} "
+                f"to {step_from + 1} ({type(exc).__name__}: {exc}); the file may be damaged") from None
+        if not isinstance(result, dict):
+            raise MigrationError(
+                f"the migration from format version {step_from} to {step_from + 1} "
+                f"returned {type(result).__name__}, not a dictionary")
+        current = {**result, "version": step_from + 1}
+    return current
