@@ -15,12 +15,12 @@ Layer  Name            Modules
 2      document        ``app.document``, ``app.commands``
 1      foundation      ``app`` (the package), ``app.style``, ``app.settings``, ``app.cautions``,
                        ``app.text_report``, ``app.pump_report``, ``app.results.formatting``,
-                       ``app.results.solution_reading``
+                       ``app.results.solution_reading``, ``app.samples``, ``app.platform_check``
 0      engine          ``hydraulics.*`` (outside ``app``)
 =====  ==============  ==========================================================================
 
 The foundation holds what every layer may use and that knows nothing of the window:
-styles, remembered settings, the cautions, number formatting and the plain-text reports
+styles, remembered settings, the bundled samples, the Qt system-library check, the cautions, number formatting and the plain-text reports
 of the command line.  A new module must be given a layer here before it is accepted.
 """
 
@@ -41,6 +41,7 @@ LAYERS: dict[str, int] = {
     # exact modules first; a name ending in ".*" covers a package's modules
     "app": 1, "app.style": 1, "app.settings": 1, "app.cautions": 1, "app.text_report": 1,
     "app.pump_report": 1, "app.results.formatting": 1, "app.results.solution_reading": 1,
+    "app.samples": 1, "app.platform_check": 1,
     "app.document": 2, "app.commands": 2,
     "app.table_models": 3, "app.table_models.*": 3, "app.delegates": 3, "app.clipboard": 3,
     "app.panels": 4, "app.panels.*": 4, "app.plots": 4, "app.plots.*": 4, "app.results": 4,
