@@ -14,6 +14,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 from functools import lru_cache
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -21,10 +22,13 @@ from hydraulics import checks
 from hydraulics.atmosphere import standard_atmosphere_pressure
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.fluid import fluid_properties
-from hydraulics.model import Project
-from hydraulics.results import Solution
-from hydraulics.system_curve import flow_grid, prepare_system, segment_results, system_curves
+from hydraulics.model import Project, PumpModel
+from hydraulics.results import FloatArray, FluidProperties, NpshCurve, PumpCurve, Solution
+from hydraulics.system_curve import SystemHydraulics, flow_grid, prepare_system, segment_results, system_curves
 from hydraulics.validation import validate_project
+
+if TYPE_CHECKING:
+    from hydraulics.pump_fit import FittedPump
 
 DEFAULT_FLOW_POINTS = 256
 
@@ -37,7 +41,7 @@ def atmospheric_pressure(project: Project) -> float:
     return float(standard_atmosphere_pressure(site.altitude_m))
 
 
-def npsh_static_head(project: Project, atmospheric_pa: float, fluid) -> float:
+def npsh_static_head(project: Project, atmospheric_pa: float, fluid: FluidProperties) -> float:
     """The flow-independent part of NPSH available at the lowest suction level (m).
 
     (p_atm − p_v)/(ρ g) + (lowest suction level − pump datum); the suction losses at each
@@ -66,8 +70,8 @@ class CurvesStage:
     """
 
     solution: Solution
-    system: object
-    fitted: object | None
+    system: SystemHydraulics
+    fitted: FittedPump | None
     npsh_static_m: float | None
 
 
@@ -154,7 +158,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
 
 
 @lru_cache(maxsize=16)
-def _cached_fit(pump, density_kg_m3: float):
+def _cached_fit(pump: PumpModel, density_kg_m3: float) -> FittedPump:
     """The fitted pump, reused while the pump data and fluid are unchanged.
 
     The model is immutable and hashable, so an edit of the pipework (the common case in
@@ -166,8 +170,9 @@ def _cached_fit(pump, density_kg_m3: float):
 
 
 @lru_cache(maxsize=16)
-def _cached_pump_curves(pump, density_kg_m3: float, duty_count: int, series_stages: int, speed_ratio: float,
-                        trim_ratio: float, preferred_region: tuple[float, float]) -> tuple:
+def _cached_pump_curves(pump: PumpModel, density_kg_m3: float, duty_count: int, series_stages: int,
+                        speed_ratio: float, trim_ratio: float,
+                        preferred_region: tuple[float, float]) -> tuple[PumpCurve, ...]:
     """The curves of 1..``duty_count`` pumps running, reused while the pump set is unchanged.
 
     They depend on the pump, the fluid density and the arrangement only, not on the
@@ -188,22 +193,8 @@ def _cached_pump_curves(pump, density_kg_m3: float, duty_count: int, series_stag
     return curves
 
 
-@dataclass(frozen=True, eq=False)
-class NpshCurve:
-    """NPSH available against station flow (new and aged pipe), and NPSH required.
-
-    ``required_flow_m3_s``/``required_m`` are those of one pump at the current speed
-    (the first pump curve), for comparison per pump.
-    """
-
-    flow_m3_s: np.ndarray
-    available_new_m: np.ndarray
-    available_aged_m: np.ndarray
-    required_flow_m3_s: np.ndarray
-    required_m: np.ndarray | None
-
-
-def _npsh_curve(system, npsh_static_m: float, first_curve, flows) -> NpshCurve:
+def _npsh_curve(system: SystemHydraulics, npsh_static_m: float, first_curve: PumpCurve,
+                flows: FloatArray) -> NpshCurve:
     """NPSH available over ``flows`` (static part less the suction losses) beside NPSH required."""
     return NpshCurve(
         flow_m3_s=flows,

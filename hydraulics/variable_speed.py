@@ -30,10 +30,10 @@ import numpy as np
 
 from hydraulics.duty_point import bracketed_roots
 from hydraulics.model import Arrangement, ModelError
-from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, OperatingPoint, operating_points
+from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, operating_points
 from hydraulics.pump_arrangement import arrangement_head, rated_equivalent_flow
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import Finding, finding
+from hydraulics.results import Finding, OperatingPoint, SpeedForFlow, VariableSpeedResult, finding
 
 __all__ = ["SpeedForFlow", "VariableSpeedResult", "SpeedSearch", "search_speeds", "variable_speed_points",
            "variable_speed", "variable_speed_findings",
@@ -44,78 +44,6 @@ SPEED_HEAD_TOLERANCE_M = 1e-10
 
 LIMITED_BY_MAX = "max_speed"
 LIMITED_BY_MIN = "min_speed"
-
-
-@dataclass(frozen=True)
-class SpeedForFlow:
-    """The speed that delivers the target flow in one scenario (``None`` when not achievable).
-
-    ``limit`` is ``"max_speed"`` when the target needs more than the maximum speed ratio,
-    ``"min_speed"`` when even the minimum speed delivers more, else ``None``.
-    ``extrapolated`` is True when one pump's corresponding rated flow at that speed lies
-    outside the tested data.
-    """
-
-    static: str
-    pipe: str
-    pumps_running: int
-    target_flow_m3_s: float
-    system_head_m: float
-    achievable: bool
-    speed_ratio: float | None
-    limit: str | None
-    reason: str | None
-    extrapolated: bool
-
-    def to_json_dict(self) -> dict:
-        return {
-            "static": self.static, "pipe": self.pipe, "pumps_running": self.pumps_running,
-            "target_flow_m3_s": self.target_flow_m3_s, "system_head_m": self.system_head_m,
-            "achievable": self.achievable, "speed_ratio": self.speed_ratio, "limit": self.limit,
-            "reason": self.reason, "extrapolated": self.extrapolated,
-        }
-
-
-@dataclass(frozen=True)
-class VariableSpeedResult:
-    """Speeds for the target flow, the lowest lifting speed, and the points re-intersected there.
-
-    ``points`` are the operating points (every static × pipe × 1..N pumps) at each speed of
-    ``speeds_solved``; ``points_at_minimum_speed`` the same at the arrangement's minimum
-    speed ratio.
-    """
-
-    target_flow_m3_s: float
-    pumps_running: int
-    min_speed_ratio: float
-    max_speed_ratio: float
-    scenarios: tuple[SpeedForFlow, ...]
-    minimum_lift_speed_ratio: float | None
-    minimum_lift_reason: str | None
-    speeds_solved: tuple[float, ...]
-    points: tuple[OperatingPoint, ...]
-    points_at_minimum_speed: tuple[OperatingPoint, ...]
-
-    def scenario(self, static: str, pipe: str) -> SpeedForFlow:
-        """The result for one static extreme and pipe state."""
-        for item in self.scenarios:
-            if item.static == static and item.pipe == pipe:
-                return item
-        raise KeyError((static, pipe))
-
-    def to_json_dict(self) -> dict:
-        return {
-            "target_flow_m3_s": self.target_flow_m3_s,
-            "pumps_running": self.pumps_running,
-            "min_speed_ratio": self.min_speed_ratio,
-            "max_speed_ratio": self.max_speed_ratio,
-            "scenarios": [s.to_json_dict() for s in self.scenarios],
-            "minimum_lift_speed_ratio": self.minimum_lift_speed_ratio,
-            "minimum_lift_reason": self.minimum_lift_reason,
-            "speeds_solved": list(self.speeds_solved),
-            "points": [p.to_json_dict() for p in self.points],
-            "points_at_minimum_speed": [p.to_json_dict() for p in self.points_at_minimum_speed],
-        }
 
 
 def minimum_lift_speed_ratio(shutoff_head_m: float, static_head_max_m: float, series_stages: int = 1,

@@ -26,12 +26,8 @@ from app.panels import pump_edits
 from app.panels.form import FormPanel, NumberField, Section, TextField
 from app.panels.table_view import SpreadsheetView
 from app.table_models.pump_points import PumpPointsModel
-from hydraulics.model import Project, PumpModel
+from hydraulics.model import Project
 from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
-
-
-def _pump(project: Project) -> PumpModel | None:
-    return project.duty_pump
 
 
 def _has_pump(project: Project) -> bool:

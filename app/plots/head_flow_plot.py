@@ -86,7 +86,6 @@ class HeadFlowPlot(QWidget):
         self._solution: Any = None
         self._unit_system = "SI"
         self._snapshot_si: list[tuple[np.ndarray, np.ndarray]] = []
-        self._pinned_label_positions: list[tuple[float, float]] = []
 
         self.readout = make_readout_label(self)
         self.canvas = make_canvas()
