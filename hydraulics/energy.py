@@ -32,6 +32,7 @@ import numpy as np
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import EnergyInputs, ModelError
+from hydraulics.number_format import fixed_decimals
 from hydraulics.results import EnergyResult, ScenarioEnergy
 
 __all__ = ["hydraulic_power_w", "specific_energy_kwh_m3", "ScenarioEnergy", "EnergyResult", "annual_energy",
@@ -133,7 +134,7 @@ def annual_energy(points: Sequence, energy_inputs: EnergyInputs, design_flow_m3_
             hours = volume / (q * 3600.0)
             energy = volume * e_s
             if hours > HOURS_PER_YEAR_MAX:
-                notes.append(f"at {static} static the annual volume needs {hours:.0f} h, more than a year has")
+                notes.append(f"at {static} static the annual volume needs {fixed_decimals(hours, 0)} h, more than a year has")
         else:
             hours = float(hours_in)
             volume = q * 3600.0 * hours

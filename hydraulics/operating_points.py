@@ -209,13 +209,14 @@ def operating_points(system, fitted: FittedPump, arrangement: Arrangement, npsh_
     templates = duty.reason_templates or (None,) * grid.size
     points = []
     for i in range(grid.size):
+        template = templates[i]
         points.append(OperatingPoint(
             static=grid.static[i], pipe=grid.pipe[i], pumps_running=pumps[i], speed_ratio=speed_list[i],
             trim_ratio=trim, series_stages=stages, static_head_m=statics[i],
             found=found_list[i], reason=duty.reasons[i], extrapolated=extrapolated[i],
             segment_velocities_m_s=tuple(velocities[i]) if found_list[i] else (),
-            reason_template=templates[i][0] if templates[i] else None,
-            reason_values=templates[i][1] if templates[i] else (),
+            reason_template=None if template is None else template[0],
+            reason_values=() if template is None else template[1],
             **{key: values[i] for key, values in cols.items()},
         ))
     return tuple(points)

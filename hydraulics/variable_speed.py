@@ -30,6 +30,7 @@ import numpy as np
 
 from hydraulics.duty_point import bracketed_roots
 from hydraulics.model import Arrangement, ModelError
+from hydraulics.number_format import percent_number
 from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, operating_points
 from hydraulics.pump_arrangement import arrangement_head, rated_equivalent_flow
 from hydraulics.pump_fit import FittedPump
@@ -129,10 +130,10 @@ def search_speeds(system, fitted: FittedPump, arrangement: Arrangement, target_f
         elif too_little[i]:
             limit = LIMITED_BY_MAX
             reason = (f"the duty pumps cannot deliver the target flow even at the maximum speed ratio "
-                      f"{s_hi * 100:.0f} %")
+                      f"{percent_number(s_hi)} %")
         elif too_much[i]:
             limit = LIMITED_BY_MIN
-            reason = (f"even at the minimum speed ratio {s_lo * 100:.0f} % the duty pumps deliver more than "
+            reason = (f"even at the minimum speed ratio {percent_number(s_lo)} % the duty pumps deliver more than "
                       "the target flow")
         else:
             limit, reason = None, "no speed found (the pump head does not vary steadily with speed)"
@@ -220,26 +221,26 @@ def variable_speed_findings(result: VariableSpeedResult, fitted: FittedPump) -> 
             out.append(finding(
                 "warning", "speed_target_unreachable",
                 f"With {item.pumps_running} duty pump(s) the target flow {{q}} needs more than the "
-                f"maximum speed ratio {result.max_speed_ratio * 100:.0f} % at {label}.", target_flow,
+                f"maximum speed ratio {percent_number(result.max_speed_ratio)} % at {label}.", target_flow,
                 f"{where}, {label}", "Choose a larger pump, more duty pumps or a higher maximum speed.", target))
         elif item.limit == LIMITED_BY_MIN:
             out.append(finding(
                 "info", "speed_below_minimum",
-                f"At {label} even the minimum speed ratio {result.min_speed_ratio * 100:.0f} % delivers more than "
-                "the target flow {q}.", target_flow,
+                f"At {label} even the minimum speed ratio {percent_number(result.min_speed_ratio)} % "
+                "delivers more than the target flow {q}.", target_flow,
                 f"{where}, {label}", "Lower the minimum speed if the pump allows it, or accept the higher flow.",
                 target))
         elif item.achievable and item.extrapolated:
             out.append(Finding(
                 "warning", "speed_extrapolated",
-                f"At {label} the speed ratio {item.speed_ratio * 100:.1f} % puts each pump outside its tested "
+                f"At {label} the speed ratio {percent_number(item.speed_ratio, 1)} % puts each pump outside its tested "
                 "flow range; the fitted curve is extrapolated.",
                 f"{where}, {label}", "Obtain pump data covering this flow, or change the selection.", target))
     s_lift = result.minimum_lift_speed_ratio
     if s_lift is not None and result.min_speed_ratio < s_lift:
         out.append(Finding(
             "warning", "minimum_speed_cannot_lift",
-            f"At the minimum speed ratio {result.min_speed_ratio * 100:.0f} % the shut-off head is below the "
-            f"maximum static head; the pumps need at least {s_lift * 100:.1f} % to deliver at all.",
-            where, f"Set the minimum speed above {s_lift * 100:.0f} % with a margin for a stable flow.", target))
+            f"At the minimum speed ratio {percent_number(result.min_speed_ratio)} % the shut-off head is below the "
+            f"maximum static head; the pumps need at least {percent_number(s_lift, 1)} % to deliver at all.",
+            where, f"Set the minimum speed above {percent_number(s_lift)} % with a margin for a stable flow.", target))
     return out

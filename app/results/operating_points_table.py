@@ -96,7 +96,7 @@ class OperatingPointsModel(QAbstractTableModel):
         self.beginResetModel()
         self._points = list(points)
         self._found = [bool(scenarios.found_points([p])) for p in self._points]
-        self._display_cache: dict[tuple[int, int], str] = {}
+        self._display_cache = {}
         self._unit_system = unit_system
         self.endResetModel()
 
