@@ -14,6 +14,7 @@ from PySide6.QtWidgets import QDialog, QDialogButtonBox, QTextBrowser, QVBoxLayo
 
 from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.model import Criteria
+from hydraulics.number_format import fixed_decimals, percent_number
 
 
 @dataclass(frozen=True)
@@ -32,7 +33,7 @@ class MethodEntry:
 
 
 def _pct(fraction: float) -> str:
-    return f"{fraction * 100:.0f} %"
+    return f"{percent_number(fraction)} %"
 
 
 def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
@@ -141,8 +142,8 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
             "Karassik et al., <i>Pump Handbook</i> (McGraw-Hill)."),
         MethodEntry(
             "NPSH margin guideline", "Checks",
-            f"NPSH<sub>a</sub> ≥ max( {c.npsh_margin_ratio:.2f} × NPSH<sub>r</sub>, "
-            f"NPSH<sub>r</sub> + {c.npsh_margin_min_m:.1f} m ) by default; editable in the criteria",
+            f"NPSH<sub>a</sub> ≥ max( {fixed_decimals(c.npsh_margin_ratio, 2)} × NPSH<sub>r</sub>, "
+            f"NPSH<sub>r</sub> + {fixed_decimals(c.npsh_margin_min_m, 1)} m ) by default; editable in the criteria",
             "Warning when the margin is below the criterion; critical when NPSH available is below NPSH "
             "required.",
             "ANSI/HI 9.6.1, Rotodynamic Pumps – Guideline for NPSH Margin (defaults for water and "
@@ -159,9 +160,11 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
             "memory: verify against the standard and the manufacturer's allowable region)."),
         MethodEntry(
             "Velocity limits", "Checks",
-            f"Suction {c.suction_velocity_min_m_s:.1f}–{c.suction_velocity_max_m_s:.1f} m/s; delivery "
-            f"{c.delivery_velocity_min_m_s:.1f}–{c.delivery_velocity_max_m_s:.1f} m/s; sewage rising mains "
-            f"at least {c.sewage_velocity_min_m_s:.2f} m/s by default; editable in the criteria",
+            f"Suction {fixed_decimals(c.suction_velocity_min_m_s, 1)}–"
+            f"{fixed_decimals(c.suction_velocity_max_m_s, 1)} m/s; delivery "
+            f"{fixed_decimals(c.delivery_velocity_min_m_s, 1)}–"
+            f"{fixed_decimals(c.delivery_velocity_max_m_s, 1)} m/s; sewage rising mains "
+            f"at least {fixed_decimals(c.sewage_velocity_min_m_s, 2)} m/s by default; editable in the criteria",
             "Warning when a segment's velocity leaves its side's range at the lowest or highest "
             "expected flow.",
             "Common practice of the trade (no single published source)."),

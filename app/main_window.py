@@ -46,6 +46,7 @@ from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable
 from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.project_io import FILE_SUFFIX
+from hydraulics.results import Solution
 
 APP_TITLE = "PumpSketch"
 UNIT_SYSTEM_LABELS = {"SI": "SI (m, L/s, kPa)", "US": "US customary (ft, gpm, psi)"}
@@ -183,10 +184,10 @@ class MainWindow(QMainWindow):
         self.pumps_panel.message.connect(self.show_status)
 
     # ------------------------------------------------------------------ showing results
-    def _show_first_stage(self, first) -> None:  # the plot is painted first, the checks a few ms later
+    def _show_first_stage(self, first: Solution) -> None:  # the plot is painted first, the checks a few ms later
         self.plot_tabs.show_and_paint(first, self.document.unit_system)
 
-    def _show_solution(self, solution) -> None:
+    def _show_solution(self, solution: Solution) -> None:
         system = self.document.unit_system
         self.plot_tabs.show_solution(solution, system)  # no redraw when only the checks were added
         self.checks_panel.show_findings(solution.findings, system)

@@ -6,7 +6,14 @@ import numpy as np
 
 from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.energy import JOULES_PER_KWH
-from hydraulics.results import Solution
+from hydraulics.number_format import (
+    MISSING,
+    fixed_decimals,
+    general_number,
+    grouped_whole_number,
+    percent_number,
+)
+from hydraulics.results import FluidProperties, Solution
 from hydraulics.units import to_display, unit_label
 
 
@@ -29,22 +36,21 @@ def _wrap(text: str, width: int = 96) -> list[str]:
     return lines + ([line] if line else [])
 
 
-def _fluid_description(fluid, system: str) -> str:
+def _fluid_description(fluid: FluidProperties, system: str) -> str:
     """The engine's fluid description (temperature in °C) with the temperature in ``system``."""
-    si = f"at {fluid.temperature_c:.1f} °C"
-    shown = f"at {to_display(fluid.temperature_c, 'temperature', system):.1f} {unit_label('temperature', system)}"
+    si = f"at {fixed_decimals(fluid.temperature_c, 1)} °C"
+    shown = (f"at {fixed_decimals(to_display(fluid.temperature_c, 'temperature', system), 1)} "
+             f"{unit_label('temperature', system)}")
     return fluid.description.replace(si, shown, 1)
 
 
 def summary_text(solution: Solution, system: str = "SI") -> str:
     """A plain-text report of one solved project in the chosen unit system."""
-    def d(value, quantity, fmt="{:.2f}"):
-        if value is None:
-            return "—"
-        return fmt.format(float(to_display(value, quantity, system)))
+    def d(value: float | None, quantity: str, decimals: int = 2) -> str:
+        return MISSING if value is None else fixed_decimals(to_display(value, quantity, system), decimals)
 
-    def specific(kwh_m3):  # the engine reports kWh/m³; the quantity is stored in J/m³
-        return "—" if kwh_m3 is None else d(kwh_m3 * JOULES_PER_KWH, "specific_energy", "{:.3f}")
+    def specific(kwh_m3: float | None) -> str:  # the engine reports kWh/m³; the quantity is stored in J/m³
+        return MISSING if kwh_m3 is None else d(kwh_m3 * JOULES_PER_KWH, "specific_energy", 3)
 
     fl, hd, vel, dia = (unit_label(q, system) for q in ("flow", "head", "velocity", "diameter"))
     p = solution.project
@@ -54,11 +60,12 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
     out += [
         "",
         f"Fluid: {_fluid_description(f, system)}",
-        f"  density {d(f.density_kg_m3, 'density', '{:.2f}')} {unit_label('density', system)}, "
-        f"kinematic viscosity {d(f.kinematic_viscosity_m2_s, 'kinematic_viscosity', '{:.4g}')} "
+        f"  density {d(f.density_kg_m3, 'density')} {unit_label('density', system)}, "
+        f"kinematic viscosity "
+        f"{general_number(to_display(f.kinematic_viscosity_m2_s, 'kinematic_viscosity', system), 4)} "
         f"{unit_label('kinematic_viscosity', system)}, vapour pressure "
-        f"{d(f.vapour_pressure_pa, 'pressure', '{:.3f}')} {unit_label('pressure', system)}",
-        f"Atmospheric pressure: {d(solution.atmospheric_pressure_pa, 'pressure', '{:.2f}')} {unit_label('pressure', system)}",
+        f"{d(f.vapour_pressure_pa, 'pressure', 3)} {unit_label('pressure', system)}",
+        f"Atmospheric pressure: {d(solution.atmospheric_pressure_pa, 'pressure')} {unit_label('pressure', system)}",
         f"Static head: minimum {d(solution.static_head_min_m, 'head')} {hd}, "
         f"maximum {d(solution.static_head_max_m, 'head')} {hd}",
         f"Design flow: {d(solution.design_flow_m3_s, 'flow')} {fl}",
@@ -66,10 +73,10 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         "",
         "Segments at design flow (new pipe):",
     ]
-    rows = [[s.name, s.side, d(s.internal_diameter_m, "diameter", "{:.1f}"), d(s.length_m, "length", "{:.1f}"),
-             str(s.parallel_pipes), d(s.velocity_m_s, "velocity"), f"{s.reynolds:.3g}",
-             f"{s.friction_factor:.5f}", d(s.friction_loss_m, "head", "{:.3f}"), f"{s.minor_k_total:.2f}",
-             d(s.minor_loss_m, "head", "{:.3f}")] for s in solution.segments]
+    rows = [[s.name, s.side, d(s.internal_diameter_m, "diameter", 1), d(s.length_m, "length", 1),
+             str(s.parallel_pipes), d(s.velocity_m_s, "velocity"), general_number(s.reynolds, 3),
+             fixed_decimals(s.friction_factor, 5), d(s.friction_loss_m, "head", 3), fixed_decimals(s.minor_k_total, 2),
+             d(s.minor_loss_m, "head", 3)] for s in solution.segments]
     out += ["  " + line for line in _table(
         ["segment", "side", f"ID {dia}", f"length {unit_label('length', system)}", "pipes", f"v {vel}", "Re", "f",
          f"friction {hd}", "ΣK", f"minor {hd}"], rows)]
@@ -80,7 +87,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
     headers = [f"flow {fl}"] + [f"{c.static} static, {c.pipe}" for c in solution.curves]
     rows = []
     for q in targets:
-        rows.append([d(q, "flow", "{:.1f}")] + [d(float(np.interp(q, c.flow_m3_s, c.head_m)), "head")
+        rows.append([d(q, "flow", 1)] + [d(float(np.interp(q, c.flow_m3_s, c.head_m)), "head")
                                                  for c in solution.curves])
     out += ["  " + line for line in _table(headers, rows)]
     if solution.operating_points:
@@ -89,43 +96,43 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         for op in solution.operating_points:
             scenario = f"{op.static} static, {op.pipe}"
             if not op.found:
-                rows.append([scenario, str(op.pumps_running), f"{op.speed_ratio * 100:.0f}", "—", "—", "—", "—",
-                             "—", "—", "—", op.reason_text(system) or "no point"])
+                rows.append([scenario, str(op.pumps_running), percent_number(op.speed_ratio)] + [MISSING] * 7
+                            + [op.reason_text(system) or "no point"])
                 continue
-            eff = "—" if op.efficiency is None else f"{op.efficiency * 100:.1f}"
-            bep = "—" if op.bep_flow_ratio is None else f"{op.bep_flow_ratio * 100:.0f}"
-            margin = "—" if op.npsh_margin_m is None else d(op.npsh_margin_m, "head", "{:.1f}")
-            rows.append([scenario, str(op.pumps_running), f"{op.speed_ratio * 100:.0f}",
-                         d(op.flow_m3_s, "flow", "{:.1f}"), d(op.head_m, "head", "{:.1f}"), eff,
-                         d(op.input_power_w, "power", "{:.1f}"),
+            rows.append([scenario, str(op.pumps_running), percent_number(op.speed_ratio),
+                         d(op.flow_m3_s, "flow", 1), d(op.head_m, "head", 1), percent_number(op.efficiency, 1),
+                         d(op.input_power_w, "power", 1),
                          specific(op.specific_energy_kwh_m3),
-                         margin, bep, "extrapolated" if op.extrapolated else ""])
+                         d(op.npsh_margin_m, "head", 1), percent_number(op.bep_flow_ratio),
+                         "extrapolated" if op.extrapolated else ""])
         out += ["  " + line for line in _table(
             ["scenario", "pumps", "speed %", f"flow {fl}", f"head {hd}", "eff %", f"input {unit_label('power', system)}",
              unit_label("specific_energy", system), f"NPSH margin {hd}", "% BEP", "note"], rows)]
     vs = solution.variable_speed
     if vs is not None:
-        out += ["", f"Variable speed (design flow {d(vs.target_flow_m3_s, 'flow', '{:.1f}')} {fl} "
-                    f"with {vs.pumps_running} pump(s); drive range {vs.min_speed_ratio * 100:.0f}–"
-                    f"{vs.max_speed_ratio * 100:.0f} %):"]
+        out += ["", f"Variable speed (design flow {d(vs.target_flow_m3_s, 'flow', 1)} {fl} "
+                    f"with {vs.pumps_running} pump(s); drive range {percent_number(vs.min_speed_ratio)}–"
+                    f"{percent_number(vs.max_speed_ratio)} %):"]
         for item in vs.scenarios:
-            speed = f"{item.speed_ratio * 100:.1f} %" if item.achievable else f"not reachable ({item.reason})"
+            speed = f"{percent_number(item.speed_ratio, 1)} %" if item.achievable else f"not reachable ({item.reason})"
             out.append(f"  {item.static} static, {item.pipe} pipe: {speed}")
         if vs.minimum_lift_speed_ratio is not None:
             out.append(f"  lowest speed that lifts against the maximum static head: "
-                       f"{vs.minimum_lift_speed_ratio * 100:.1f} %")
+                       f"{percent_number(vs.minimum_lift_speed_ratio, 1)} %")
     e = solution.energy
-    ej = e.to_json_dict() if e is not None else {}
     if e is not None:
         out += ["", "Energy (normal duty: aged pipe, mean of the static extremes):"]
         if e.annual_energy_mean_kwh is None:
             out.append("  not computed: " + "; ".join(e.notes or ("no operating hours or annual volume",)))
         else:
-            out.append(f"  {e.pumps_running} pump(s) at {e.speed_ratio * 100:.0f} % speed, basis: "
-                       f"{e.basis.replace('_', ' ')}")
-            out.append(f"  annual energy {e.annual_energy_mean_kwh:,.0f} kWh "
-                       f"(min static {ej['annual_energy_min_static_kwh']:,.0f}, max static {ej['annual_energy_max_static_kwh']:,.0f})")
-            out.append(f"  annual cost {e.annual_cost_mean:,.0f} {e.currency} at {e.tariff_per_kwh:g} {e.currency}/kWh; "
+            low = None if e.at_min_static is None else e.at_min_static.annual_energy_kwh
+            high = None if e.at_max_static is None else e.at_max_static.annual_energy_kwh
+            out.append(f"  {e.pumps_running} pump(s) at {percent_number(e.speed_ratio)} % speed, basis: "
+                       f"{(e.basis or '').replace('_', ' ')}")
+            out.append(f"  annual energy {grouped_whole_number(e.annual_energy_mean_kwh)} kWh "
+                       f"(min static {grouped_whole_number(low)}, max static {grouped_whole_number(high)})")
+            out.append(f"  annual cost {grouped_whole_number(e.annual_cost_mean)} {e.currency} at "
+                       f"{general_number(e.tariff_per_kwh, 6)} {e.currency}/kWh; "
                        f"specific energy {specific(e.specific_energy_mean_kwh_m3)} {unit_label('specific_energy', system)}")
         for note in e.notes or ():
             out.append(f"  note: {note}")

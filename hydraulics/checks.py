@@ -43,13 +43,14 @@ from __future__ import annotations
 from typing import Iterable, Sequence
 
 from hydraulics.model import Project
+from hydraulics.number_format import fixed_decimals, percent_number
 from hydraulics.results import SEVERITY_ORDER, Finding, SegmentResult, finding
 
 
 def _scenario_label(point) -> str:
     n = point.pumps_running
     pumps = "1 pump" if n == 1 else f"{n} pumps"
-    speed = "" if abs(point.speed_ratio - 1.0) < 1e-9 else f" at {point.speed_ratio * 100:.0f} % speed"
+    speed = "" if abs(point.speed_ratio - 1.0) < 1e-9 else f" at {percent_number(point.speed_ratio)} % speed"
     return f"{pumps}{speed}, {point.static} static, {point.pipe} pipe"
 
 
@@ -100,7 +101,8 @@ def profile_findings(project: Project, static_head_min_m: float) -> list[Finding
     optional start and end elevations.
     """
     lowest_delivery = static_head_min_m + project.site.suction_level_high_m
-    crest, crest_index = None, None
+    crest: float | None = None
+    crest_index = 0
     for i, seg in enumerate(project.segments):
         if seg.side != "delivery":
             continue
@@ -129,12 +131,14 @@ def regime_findings(at_design: Iterable[SegmentResult]) -> list[Finding]:
         where = f"segment '{seg.name}' ({seg.side})"
         if seg.regime == "laminar":
             out.append(Finding("info", "laminar_flow",
-                               f"Laminar flow (Re = {seg.reynolds:.0f}) at design flow; f = 64/Re is used.",
+                               f"Laminar flow (Re = {fixed_decimals(seg.reynolds, 0)}) at design flow; "
+                               "f = 64/Re is used.",
                                where, "Check the fluid viscosity and the diameter.", ("segment", seg.index)))
         elif seg.regime == "transition":
             out.append(Finding("warning", "transition_flow",
-                               f"Transitional flow (Re = {seg.reynolds:.0f}) at design flow; the friction "
-                               "factor is interpolated between the laminar and turbulent laws and is uncertain.",
+                               f"Transitional flow (Re = {fixed_decimals(seg.reynolds, 0)}) at design flow; "
+                               "the friction factor is interpolated between the laminar and turbulent laws "
+                               "and is uncertain.",
                                where, "Avoid designing in the 2000–4000 Reynolds range.", ("segment", seg.index)))
     return out
 
@@ -165,7 +169,7 @@ def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m:
     if trim > criteria.trim_warning_limit:
         out.append(Finding(
             "warning", "large_trim",
-            f"Impeller trim of {trim * 100:.0f} % is beyond {criteria.trim_warning_limit * 100:.0f} %; "
+            f"Impeller trim of {percent_number(trim)} % is beyond {percent_number(criteria.trim_warning_limit)} %; "
             "the affinity laws for trim are only approximate for small trims.",
             pump_where, "Ask the manufacturer for the tested curve of the trimmed impeller.", pump_target))
     for point in points:
@@ -208,7 +212,7 @@ def _npsh_findings(point, criteria, where, target) -> list[Finding]:
     if npsha < required:
         return [finding(
             "warning", "npsh_margin_low",
-            "NPSH available {a} gives a margin of {m} (ratio " + f"{npsha / npshr:.2f}" + ") over NPSH "
+            "NPSH available {a} gives a margin of {m} (ratio " + fixed_decimals(npsha / npshr, 2) + ") over NPSH "
             "required {r}; the criteria ask for at least {need} available.",
             {"a": (npsha, "head"), "m": (npsha - npshr, "head"), "r": (npshr, "head"), "need": (required, "head")},
             where, "Lower the pump, raise the minimum suction level, or reduce suction losses.", target)]
@@ -222,14 +226,14 @@ def _region_findings(point, criteria, where, target) -> list[Finding]:
     if not criteria.allowable_region_low <= ratio <= criteria.allowable_region_high:
         return [Finding(
             "critical", "outside_allowable",
-            f"Runs at {ratio * 100:.0f} % of best-efficiency flow, outside the allowable region "
-            f"{criteria.allowable_region_low * 100:.0f}–{criteria.allowable_region_high * 100:.0f} %.",
+            f"Runs at {percent_number(ratio)} % of best-efficiency flow, outside the allowable region "
+            f"{percent_number(criteria.allowable_region_low)}–{percent_number(criteria.allowable_region_high)} %.",
             where, "Change the number of pumps, the speed or the pump selection.", target)]
     if not criteria.preferred_region_low <= ratio <= criteria.preferred_region_high:
         return [Finding(
             "warning", "outside_preferred",
-            f"Runs at {ratio * 100:.0f} % of best-efficiency flow, outside the preferred region "
-            f"{criteria.preferred_region_low * 100:.0f}–{criteria.preferred_region_high * 100:.0f} %.",
+            f"Runs at {percent_number(ratio)} % of best-efficiency flow, outside the preferred region "
+            f"{percent_number(criteria.preferred_region_low)}–{percent_number(criteria.preferred_region_high)} %.",
             where, "Consider variable speed or a pump whose best-efficiency point is nearer the duty.", target)]
     return []
 

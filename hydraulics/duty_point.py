@@ -36,10 +36,11 @@ from dataclasses import dataclass
 from typing import Callable
 
 import numpy as np
+from numpy.typing import NDArray
 
 from hydraulics.pump_arrangement import arrangement_head
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import render_template
+from hydraulics.results import FloatArray, QuotedValue, render_template
 
 __all__ = [
     "bracketed_roots",
@@ -169,15 +170,15 @@ class DutyPoints:
     values, to show it in another unit system (:func:`hydraulics.results.render_template`).
     """
 
-    flow_m3_s: np.ndarray
-    head_m: np.ndarray
-    residual_m: np.ndarray
-    status: np.ndarray
-    found: np.ndarray
-    extrapolated: np.ndarray
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+    residual_m: FloatArray
+    status: NDArray[np.int_]
+    found: NDArray[np.bool_]
+    extrapolated: NDArray[np.bool_]
     reasons: tuple[str | None, ...]
     iterations: int
-    reason_templates: tuple[tuple[str, tuple] | None, ...] = ()
+    reason_templates: tuple[tuple[str, tuple[QuotedValue, ...]] | None, ...] = ()
 
 
 def _narrowed_brackets(fitted, residual, pump_args, lo, hi, f_lo, f_hi, active, width: float = 0.04):

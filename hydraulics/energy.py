@@ -32,6 +32,8 @@ import numpy as np
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import EnergyInputs, ModelError
+from hydraulics.number_format import fixed_decimals
+from hydraulics.results import EnergyResult, ScenarioEnergy
 
 __all__ = ["hydraulic_power_w", "specific_energy_kwh_m3", "ScenarioEnergy", "EnergyResult", "annual_energy",
            "HOURS_PER_YEAR_MAX"]
@@ -62,69 +64,6 @@ def specific_energy_kwh_m3(density_kg_m3, head_m, efficiency, gravity_m_s2: floa
     value = np.asarray(density_kg_m3, dtype=float) * gravity_m_s2 * np.asarray(head_m, dtype=float) / (
         JOULES_PER_KWH * np.asarray(efficiency, dtype=float))
     return float(value) if value.ndim == 0 else value
-
-
-@dataclass(frozen=True)
-class ScenarioEnergy:
-    """Annual energy if the station ran all year at one operating point."""
-
-    static: str
-    pipe: str
-    pumps_running: int
-    speed_ratio: float
-    flow_m3_s: float
-    head_m: float
-    input_power_w: float
-    specific_energy_kwh_m3: float
-    operating_hours_per_year: float
-    annual_volume_m3: float
-    annual_energy_kwh: float
-    annual_cost: float
-
-    def to_json_dict(self) -> dict:
-        return dict(self.__dict__)
-
-
-@dataclass(frozen=True)
-class EnergyResult:
-    """Annual energy at both static extremes and their mean (``None`` where not computable)."""
-
-    basis: str | None
-    pipe: str
-    pumps_running: int | None
-    speed_ratio: float | None
-    tariff_per_kwh: float
-    currency: str
-    at_min_static: ScenarioEnergy | None
-    at_max_static: ScenarioEnergy | None
-    input_power_mean_w: float | None
-    specific_energy_mean_kwh_m3: float | None
-    annual_energy_mean_kwh: float | None
-    annual_cost_mean: float | None
-    notes: tuple[str, ...]
-
-    def to_json_dict(self) -> dict:
-        def part(item: ScenarioEnergy | None, key: str):
-            return None if item is None else getattr(item, key)
-
-        return {
-            "basis": self.basis,
-            "pipe": self.pipe,
-            "pumps_running": self.pumps_running,
-            "speed_ratio": self.speed_ratio,
-            "tariff_per_kwh": self.tariff_per_kwh,
-            "currency": self.currency,
-            "annual_energy_mean_kwh": self.annual_energy_mean_kwh,
-            "annual_cost_mean": self.annual_cost_mean,
-            "specific_energy_mean_kwh_m3": self.specific_energy_mean_kwh_m3,
-            "input_power_mean_w": self.input_power_mean_w,
-            "annual_energy_min_static_kwh": part(self.at_min_static, "annual_energy_kwh"),
-            "annual_energy_max_static_kwh": part(self.at_max_static, "annual_energy_kwh"),
-            "specific_energy_min_static_kwh_m3": part(self.at_min_static, "specific_energy_kwh_m3"),
-            "specific_energy_max_static_kwh_m3": part(self.at_max_static, "specific_energy_kwh_m3"),
-            "scenarios": [s.to_json_dict() for s in (self.at_min_static, self.at_max_static) if s is not None],
-            "notes": list(self.notes),
-        }
 
 
 def _choose_pumps(points: Sequence, pipe: str, speed: float, design_flow_m3_s: float | None) -> int | None:
@@ -195,7 +134,7 @@ def annual_energy(points: Sequence, energy_inputs: EnergyInputs, design_flow_m3_
             hours = volume / (q * 3600.0)
             energy = volume * e_s
             if hours > HOURS_PER_YEAR_MAX:
-                notes.append(f"at {static} static the annual volume needs {hours:.0f} h, more than a year has")
+                notes.append(f"at {static} static the annual volume needs {fixed_decimals(hours, 0)} h, more than a year has")
         else:
             hours = float(hours_in)
             volume = q * 3600.0 * hours

@@ -8,6 +8,7 @@ from typing import Final
 
 from hydraulics.constants import STANDARD_ATMOSPHERE_PA, ZERO_CELSIUS_K
 from hydraulics.model import ModelError, UserFluid, WaterFluid
+from hydraulics.number_format import fixed_decimals
 from hydraulics.results import FluidProperties
 from hydraulics.water_properties import density_liquid, dynamic_viscosity, saturation_pressure
 
@@ -99,7 +100,7 @@ def _water_properties_checked(t_c: float) -> FluidProperties:
         density_kg_m3=density,
         kinematic_viscosity_m2_s=viscosity / density,
         vapour_pressure_pa=vapour_pressure_pa,
-        description=f"water at {t_c:.1f} °C (IAPWS-IF97, IAPWS 2008)",
+        description=f"water at {fixed_decimals(t_c, 1)} °C (IAPWS-IF97, IAPWS 2008)",
     )
 
 
@@ -118,7 +119,7 @@ def _user_fluid_properties(fluid: UserFluid) -> FluidProperties:
         density_kg_m3=values["density_kg_m3"],
         kinematic_viscosity_m2_s=values["kinematic_viscosity_m2_s"],
         vapour_pressure_pa=values["vapour_pressure_pa"],
-        description=f"{name} at {temperature_c:.1f} °C (properties as given)",
+        description=f"{name} at {fixed_decimals(temperature_c, 1)} °C (properties as given)",
     )
 
 

@@ -21,7 +21,7 @@ Formulas (SI):
 from __future__ import annotations
 
 import math
-from dataclasses import asdict, dataclass
+from dataclasses import dataclass
 from typing import Sequence
 
 import numpy as np
@@ -31,7 +31,7 @@ from hydraulics.duty_point import DEFAULT_EXTENSION, solve_duty_points
 from hydraulics.model import Arrangement, ModelError
 from hydraulics.pump_arrangement import arrangement_performance
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import render_template
+from hydraulics.results import OperatingPoint
 
 __all__ = ["npsh_available", "OperatingPoint", "ScenarioGrid", "scenario_grid", "operating_points",
            "STATIC_CASES", "PIPE_STATES"]
@@ -81,60 +81,6 @@ def npsh_available(atmospheric_pressure_pa, vapour_pressure_pa, density_kg_m3, s
              + (np.asarray(suction_level_m, dtype=float) - np.asarray(pump_datum_m, dtype=float))
              - np.asarray(suction_loss_m, dtype=float))
     return float(value) if value.ndim == 0 else value
-
-
-@dataclass(frozen=True)
-class OperatingPoint:
-    """One scenario's operating point (SI; ``None`` where unknown or not found).
-
-    ``found`` False means no intersection; ``reason`` says why.  A found point may be
-    ``extrapolated`` (on the fitted curve beyond the tested flows); ``reason`` then
-    describes the extrapolation.  Powers: ``shaft_power_w`` per pump,
-    ``shaft_power_total_w`` for all pumps running (and stages), ``input_power_w`` drawn
-    from the supply by all of them.
-    """
-
-    static: str
-    pipe: str
-    pumps_running: int
-    speed_ratio: float
-    trim_ratio: float
-    series_stages: int
-    static_head_m: float
-    found: bool
-    reason: str | None
-    extrapolated: bool
-    flow_m3_s: float | None
-    flow_per_pump_m3_s: float | None
-    head_m: float | None
-    efficiency: float | None
-    hydraulic_power_w: float | None
-    shaft_power_w: float | None
-    shaft_power_total_w: float | None
-    input_power_w: float | None
-    specific_energy_kwh_m3: float | None
-    bep_flow_ratio: float | None
-    npsh_available_m: float | None
-    npsh_required_m: float | None
-    npsh_margin_m: float | None
-    npsh_margin_ratio: float | None
-    segment_velocities_m_s: tuple[float, ...]
-    reason_template: str | None = None
-    """``reason`` with ``{name}`` placeholders for its quoted heads (``None``: plain text)."""
-    reason_values: tuple[tuple[str, float, str], ...] = ()
-    """``(name, value_si, quantity)`` for the placeholders of ``reason_template``."""
-
-    def reason_text(self, unit_system: str = "SI") -> str | None:
-        """``reason`` with its quoted values in ``unit_system`` ("SI" or "US")."""
-        if self.reason_template is None:
-            return self.reason
-        return render_template(self.reason_template, self.reason_values, unit_system)
-
-    def to_json_dict(self) -> dict:
-        data = asdict(self)
-        data["segment_velocities_m_s"] = list(self.segment_velocities_m_s)
-        del data["reason_template"], data["reason_values"]  # ``reason`` carries the SI text
-        return data
 
 
 @dataclass(frozen=True, eq=False)
@@ -263,13 +209,14 @@ def operating_points(system, fitted: FittedPump, arrangement: Arrangement, npsh_
     templates = duty.reason_templates or (None,) * grid.size
     points = []
     for i in range(grid.size):
+        template = templates[i]
         points.append(OperatingPoint(
             static=grid.static[i], pipe=grid.pipe[i], pumps_running=pumps[i], speed_ratio=speed_list[i],
             trim_ratio=trim, series_stages=stages, static_head_m=statics[i],
             found=found_list[i], reason=duty.reasons[i], extrapolated=extrapolated[i],
             segment_velocities_m_s=tuple(velocities[i]) if found_list[i] else (),
-            reason_template=templates[i][0] if templates[i] else None,
-            reason_values=templates[i][1] if templates[i] else (),
+            reason_template=None if template is None else template[0],
+            reason_values=() if template is None else template[1],
             **{key: values[i] for key, values in cols.items()},
         ))
     return tuple(points)

@@ -30,12 +30,12 @@ that broadcast against each other (one value per scenario).
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 import numpy as np
 
 from hydraulics.pump_fit import FittedPump
+from hydraulics.results import PumpCurve
 
 __all__ = [
     "rated_equivalent_flow",
@@ -136,47 +136,6 @@ def arrangement_flow_range(fitted: FittedPump, pumps_in_parallel=1, speed_ratio=
     n, s, t = _arrays(pumps_in_parallel, speed_ratio, trim_ratio)
     scale = n * s * t
     return scale * fitted.flow_min_m3_s, scale * fitted.flow_max_m3_s
-
-
-@dataclass(frozen=True, eq=False)
-class PumpCurve:
-    """The curve of ``pumps_running`` identical pumps at one speed, for plotting.
-
-    All arrays follow ``flow_m3_s`` (station flow, over the data range of the pumps).
-    ``shaft_power_w`` is per pump; ``efficiency``, ``shaft_power_w``, ``npsh_required_m``
-    are ``None`` without data.  The preferred-region bounds and the best-efficiency flow
-    are station flows (per-pump value × pumps running) so they plot on the same axis;
-    ``None`` without efficiency data.
-    """
-
-    pumps_running: int
-    series_stages: int
-    speed_ratio: float
-    trim_ratio: float
-    flow_m3_s: np.ndarray
-    flow_per_pump_m3_s: np.ndarray
-    head_m: np.ndarray
-    efficiency: np.ndarray | None
-    shaft_power_w: np.ndarray | None
-    npsh_required_m: np.ndarray | None
-    bep_flow_m3_s: float | None
-    preferred_flow_min_m3_s: float | None
-    preferred_flow_max_m3_s: float | None
-
-    def to_json_dict(self) -> dict:
-        def listed(a):  # NaN (undefined, e.g. derived power at shut-off) becomes None
-            return None if a is None else [v if math.isfinite(v) else None for v in np.asarray(a, float).tolist()]
-
-        return {
-            "pumps_running": self.pumps_running, "series_stages": self.series_stages,
-            "speed_ratio": self.speed_ratio, "trim_ratio": self.trim_ratio,
-            "flow_m3_s": listed(self.flow_m3_s), "flow_per_pump_m3_s": listed(self.flow_per_pump_m3_s),
-            "head_m": listed(self.head_m), "efficiency": listed(self.efficiency),
-            "shaft_power_w": listed(self.shaft_power_w), "npsh_required_m": listed(self.npsh_required_m),
-            "bep_flow_m3_s": self.bep_flow_m3_s,
-            "preferred_flow_min_m3_s": self.preferred_flow_min_m3_s,
-            "preferred_flow_max_m3_s": self.preferred_flow_max_m3_s,
-        }
 
 
 def arrangement_curve(fitted: FittedPump, pumps_running: int = 1, series_stages: int = 1,

@@ -3,19 +3,49 @@
 :func:`hydraulics.solve.solve` builds one :class:`Solution` from a
 :class:`~hydraulics.model.Project`.  The window, the command line and the reports only
 read these objects; none of them computes hydraulics.
+
+Every result type the window and the reports read is defined here (this module sits at
+the bottom of the engine: the computing modules import their result types from it) or,
+for the fitted pump, re-exported from :mod:`hydraulics.pump_fit`, which needs no result
+type of its own.  Arrays are float64 and read-only where the solve says so.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
-from typing import Literal
+import math
+from dataclasses import asdict, dataclass
+from typing import TYPE_CHECKING, Any, Literal, TypeAlias
 
 import numpy as np
+from numpy.typing import NDArray
 
 from hydraulics.model import PipeState, Project, StaticCase
 
+if TYPE_CHECKING:  # re-exported lazily (see __getattr__): fitting imports the optimiser
+    from hydraulics.pump_fit import FitQuality, FittedPump
+
+__all__ = [
+    "FloatArray", "Severity", "Regime", "QuotedValue", "ScenarioKey", "FindingTarget",
+    "FluidProperties", "SystemCurve", "SegmentResult", "Finding", "render_template", "finding",
+    "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
+    "SpeedForFlow", "VariableSpeedResult", "ScenarioEnergy", "EnergyResult", "Solution",
+]
+
+FloatArray: TypeAlias = NDArray[np.float64]
+"""A float64 numpy array (SI values)."""
+
 Severity = Literal["info", "warning", "critical"]
 Regime = Literal["none", "laminar", "transition", "turbulent"]
+
+QuotedValue: TypeAlias = tuple[str, float, str]
+"""``(placeholder name, value in SI, quantity)`` of one value quoted in a message."""
+
+ScenarioKey: TypeAlias = tuple[str, str, int, float]
+"""``(static, pipe, pumps_running, speed_ratio)``: one operating scenario."""
+
+FindingTarget: TypeAlias = tuple[str, int] | tuple[str, str] | tuple[str, ScenarioKey]
+"""What a finding is about: ``("segment", index)``, ``("pump", pump_id)``, ``("site", field)``
+or ``("scenario", ScenarioKey)``."""
 
 
 @dataclass(frozen=True)
@@ -38,11 +68,11 @@ class SystemCurve:
 
     static: StaticCase
     pipe: PipeState
-    flow_m3_s: np.ndarray
-    head_m: np.ndarray
-    static_m: np.ndarray
-    friction_m: np.ndarray
-    minor_m: np.ndarray
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+    static_m: FloatArray
+    friction_m: FloatArray
+    minor_m: FloatArray
 
 
 @dataclass(frozen=True)
@@ -86,9 +116,9 @@ class Finding:
     message: str
     where: str
     remedy: str = ""
-    target: tuple[str, object] | None = None
+    target: FindingTarget | None = None
     template: str = ""
-    values: tuple[tuple[str, float, str], ...] = ()
+    values: tuple[QuotedValue, ...] = ()
 
     def text(self, unit_system: str = "SI") -> str:
         """The message with every quoted value in ``unit_system`` ("SI" or "US")."""
@@ -97,7 +127,7 @@ class Finding:
         return render_template(self.template, self.values, unit_system)
 
 
-def render_template(template: str, values, unit_system: str) -> str:
+def render_template(template: str, values: tuple[QuotedValue, ...], unit_system: str) -> str:
     """Fill ``{name}`` placeholders with values formatted in ``unit_system``."""
     from hydraulics.units import format_quantity
 
@@ -105,7 +135,7 @@ def render_template(template: str, values, unit_system: str) -> str:
 
 
 def finding(severity: Severity, code: str, template: str, values: dict[str, tuple[float, str]], where: str,
-            remedy: str = "", target: tuple[str, object] | None = None) -> Finding:
+            remedy: str = "", target: FindingTarget | None = None) -> Finding:
     """A :class:`Finding` whose quoted values follow the display unit system.
 
     ``values`` maps each placeholder to ``(value_si, quantity)``.
@@ -126,12 +156,259 @@ SEVERITY_ORDER: dict[str, int] = {"critical": 0, "warning": 1, "info": 2}
 """Sort order of severities, most serious first."""
 
 
+@dataclass(frozen=True, eq=False)
+class PumpCurve:
+    """The curve of ``pumps_running`` identical pumps at one speed, for plotting.
+
+    All arrays follow ``flow_m3_s`` (station flow, over the data range of the pumps).
+    ``shaft_power_w`` is per pump; ``efficiency``, ``shaft_power_w``, ``npsh_required_m``
+    are ``None`` without data.  The preferred-region bounds and the best-efficiency flow
+    are station flows (per-pump value × pumps running) so they plot on the same axis;
+    ``None`` without efficiency data.
+    """
+
+    pumps_running: int
+    series_stages: int
+    speed_ratio: float
+    trim_ratio: float
+    flow_m3_s: FloatArray
+    flow_per_pump_m3_s: FloatArray
+    head_m: FloatArray
+    efficiency: FloatArray | None
+    shaft_power_w: FloatArray | None
+    npsh_required_m: FloatArray | None
+    bep_flow_m3_s: float | None
+    preferred_flow_min_m3_s: float | None
+    preferred_flow_max_m3_s: float | None
+
+    def to_json_dict(self) -> dict[str, Any]:
+        def listed(a: FloatArray | None) -> list[float | None] | None:
+            # NaN (undefined, e.g. derived power at shut-off) becomes None
+            return None if a is None else [v if math.isfinite(v) else None for v in np.asarray(a, float).tolist()]
+
+        return {
+            "pumps_running": self.pumps_running, "series_stages": self.series_stages,
+            "speed_ratio": self.speed_ratio, "trim_ratio": self.trim_ratio,
+            "flow_m3_s": listed(self.flow_m3_s), "flow_per_pump_m3_s": listed(self.flow_per_pump_m3_s),
+            "head_m": listed(self.head_m), "efficiency": listed(self.efficiency),
+            "shaft_power_w": listed(self.shaft_power_w), "npsh_required_m": listed(self.npsh_required_m),
+            "bep_flow_m3_s": self.bep_flow_m3_s,
+            "preferred_flow_min_m3_s": self.preferred_flow_min_m3_s,
+            "preferred_flow_max_m3_s": self.preferred_flow_max_m3_s,
+        }
+
+
+@dataclass(frozen=True)
+class OperatingPoint:
+    """One scenario's operating point (SI; ``None`` where unknown or not found).
+
+    ``found`` False means no intersection; ``reason`` says why.  A found point may be
+    ``extrapolated`` (on the fitted curve beyond the tested flows); ``reason`` then
+    describes the extrapolation.  Powers: ``shaft_power_w`` per pump,
+    ``shaft_power_total_w`` for all pumps running (and stages), ``input_power_w`` drawn
+    from the supply by all of them.
+    """
+
+    static: str
+    pipe: str
+    pumps_running: int
+    speed_ratio: float
+    trim_ratio: float
+    series_stages: int
+    static_head_m: float
+    found: bool
+    reason: str | None
+    extrapolated: bool
+    flow_m3_s: float | None
+    flow_per_pump_m3_s: float | None
+    head_m: float | None
+    efficiency: float | None
+    hydraulic_power_w: float | None
+    shaft_power_w: float | None
+    shaft_power_total_w: float | None
+    input_power_w: float | None
+    specific_energy_kwh_m3: float | None
+    bep_flow_ratio: float | None
+    npsh_available_m: float | None
+    npsh_required_m: float | None
+    npsh_margin_m: float | None
+    npsh_margin_ratio: float | None
+    segment_velocities_m_s: tuple[float, ...]
+    reason_template: str | None = None
+    """``reason`` with ``{name}`` placeholders for its quoted heads (``None``: plain text)."""
+    reason_values: tuple[QuotedValue, ...] = ()
+    """``(name, value_si, quantity)`` for the placeholders of ``reason_template``."""
+
+    def reason_text(self, unit_system: str = "SI") -> str | None:
+        """``reason`` with its quoted values in ``unit_system`` ("SI" or "US")."""
+        if self.reason_template is None:
+            return self.reason
+        return render_template(self.reason_template, self.reason_values, unit_system)
+
+    def to_json_dict(self) -> dict[str, Any]:
+        data = asdict(self)
+        data["segment_velocities_m_s"] = list(self.segment_velocities_m_s)
+        del data["reason_template"], data["reason_values"]  # ``reason`` carries the SI text
+        return data
+
+
+@dataclass(frozen=True, eq=False)
+class NpshCurve:
+    """NPSH available against station flow (new and aged pipe), and NPSH required.
+
+    ``required_flow_m3_s``/``required_m`` are those of one pump at the current speed
+    (the first pump curve), for comparison per pump.
+    """
+
+    flow_m3_s: FloatArray
+    available_new_m: FloatArray
+    available_aged_m: FloatArray
+    required_flow_m3_s: FloatArray
+    required_m: FloatArray | None
+
+
+@dataclass(frozen=True)
+class SpeedForFlow:
+    """The speed that delivers the target flow in one scenario (``None`` when not achievable).
+
+    ``limit`` is ``"max_speed"`` when the target needs more than the maximum speed ratio,
+    ``"min_speed"`` when even the minimum speed delivers more, else ``None``.
+    ``extrapolated`` is True when one pump's corresponding rated flow at that speed lies
+    outside the tested data.
+    """
+
+    static: str
+    pipe: str
+    pumps_running: int
+    target_flow_m3_s: float
+    system_head_m: float
+    achievable: bool
+    speed_ratio: float | None
+    limit: str | None
+    reason: str | None
+    extrapolated: bool
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {
+            "static": self.static, "pipe": self.pipe, "pumps_running": self.pumps_running,
+            "target_flow_m3_s": self.target_flow_m3_s, "system_head_m": self.system_head_m,
+            "achievable": self.achievable, "speed_ratio": self.speed_ratio, "limit": self.limit,
+            "reason": self.reason, "extrapolated": self.extrapolated,
+        }
+
+
+@dataclass(frozen=True)
+class VariableSpeedResult:
+    """Speeds for the target flow, the lowest lifting speed, and the points re-intersected there.
+
+    ``points`` are the operating points (every static × pipe × 1..N pumps) at each speed of
+    ``speeds_solved``; ``points_at_minimum_speed`` the same at the arrangement's minimum
+    speed ratio.
+    """
+
+    target_flow_m3_s: float
+    pumps_running: int
+    min_speed_ratio: float
+    max_speed_ratio: float
+    scenarios: tuple[SpeedForFlow, ...]
+    minimum_lift_speed_ratio: float | None
+    minimum_lift_reason: str | None
+    speeds_solved: tuple[float, ...]
+    points: tuple[OperatingPoint, ...]
+    points_at_minimum_speed: tuple[OperatingPoint, ...]
+
+    def scenario(self, static: str, pipe: str) -> SpeedForFlow:
+        """The result for one static extreme and pipe state."""
+        for item in self.scenarios:
+            if item.static == static and item.pipe == pipe:
+                return item
+        raise KeyError((static, pipe))
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {
+            "target_flow_m3_s": self.target_flow_m3_s,
+            "pumps_running": self.pumps_running,
+            "min_speed_ratio": self.min_speed_ratio,
+            "max_speed_ratio": self.max_speed_ratio,
+            "scenarios": [s.to_json_dict() for s in self.scenarios],
+            "minimum_lift_speed_ratio": self.minimum_lift_speed_ratio,
+            "minimum_lift_reason": self.minimum_lift_reason,
+            "speeds_solved": list(self.speeds_solved),
+            "points": [p.to_json_dict() for p in self.points],
+            "points_at_minimum_speed": [p.to_json_dict() for p in self.points_at_minimum_speed],
+        }
+
+
+@dataclass(frozen=True)
+class ScenarioEnergy:
+    """Annual energy if the station ran all year at one operating point."""
+
+    static: str
+    pipe: str
+    pumps_running: int
+    speed_ratio: float
+    flow_m3_s: float
+    head_m: float
+    input_power_w: float
+    specific_energy_kwh_m3: float
+    operating_hours_per_year: float
+    annual_volume_m3: float
+    annual_energy_kwh: float
+    annual_cost: float
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return dict(self.__dict__)
+
+
+@dataclass(frozen=True)
+class EnergyResult:
+    """Annual energy at both static extremes and their mean (``None`` where not computable)."""
+
+    basis: str | None
+    pipe: str
+    pumps_running: int | None
+    speed_ratio: float | None
+    tariff_per_kwh: float
+    currency: str
+    at_min_static: ScenarioEnergy | None
+    at_max_static: ScenarioEnergy | None
+    input_power_mean_w: float | None
+    specific_energy_mean_kwh_m3: float | None
+    annual_energy_mean_kwh: float | None
+    annual_cost_mean: float | None
+    notes: tuple[str, ...]
+
+    def to_json_dict(self) -> dict[str, Any]:
+        def part(item: ScenarioEnergy | None, key: str) -> float | None:
+            return None if item is None else getattr(item, key)
+
+        return {
+            "basis": self.basis,
+            "pipe": self.pipe,
+            "pumps_running": self.pumps_running,
+            "speed_ratio": self.speed_ratio,
+            "tariff_per_kwh": self.tariff_per_kwh,
+            "currency": self.currency,
+            "annual_energy_mean_kwh": self.annual_energy_mean_kwh,
+            "annual_cost_mean": self.annual_cost_mean,
+            "specific_energy_mean_kwh_m3": self.specific_energy_mean_kwh_m3,
+            "input_power_mean_w": self.input_power_mean_w,
+            "annual_energy_min_static_kwh": part(self.at_min_static, "annual_energy_kwh"),
+            "annual_energy_max_static_kwh": part(self.at_max_static, "annual_energy_kwh"),
+            "specific_energy_min_static_kwh_m3": part(self.at_min_static, "specific_energy_kwh_m3"),
+            "specific_energy_max_static_kwh_m3": part(self.at_max_static, "specific_energy_kwh_m3"),
+            "scenarios": [s.to_json_dict() for s in (self.at_min_static, self.at_max_static) if s is not None],
+            "notes": list(self.notes),
+        }
+
+
 @dataclass(frozen=True)
 class Solution:
     """Everything the engine computed for a project.
 
-    Pump-related parts (``pump_fits``, ``operating_points``, ``variable_speed``,
-    ``energy``, ``pump_curves``) are empty/``None`` when the project has no pump.
+    Pump-related parts are empty tuples (``pump_fits``, ``operating_points``,
+    ``pump_curves``) or ``None`` (``variable_speed``, ``energy``,
+    ``npsh_available_curve``) when the project has no pump.
 
     ``complete`` is False for the first stage of a solve
     (:func:`hydraulics.solve.solve_curves`): curves, pump curves, operating points, NPSH
@@ -148,13 +425,12 @@ class Solution:
     curves: tuple[SystemCurve, ...]
     segments: tuple[SegmentResult, ...]
     findings: tuple[Finding, ...] = ()
-    pump_fits: tuple = ()
-    operating_points: tuple = ()
-    variable_speed: object | None = None
-    energy: object | None = None
-    pump_curves: tuple = ()
-    npsh_available_curve: object | None = None
-    extras: dict = field(default_factory=dict)
+    pump_fits: tuple[FittedPump, ...] = ()
+    operating_points: tuple[OperatingPoint, ...] = ()
+    variable_speed: VariableSpeedResult | None = None
+    energy: EnergyResult | None = None
+    pump_curves: tuple[PumpCurve, ...] = ()
+    npsh_available_curve: NpshCurve | None = None
     complete: bool = True
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
@@ -163,3 +439,15 @@ class Solution:
             if c.static == static and c.pipe == pipe:
                 return c
         raise KeyError((static, pipe))
+
+
+_FROM_PUMP_FIT = frozenset({"FitQuality", "FittedPump"})
+
+
+def __getattr__(name: str) -> Any:
+    """The fitted-pump types, imported on first use so that loading the results stays light."""
+    if name in _FROM_PUMP_FIT:
+        from hydraulics import pump_fit
+
+        return getattr(pump_fit, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

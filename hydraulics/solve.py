@@ -14,6 +14,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 from functools import lru_cache
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -21,10 +22,13 @@ from hydraulics import checks
 from hydraulics.atmosphere import standard_atmosphere_pressure
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.fluid import fluid_properties
-from hydraulics.model import Project
-from hydraulics.results import Solution
-from hydraulics.system_curve import flow_grid, prepare_system, segment_results, system_curves
+from hydraulics.model import Project, PumpModel
+from hydraulics.results import FloatArray, FluidProperties, NpshCurve, PumpCurve, Solution
+from hydraulics.system_curve import SystemHydraulics, flow_grid, prepare_system, segment_results, system_curves
 from hydraulics.validation import validate_project
+
+if TYPE_CHECKING:
+    from hydraulics.pump_fit import FittedPump
 
 DEFAULT_FLOW_POINTS = 256
 
@@ -37,7 +41,7 @@ def atmospheric_pressure(project: Project) -> float:
     return float(standard_atmosphere_pressure(site.altitude_m))
 
 
-def npsh_static_head(project: Project, atmospheric_pa: float, fluid) -> float:
+def npsh_static_head(project: Project, atmospheric_pa: float, fluid: FluidProperties) -> float:
     """The flow-independent part of NPSH available at the lowest suction level (m).
 
     (p_atm − p_v)/(ρ g) + (lowest suction level − pump datum); the suction losses at each
@@ -66,8 +70,8 @@ class CurvesStage:
     """
 
     solution: Solution
-    system: object
-    fitted: object | None
+    system: SystemHydraulics
+    fitted: FittedPump | None
     npsh_static_m: float | None
 
 
@@ -87,31 +91,31 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     design_flow = project.site.design_flow_m3_s
     at_design = segment_results(system, design_flow)
     max_flow = project.flow_grid_max_factor * design_flow
-    common = dict(
+    base = Solution(
         project=project, fluid=fluid, atmospheric_pressure_pa=p_atm,
         static_head_min_m=system.static_head_m["min"], static_head_max_m=system.static_head_m["max"],
-        design_flow_m3_s=design_flow, segments=at_design, complete=False,
+        design_flow_m3_s=design_flow, curves=(), segments=at_design, complete=False,
     )
-    if project.duty_pump is None:
+    pump, arrangement = project.duty_pump, project.arrangement
+    if pump is None or arrangement is None:
         curves = system_curves(system, flow_grid(max_flow, n_flow_points))
-        return CurvesStage(Solution(curves=curves, **common), system, None, None)
+        return CurvesStage(replace(base, curves=curves), system, None, None)
 
     from hydraulics.energy import annual_energy
     from hydraulics.operating_points import operating_points
 
-    arrangement = project.arrangement
-    fitted = _cached_fit(project.duty_pump, fluid.density_kg_m3)
+    fitted = _cached_fit(pump, fluid.density_kg_m3)
     npsh_static = npsh_static_head(project, p_atm, fluid)
     points = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3)
-    pump_curves = _cached_pump_curves(project.duty_pump, fluid.density_kg_m3, arrangement.duty_count,
+    pump_curves = _cached_pump_curves(pump, fluid.density_kg_m3, arrangement.duty_count,
                                       arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
                                       (project.criteria.preferred_region_low, project.criteria.preferred_region_high))
     curve_max = max(float(np.max(c.flow_m3_s)) for c in pump_curves)
     flows = flow_grid(max(max_flow, 1.05 * curve_max), n_flow_points)
-    solution = Solution(
-        curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
+    solution = replace(
+        base, curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
         energy=annual_energy(points, project.energy, design_flow), pump_curves=pump_curves,
-        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows), **common,
+        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows),
     )
     return CurvesStage(solution, system, fitted, npsh_static)
 
@@ -128,14 +132,14 @@ def complete_solution(stage: CurvesStage) -> Solution:
     at_design = first.segments
     findings = checks.regime_findings(at_design)
     findings += checks.profile_findings(project, system.static_head_m["min"])
-    if stage.fitted is None:
+    arrangement, fitted, points = project.arrangement, stage.fitted, first.operating_points
+    if fitted is None or arrangement is None:
         findings += checks.velocity_findings(project, at_design)
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
     from hydraulics.operating_points import operating_points
     from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
 
-    arrangement, fitted, points = project.arrangement, stage.fitted, first.operating_points
     search = search_speeds(system, fitted, arrangement, project.site.design_flow_m3_s)
     other_speeds = tuple(s for s in dict.fromkeys(search.speeds_to_intersect) if s != float(arrangement.speed_ratio))
     at_speeds = points
@@ -144,9 +148,9 @@ def complete_solution(stage: CurvesStage) -> Solution:
                                       speed_ratios=other_speeds)
     speed = variable_speed_points(search, at_speeds)
 
-    found = [p for p in points if p.found]
-    lowest = segment_results(system, min(p.flow_m3_s for p in found)) if found else None
-    highest = segment_results(system, max(p.flow_m3_s for p in found)) if found else None
+    found_flows = [p.flow_m3_s for p in points if p.found and p.flow_m3_s is not None]
+    lowest = segment_results(system, min(found_flows)) if found_flows else None
+    highest = segment_results(system, max(found_flows)) if found_flows else None
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
     findings += checks.pump_findings(project, fitted, points, system.static_head_m["max"])
     findings += variable_speed_findings(speed, fitted)
@@ -154,7 +158,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
 
 
 @lru_cache(maxsize=16)
-def _cached_fit(pump, density_kg_m3: float):
+def _cached_fit(pump: PumpModel, density_kg_m3: float) -> FittedPump:
     """The fitted pump, reused while the pump data and fluid are unchanged.
 
     The model is immutable and hashable, so an edit of the pipework (the common case in
@@ -166,8 +170,9 @@ def _cached_fit(pump, density_kg_m3: float):
 
 
 @lru_cache(maxsize=16)
-def _cached_pump_curves(pump, density_kg_m3: float, duty_count: int, series_stages: int, speed_ratio: float,
-                        trim_ratio: float, preferred_region: tuple[float, float]) -> tuple:
+def _cached_pump_curves(pump: PumpModel, density_kg_m3: float, duty_count: int, series_stages: int,
+                        speed_ratio: float, trim_ratio: float,
+                        preferred_region: tuple[float, float]) -> tuple[PumpCurve, ...]:
     """The curves of 1..``duty_count`` pumps running, reused while the pump set is unchanged.
 
     They depend on the pump, the fluid density and the arrangement only, not on the
@@ -188,22 +193,8 @@ def _cached_pump_curves(pump, density_kg_m3: float, duty_count: int, series_stag
     return curves
 
 
-@dataclass(frozen=True, eq=False)
-class NpshCurve:
-    """NPSH available against station flow (new and aged pipe), and NPSH required.
-
-    ``required_flow_m3_s``/``required_m`` are those of one pump at the current speed
-    (the first pump curve), for comparison per pump.
-    """
-
-    flow_m3_s: np.ndarray
-    available_new_m: np.ndarray
-    available_aged_m: np.ndarray
-    required_flow_m3_s: np.ndarray
-    required_m: np.ndarray | None
-
-
-def _npsh_curve(system, npsh_static_m: float, first_curve, flows) -> NpshCurve:
+def _npsh_curve(system: SystemHydraulics, npsh_static_m: float, first_curve: PumpCurve,
+                flows: FloatArray) -> NpshCurve:
     """NPSH available over ``flows`` (static part less the suction losses) beside NPSH required."""
     return NpshCurve(
         flow_m3_s=flows,

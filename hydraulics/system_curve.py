@@ -109,28 +109,6 @@ class SystemHydraulics:
         area = np.pi * self.diameter_m**2 / 4.0
         return q / (self.parallel_pipes * area)
 
-    def segment_losses(self, flow_m3_s, aged) -> tuple[np.ndarray, np.ndarray]:
-        """Friction and minor losses per segment, each of shape ``S + (n_segments,)``.
-
-        ``aged`` is a boolean (or boolean array broadcasting against the flows) choosing
-        the aged pipe properties.
-        """
-        q = np.asarray(flow_m3_s, dtype=float)
-        aged = np.asarray(aged, dtype=bool)
-        q, aged = np.broadcast_arrays(q, aged)
-        q = q[..., None]
-        aged = aged[..., None]
-        if self.method == "hazen_williams":
-            c = np.where(aged, self.hw_c_aged, self.hw_c_new)
-            result = friction.hazen_williams(q, self.diameter_m, self.length_m, c, self.parallel_pipes,
-                                             kinematic_viscosity_m2_s=self.kinematic_viscosity_m2_s)
-        else:
-            eps = np.where(aged, self.roughness_aged_m, self.roughness_new_m)
-            result = friction.darcy_weisbach(
-                q, self.diameter_m, self.length_m, eps, self.kinematic_viscosity_m2_s, self.parallel_pipes
-            )
-        return result.head_loss_m, fittings.minor_loss(self.k_total, result.velocity_m_s)
-
     def segment_friction(self, flow_m3_s, aged) -> friction.PipeFriction:
         """Velocity, Reynolds number, friction factor and friction loss per segment."""
         q = np.asarray(flow_m3_s, dtype=float)[..., None]

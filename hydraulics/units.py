@@ -12,7 +12,8 @@ shows and accepts, each with its published definition.
   from the display unit of a unit system ("SI" or "US") with precomputed factors, so
   they cost a multiplication, not a pint call.
 * :func:`unit_label` gives our own short label of a display unit (``"L/s"``, ``"m³/h"``,
-  ``"gpm"``) and :func:`format_quantity` a finished string such as ``"35.0 L/s"``.
+  ``"gpm"``) and :func:`format_quantity` a finished string such as ``"35.0 L/s"`` (the
+  number formatted by :func:`hydraulics.number_format.significant_figures`).
 
 Conventions kept throughout:
 
@@ -40,6 +41,8 @@ from typing import Final, overload
 import numpy as np
 import pint
 
+from hydraulics.number_format import significant_figures
+
 __all__ = [
     "ureg",
     "Q_",
@@ -55,7 +58,6 @@ __all__ = [
     "convert_to_si",
     "convert_from_si",
     "format_quantity",
-    "format_number",
 ]
 
 # --------------------------------------------------------------------------- registry
@@ -579,27 +581,6 @@ def parse_quantity(text: str, quantity: str, default_unit: str | None = None, fi
 
 
 # --------------------------------------------------------------------------- formatting
-def format_number(value: float, digits: int = 3) -> str:
-    """Format ``value`` with ``digits`` significant figures for display.
-
-    Whole-number parts are never cut (12345 stays 12345); very small or very large
-    magnitudes use scientific notation; NaN shows as an em dash.
-
-    >>> format_number(35.0), format_number(0.0456), format_number(12345.6), format_number(1.08e-5)
-    ('35.0', '0.0456', '12346', '1.08e-05')
-    """
-    if not math.isfinite(value):
-        return "—" if math.isnan(value) else ("∞" if value > 0 else "−∞")
-    if value == 0.0:
-        return "0"
-    magnitude = abs(value)
-    if magnitude < 1e-3 or magnitude >= 1e9:
-        return f"{value:.{max(digits - 1, 0)}e}"
-    decimals = max(digits - 1 - math.floor(math.log10(magnitude)), 0)
-    text = f"{value:.{decimals}f}"
-    return "0" if float(text) == 0.0 else text
-
-
 def format_quantity(value_si: float, quantity: str, system: str, digits: int = 3) -> str:
     """A stored value as display text in ``system``, e.g. ``"35.0 L/s"``.
 
@@ -610,6 +591,6 @@ def format_quantity(value_si: float, quantity: str, system: str, digits: int = 3
     >>> format_quantity(0.82, "ratio_percent", "SI")
     '82.0 %'
     """
-    text = format_number(to_display(float(value_si), quantity, system), digits)
+    text = significant_figures(to_display(float(value_si), quantity, system), digits)
     label = unit_label(quantity, system)
     return f"{text} {label}" if label else text

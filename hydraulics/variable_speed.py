@@ -30,10 +30,11 @@ import numpy as np
 
 from hydraulics.duty_point import bracketed_roots
 from hydraulics.model import Arrangement, ModelError
-from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, OperatingPoint, operating_points
+from hydraulics.number_format import percent_number
+from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, operating_points
 from hydraulics.pump_arrangement import arrangement_head, rated_equivalent_flow
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import Finding, finding
+from hydraulics.results import Finding, OperatingPoint, SpeedForFlow, VariableSpeedResult, finding
 
 __all__ = ["SpeedForFlow", "VariableSpeedResult", "SpeedSearch", "search_speeds", "variable_speed_points",
            "variable_speed", "variable_speed_findings",
@@ -44,78 +45,6 @@ SPEED_HEAD_TOLERANCE_M = 1e-10
 
 LIMITED_BY_MAX = "max_speed"
 LIMITED_BY_MIN = "min_speed"
-
-
-@dataclass(frozen=True)
-class SpeedForFlow:
-    """The speed that delivers the target flow in one scenario (``None`` when not achievable).
-
-    ``limit`` is ``"max_speed"`` when the target needs more than the maximum speed ratio,
-    ``"min_speed"`` when even the minimum speed delivers more, else ``None``.
-    ``extrapolated`` is True when one pump's corresponding rated flow at that speed lies
-    outside the tested data.
-    """
-
-    static: str
-    pipe: str
-    pumps_running: int
-    target_flow_m3_s: float
-    system_head_m: float
-    achievable: bool
-    speed_ratio: float | None
-    limit: str | None
-    reason: str | None
-    extrapolated: bool
-
-    def to_json_dict(self) -> dict:
-        return {
-            "static": self.static, "pipe": self.pipe, "pumps_running": self.pumps_running,
-            "target_flow_m3_s": self.target_flow_m3_s, "system_head_m": self.system_head_m,
-            "achievable": self.achievable, "speed_ratio": self.speed_ratio, "limit": self.limit,
-            "reason": self.reason, "extrapolated": self.extrapolated,
-        }
-
-
-@dataclass(frozen=True)
-class VariableSpeedResult:
-    """Speeds for the target flow, the lowest lifting speed, and the points re-intersected there.
-
-    ``points`` are the operating points (every static × pipe × 1..N pumps) at each speed of
-    ``speeds_solved``; ``points_at_minimum_speed`` the same at the arrangement's minimum
-    speed ratio.
-    """
-
-    target_flow_m3_s: float
-    pumps_running: int
-    min_speed_ratio: float
-    max_speed_ratio: float
-    scenarios: tuple[SpeedForFlow, ...]
-    minimum_lift_speed_ratio: float | None
-    minimum_lift_reason: str | None
-    speeds_solved: tuple[float, ...]
-    points: tuple[OperatingPoint, ...]
-    points_at_minimum_speed: tuple[OperatingPoint, ...]
-
-    def scenario(self, static: str, pipe: str) -> SpeedForFlow:
-        """The result for one static extreme and pipe state."""
-        for item in self.scenarios:
-            if item.static == static and item.pipe == pipe:
-                return item
-        raise KeyError((static, pipe))
-
-    def to_json_dict(self) -> dict:
-        return {
-            "target_flow_m3_s": self.target_flow_m3_s,
-            "pumps_running": self.pumps_running,
-            "min_speed_ratio": self.min_speed_ratio,
-            "max_speed_ratio": self.max_speed_ratio,
-            "scenarios": [s.to_json_dict() for s in self.scenarios],
-            "minimum_lift_speed_ratio": self.minimum_lift_speed_ratio,
-            "minimum_lift_reason": self.minimum_lift_reason,
-            "speeds_solved": list(self.speeds_solved),
-            "points": [p.to_json_dict() for p in self.points],
-            "points_at_minimum_speed": [p.to_json_dict() for p in self.points_at_minimum_speed],
-        }
 
 
 def minimum_lift_speed_ratio(shutoff_head_m: float, static_head_max_m: float, series_stages: int = 1,
@@ -201,10 +130,10 @@ def search_speeds(system, fitted: FittedPump, arrangement: Arrangement, target_f
         elif too_little[i]:
             limit = LIMITED_BY_MAX
             reason = (f"the duty pumps cannot deliver the target flow even at the maximum speed ratio "
-                      f"{s_hi * 100:.0f} %")
+                      f"{percent_number(s_hi)} %")
         elif too_much[i]:
             limit = LIMITED_BY_MIN
-            reason = (f"even at the minimum speed ratio {s_lo * 100:.0f} % the duty pumps deliver more than "
+            reason = (f"even at the minimum speed ratio {percent_number(s_lo)} % the duty pumps deliver more than "
                       "the target flow")
         else:
             limit, reason = None, "no speed found (the pump head does not vary steadily with speed)"
@@ -292,26 +221,26 @@ def variable_speed_findings(result: VariableSpeedResult, fitted: FittedPump) -> 
             out.append(finding(
                 "warning", "speed_target_unreachable",
                 f"With {item.pumps_running} duty pump(s) the target flow {{q}} needs more than the "
-                f"maximum speed ratio {result.max_speed_ratio * 100:.0f} % at {label}.", target_flow,
+                f"maximum speed ratio {percent_number(result.max_speed_ratio)} % at {label}.", target_flow,
                 f"{where}, {label}", "Choose a larger pump, more duty pumps or a higher maximum speed.", target))
         elif item.limit == LIMITED_BY_MIN:
             out.append(finding(
                 "info", "speed_below_minimum",
-                f"At {label} even the minimum speed ratio {result.min_speed_ratio * 100:.0f} % delivers more than "
-                "the target flow {q}.", target_flow,
+                f"At {label} even the minimum speed ratio {percent_number(result.min_speed_ratio)} % "
+                "delivers more than the target flow {q}.", target_flow,
                 f"{where}, {label}", "Lower the minimum speed if the pump allows it, or accept the higher flow.",
                 target))
         elif item.achievable and item.extrapolated:
             out.append(Finding(
                 "warning", "speed_extrapolated",
-                f"At {label} the speed ratio {item.speed_ratio * 100:.1f} % puts each pump outside its tested "
+                f"At {label} the speed ratio {percent_number(item.speed_ratio, 1)} % puts each pump outside its tested "
                 "flow range; the fitted curve is extrapolated.",
                 f"{where}, {label}", "Obtain pump data covering this flow, or change the selection.", target))
     s_lift = result.minimum_lift_speed_ratio
     if s_lift is not None and result.min_speed_ratio < s_lift:
         out.append(Finding(
             "warning", "minimum_speed_cannot_lift",
-            f"At the minimum speed ratio {result.min_speed_ratio * 100:.0f} % the shut-off head is below the "
-            f"maximum static head; the pumps need at least {s_lift * 100:.1f} % to deliver at all.",
-            where, f"Set the minimum speed above {s_lift * 100:.0f} % with a margin for a stable flow.", target))
+            f"At the minimum speed ratio {percent_number(result.min_speed_ratio)} % the shut-off head is below the "
+            f"maximum static head; the pumps need at least {percent_number(s_lift, 1)} % to deliver at all.",
+            where, f"Set the minimum speed above {percent_number(s_lift)} % with a margin for a stable flow.", target))
     return out

@@ -28,6 +28,7 @@ from app.table_models.segments import SegmentsModel
 from hydraulics import catalogue, fittings
 from hydraulics.model import ModelError
 from hydraulics.project_edits import stepped_segment, with_segment
+from hydraulics.number_format import general_number
 
 
 class SizeStepper(QAbstractSpinBox):
@@ -189,7 +190,7 @@ class PipeworkPanel(QWidget):
         self._refresh_size_label()
         try:
             total = fittings.segment_k_total(segment.fittings, segment.internal_diameter_m)
-            self.k_total_label.setText(f"Total K of this segment: {total:.3g}")
+            self.k_total_label.setText(f"Total K of this segment: {general_number(total, 3)}")
         except ModelError as exc:
             self.k_total_label.setText(f"Total K: — ({exc.problem})")
 

@@ -30,10 +30,6 @@ from hydraulics.model import Project, PumpModel
 from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
 
 
-def _pump(project: Project) -> PumpModel | None:
-    return project.duty_pump
-
-
 def _has_pump(project: Project) -> bool:
     return project.duty_pump is not None
 

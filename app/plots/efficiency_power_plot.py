@@ -8,8 +8,6 @@ each of those pumps runs.  The preferred operating region is shaded in both.
 
 from __future__ import annotations
 
-from typing import Any
-
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
@@ -32,8 +30,9 @@ from app.plots.plot_base import (
     point_spots,
     set_axis_title,
 )
-from app.results import solution_reading as read
-from app.results.formatting import format_number
+from app.results import scenarios
+from hydraulics.number_format import readout_number
+from hydraulics.results import FloatArray, OperatingPoint, PumpCurve, Solution
 from hydraulics.units import to_display, unit_label
 
 IDLE_READOUT = "Point at a plot to read flow per pump and efficiency or shaft power."
@@ -45,7 +44,7 @@ class EfficiencyPowerPlot(QWidget):
 
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent)
-        self._solution: Any = None
+        self._solution: Solution | None = None
         self._unit_system = "SI"
         self.readout = make_readout_label(self)
         self.canvas = make_canvas()
@@ -99,11 +98,11 @@ class EfficiencyPowerPlot(QWidget):
 
     # ------------------------------------------------------------------ public API
     @property
-    def drawn_solution(self) -> Any:
+    def drawn_solution(self) -> Solution | None:
         """The solution drawn now (a first-stage one until the finished solve arrives)."""
         return self._solution
 
-    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+    def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plots) in ``unit_system``."""
         if completes_drawn(self._solution, self._unit_system, solution, unit_system):
             self._solution = solution  # the finished solve of what is drawn: nothing to redraw
@@ -111,14 +110,11 @@ class EfficiencyPowerPlot(QWidget):
         self._solution = solution
         self._unit_system = unit_system
         self._apply_titles()
-        curve = read.single_pump_curve(solution)
-        pumps = int(read.field(curve, "pumps_running", 1) or 1) if curve is not None else 1
-        per_pump_flow = read.as_array(read.field(curve, "flow_per_pump_m3_s"))
-        if per_pump_flow is None:
-            flow = read.as_array(read.field(curve, "flow_m3_s"))
-            per_pump_flow = None if flow is None else flow / pumps
-        efficiency = read.as_array(read.field(curve, "efficiency"))
-        power = read.as_array(read.field(curve, "shaft_power_w"))
+        curve = None if solution is None else scenarios.single_pump_curve(solution)
+        pumps = 1 if curve is None else curve.pumps_running
+        per_pump_flow = None if curve is None else curve.flow_per_pump_m3_s
+        efficiency = None if curve is None else curve.efficiency
+        power = None if curve is None else curve.shaft_power_w
         self._set_curve(self.efficiency_curve, per_pump_flow, None if efficiency is None else efficiency * 100.0,
                         quantity=None)
         self._set_curve(self.power_curve, per_pump_flow, power, quantity="power")
@@ -127,13 +123,14 @@ class EfficiencyPowerPlot(QWidget):
         self.power_plot.setTitle(None if self.power_curve.isVisible()
                                  else "No shaft-power data for this pump", color=style.GREY)
 
-        points = read.found_points(read.operating_points(solution, current_speed_only=True))
-        self._pump_counts = sorted({int(read.field(p, "pumps_running", 1) or 1) for p in points})
+        points = ([] if solution is None
+                  else scenarios.found_points(scenarios.ordered_points(solution, current_speed_only=True)))
+        self._pump_counts = sorted({p.pumps_running for p in points})
         x_of = self._point_flow
         self.efficiency_points.setData(point_spots(
-            points, x_of, lambda p: _times(read.finite_float(read.field(p, "efficiency")), 100.0), self._tip))
+            points, x_of, lambda p: _times(p.efficiency, 100.0), scenarios.point_label))
         self.power_points.setData(point_spots(
-            points, x_of, lambda p: self._power(read.finite_float(read.field(p, "shaft_power_w"))), self._tip))
+            points, x_of, lambda p: self._power(p.shaft_power_w), scenarios.point_label))
         self._update_preferred(curve, pumps)
         self._update_bep(curve, pumps)
         self._follow_data()
@@ -167,18 +164,16 @@ class EfficiencyPowerPlot(QWidget):
         return float(x[0]), float(x[-1])
 
     # ------------------------------------------------------------------ drawing
-    def _power(self, value):
+    def _power(self, value: float | None) -> float | None:
         return None if value is None else to_display(value, "power", self._unit_system)
 
-    def _point_flow(self, point: Any) -> float | None:
-        value = read.finite_float(read.field(point, "flow_per_pump_m3_s"))
+    def _point_flow(self, point: OperatingPoint) -> float | None:
+        value = point.flow_per_pump_m3_s
         return None if value is None else to_display(value, "flow", self._unit_system)
 
-    def _tip(self, point: Any) -> str:
-        return read.point_label(point)
-
-    def _set_curve(self, item: pg.PlotDataItem, flow, values, quantity: str | None) -> None:
-        if flow is None or values is None or flow.size != values.size:
+    def _set_curve(self, item: pg.PlotDataItem, flow: FloatArray | None, values: FloatArray | None,
+                   quantity: str | None) -> None:
+        if flow is None or values is None or not flow.size or flow.size != values.size:
             item.setData(empty_array(), empty_array())
             item.setVisible(False)
             return
@@ -186,12 +181,12 @@ class EfficiencyPowerPlot(QWidget):
         item.setData(to_display(flow, "flow", self._unit_system), y)
         item.setVisible(True)
 
-    def _update_preferred(self, curve: Any, pumps: int) -> None:
-        bounds = read.preferred_flow_bounds(curve) if curve is not None else None
-        percent = read.preferred_region_percent(self._solution)
+    def _update_preferred(self, curve: PumpCurve | None, pumps: int) -> None:
+        bounds = scenarios.preferred_flow_bounds(curve) if curve is not None else None
         name = "Preferred operating region"
-        if percent is not None:
-            name += f" ({percent[0]:.0f}–{percent[1]:.0f} % of BEP flow)"
+        if self._solution is not None:
+            low, high = scenarios.preferred_region_percent(self._solution)
+            name += f" ({low:.0f}–{high:.0f} % of BEP flow)"
         for index, band in enumerate(self._preferred):
             band.opts["name"] = name if index == 0 else None
             if bounds is None:
@@ -202,15 +197,15 @@ class EfficiencyPowerPlot(QWidget):
             band.setData(np.array([low, high]), np.array([1.0, 1.0]))  # height set in _follow_data
             band.setVisible(True)
 
-    def _update_bep(self, curve: Any, pumps: int) -> None:
-        bep = read.finite_float(read.field(curve, "bep_flow_m3_s"))
+    def _update_bep(self, curve: PumpCurve | None, pumps: int) -> None:
+        bep = None if curve is None else curve.bep_flow_m3_s
         for line in self.bep_lines:
             line.setVisible(bep is not None)  # before the label text: the label redraws only while visible
             if bep is not None:
                 x = float(to_display(bep / pumps, "flow", self._unit_system))
                 line.setPos(x)
                 if getattr(line, "label", None) is not None:
-                    line.label.setFormat(f"BEP {format_number(x, 3)} {unit_label('flow', self._unit_system)}")
+                    line.label.setFormat(f"BEP {readout_number(x, 3)} {unit_label('flow', self._unit_system)}")
 
     def bep_flow(self) -> float | None:
         """Best-efficiency flow per pump marked (display units), or ``None``."""
@@ -248,10 +243,10 @@ class EfficiencyPowerPlot(QWidget):
                                 *self._key.items(self._pump_counts)])
 
     def _describe_position(self, index: int, x: float, y: float) -> str:
-        flow = f"flow per pump {format_number(x)} {unit_label('flow', self._unit_system)}"
+        flow = f"flow per pump {readout_number(x)} {unit_label('flow', self._unit_system)}"
         if index == 0:
-            return f"Pointer: {flow}   ·   efficiency {format_number(y, 3, 1)} %"
-        return f"Pointer: {flow}   ·   shaft power {format_number(y)} {unit_label('power', self._unit_system)}"
+            return f"Pointer: {flow}   ·   efficiency {readout_number(y, 3, 1)} %"
+        return f"Pointer: {flow}   ·   shaft power {readout_number(y)} {unit_label('power', self._unit_system)}"
 
 
 def _times(value: float | None, factor: float) -> float | None:

@@ -9,8 +9,6 @@ what is not used.
 
 from __future__ import annotations
 
-from typing import Any
-
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtWidgets import QVBoxLayout, QWidget
@@ -34,8 +32,9 @@ from app.plots.plot_base import (
     set_curve_data,
     update_label_pool,
 )
-from app.results import solution_reading as read
-from app.results.formatting import format_number
+from app.results import scenarios
+from hydraulics.number_format import readout_number
+from hydraulics.results import FloatArray, OperatingPoint, PumpCurve, Solution, SystemCurve
 from hydraulics.units import to_display, unit_label
 
 SYSTEM_CASES: tuple[tuple[str, str], ...] = (("max", "aged"), ("max", "new"), ("min", "aged"), ("min", "new"))
@@ -58,10 +57,10 @@ class _PumpCurveItems:
                                       pen=style.preferred_region_pen(pumps_running))
         self.region.setZValue(5)
         self.curve = pg.PlotDataItem(empty_array(), empty_array(),
-                                     name=f"Pump curve: {read.pumps_phrase(pumps_running)}",
+                                     name=f"Pump curve: {scenarios.pumps_phrase(pumps_running)}",
                                      pen=style.pump_pen(pumps_running))
         self.curve.setZValue(10)
-        self.end_label = pg.TextItem(read.pumps_phrase(pumps_running), color=style.pump_colour(pumps_running),
+        self.end_label = pg.TextItem(scenarios.pumps_phrase(pumps_running), color=style.pump_colour(pumps_running),
                                      anchor=(1.0, 1.1))
         self.end_label.setFont(style.annotation_font())
         self.end_label.setZValue(30)
@@ -83,10 +82,9 @@ class HeadFlowPlot(QWidget):
 
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent)
-        self._solution: Any = None
+        self._solution: Solution | None = None
         self._unit_system = "SI"
         self._snapshot_si: list[tuple[np.ndarray, np.ndarray]] = []
-        self._pinned_label_positions: list[tuple[float, float]] = []
 
         self.readout = make_readout_label(self)
         self.canvas = make_canvas()
@@ -150,11 +148,11 @@ class HeadFlowPlot(QWidget):
         return bool(self._snapshot_si)
 
     @property
-    def drawn_solution(self) -> Any:
+    def drawn_solution(self) -> Solution | None:
         """The solution drawn now (a first-stage one until the finished solve arrives)."""
         return self._solution
 
-    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+    def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
         if completes_drawn(self._solution, self._unit_system, solution, unit_system):
             self._solution = solution  # the finished solve of what is drawn: nothing to redraw
@@ -180,11 +178,8 @@ class HeadFlowPlot(QWidget):
         snapshot: list[tuple[np.ndarray, np.ndarray]] = []
         for curve in self._system_curves_si():
             snapshot.append((curve[0].copy(), curve[1].copy()))
-        for pump_curve in read.pump_curves_at_current_speed(self._solution):
-            flow = read.as_array(read.field(pump_curve, "flow_m3_s"))
-            head = read.as_array(read.field(pump_curve, "head_m"))
-            if flow is not None and head is not None and flow.size == head.size:
-                snapshot.append((flow.copy(), head.copy()))
+        for pump_curve in self._pump_curves():
+            snapshot.append((pump_curve.flow_m3_s.copy(), pump_curve.head_m.copy()))
         self._snapshot_si = snapshot
         self._update_snapshot()
         self._sync_legend()
@@ -234,39 +229,35 @@ class HeadFlowPlot(QWidget):
         return self._legend_sync.names()
 
     # ------------------------------------------------------------------ drawing
-    def _flow(self, values):
+    def _flow(self, values: FloatArray) -> FloatArray:
         return to_display(values, "flow", self._unit_system)
 
-    def _head(self, values):
+    def _head(self, values: FloatArray) -> FloatArray:
         return to_display(values, "head", self._unit_system)
+
+    def _system_curves(self) -> tuple[SystemCurve, ...]:
+        return () if self._solution is None else self._solution.curves
+
+    def _pump_curves(self) -> list[PumpCurve]:
+        return [] if self._solution is None else scenarios.pump_curves_at_current_speed(self._solution)
 
     def _apply_axis_titles(self) -> None:
         set_axis_title(self.plot_item, "bottom", f"Flow ({unit_label('flow', self._unit_system)})")
         set_axis_title(self.plot_item, "left", f"Head ({unit_label('head', self._unit_system)})")
 
     def _system_curves_si(self) -> list[tuple[np.ndarray, np.ndarray]]:
-        out = []
-        for curve in read.field(self._solution, "curves", ()) or ():
-            flow = read.as_array(read.field(curve, "flow_m3_s"))
-            head = read.as_array(read.field(curve, "head_m"))
-            if flow is not None and head is not None and flow.size == head.size:
-                out.append((flow, head))
-        return out
+        return [(curve.flow_m3_s, curve.head_m) for curve in self._system_curves() if curve.flow_m3_s.size]
 
     def _update_system_curves(self) -> None:
-        by_case = {}
-        for curve in read.field(self._solution, "curves", ()) or ():
-            by_case[(read.field(curve, "static"), read.field(curve, "pipe"))] = curve
+        by_case: dict[tuple[str, str], SystemCurve] = {(c.static, c.pipe): c for c in self._system_curves()}
         drawn: list[tuple[np.ndarray, np.ndarray]] = []
         for case, item in self._system_items.items():
             curve = by_case.get(case)
-            flow = read.as_array(read.field(curve, "flow_m3_s"))
-            head = read.as_array(read.field(curve, "head_m"))
-            if flow is None or head is None or flow.size != head.size:
+            if curve is None or not curve.flow_m3_s.size:
                 set_curve_data(item, empty_array(), empty_array())
                 _set_visible(item, False)
                 continue
-            x, y = self._flow(flow), self._head(head)
+            x, y = self._flow(curve.flow_m3_s), self._head(curve.head_m)
             set_curve_data(item, x, y)
             _set_visible(item, True)
             drawn.append((x, y))
@@ -300,17 +291,16 @@ class HeadFlowPlot(QWidget):
     def _update_pump_curves(self) -> None:
         shown: set[int] = set()
         region_name_holder = None
-        for pump_curve in read.pump_curves_at_current_speed(self._solution):
-            pumps = int(read.field(pump_curve, "pumps_running", 1) or 1)
-            flow = read.as_array(read.field(pump_curve, "flow_m3_s"))
-            head = read.as_array(read.field(pump_curve, "head_m"))
-            if flow is None or head is None or flow.size != head.size or pumps in shown:
+        for pump_curve in self._pump_curves():
+            pumps = pump_curve.pumps_running
+            flow, head = pump_curve.flow_m3_s, pump_curve.head_m
+            if not flow.size or pumps in shown:
                 continue
             items = self._pump_items_for(pumps)
             x, y = self._flow(flow), self._head(head)
             if set_curve_data(items.curve, x, y):
                 items.end_label.setPos(float(x[-1]), float(y[-1]))
-            bounds = read.preferred_flow_bounds(pump_curve)
+            bounds = scenarios.preferred_flow_bounds(pump_curve)
             if bounds is not None:
                 rx, ry = self._region_stroke(flow, head, bounds)
                 set_curve_data(items.region, self._flow(rx), self._head(ry))
@@ -342,24 +332,23 @@ class HeadFlowPlot(QWidget):
         return x, np.interp(x, xs, ys)
 
     def _set_region_legend_name(self, holder: _PumpCurveItems | None) -> None:
-        percent = read.preferred_region_percent(self._solution)
         text = "Preferred operating region"
-        if percent is not None:
-            text += f" ({percent[0]:.0f}–{percent[1]:.0f} % of BEP flow)"
+        if self._solution is not None:
+            low, high = scenarios.preferred_region_percent(self._solution)
+            text += f" ({low:.0f}–{high:.0f} % of BEP flow)"
         for items in self._pump_items.values():
             items.region.opts["name"] = text if items is holder else None
 
     def _update_points(self) -> None:
-        points = read.found_points(read.operating_points(self._solution, current_speed_only=True))
+        points: list[OperatingPoint] = [] if self._solution is None else scenarios.found_points(
+            scenarios.ordered_points(self._solution, current_speed_only=True))
         spots = []
         self._marked = []
         for point in points:
-            x = float(self._flow(float(point.flow_m3_s)))
-            y = float(self._head(float(point.head_m)))
-            static, pipe = str(read.field(point, "static", "")), str(read.field(point, "pipe", ""))
-            pumps = int(read.field(point, "pumps_running", 1) or 1)
-            look = style.operating_point_style(static, pipe, pumps)
-            label = read.point_label(point)
+            x = to_display(float(point.flow_m3_s or 0.0), "flow", self._unit_system)
+            y = to_display(float(point.head_m or 0.0), "head", self._unit_system)
+            look = style.operating_point_style(point.static, point.pipe, point.pumps_running)
+            label = scenarios.point_label(point)
             spots.append({"pos": (x, y), "symbol": look.symbol, "brush": look.brush, "pen": look.pen,
                           "size": look.size, "data": label})
             self._marked.append((x, y, label))
@@ -380,12 +369,12 @@ class HeadFlowPlot(QWidget):
             place_labels(self.view_box, labels, obstacles=[(x, y) for x, y, _ in self._marked])
 
     def _update_design_flow(self) -> None:
-        design = read.finite_float(read.field(self._solution, "design_flow_m3_s"))
-        if design is None or design <= 0:
+        design = None if self._solution is None else self._solution.design_flow_m3_s
+        if design is None or not design > 0:
             self.design_flow_line.setVisible(False)
             return
-        x = float(self._flow(design))
-        text = f"design flow {format_number(x, 3)} {unit_label('flow', self._unit_system)}"
+        x = to_display(design, "flow", self._unit_system)
+        text = f"design flow {readout_number(x, 3)} {unit_label('flow', self._unit_system)}"
         if self.design_flow_line.isVisible() and self.design_flow_line.value() == x and self._design_text == text:
             return
         self.design_flow_line.setVisible(True)  # the label only redraws while visible
@@ -435,8 +424,8 @@ class HeadFlowPlot(QWidget):
                     pump_top.append(float(np.nanmax(y)))
         point_heads = [y for _, y, _ in self._marked]
         if pump_top:
-            static = [float(self._head(v)) for v in (read.field(self._solution, "static_head_max_m"),)
-                      if read.finite_float(v) is not None]
+            static = [] if self._solution is None else [
+                to_display(self._solution.static_head_max_m, "head", self._unit_system)]
             top = 1.2 * max(pump_top + point_heads + static)
         elif system_top:
             top = max(system_top)
@@ -456,7 +445,7 @@ class HeadFlowPlot(QWidget):
     def _describe_position(self, _index: int, x: float, y: float) -> str:
         flow_unit = unit_label("flow", self._unit_system)
         head_unit = unit_label("head", self._unit_system)
-        return f"Pointer: flow {format_number(x)} {flow_unit}   ·   head {format_number(y)} {head_unit}"
+        return f"Pointer: flow {readout_number(x)} {flow_unit}   ·   head {readout_number(y)} {head_unit}"
 
 
 def _set_visible(item, visible: bool) -> None:

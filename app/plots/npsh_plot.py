@@ -9,8 +9,6 @@ each number of pumps running is written beside its bar.
 
 from __future__ import annotations
 
-from typing import Any
-
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
@@ -35,8 +33,9 @@ from app.plots.plot_base import (
     set_axis_title,
     update_label_pool,
 )
-from app.results import solution_reading as read
-from app.results.formatting import format_number
+from app.results import scenarios
+from hydraulics.number_format import readout_number
+from hydraulics.results import FloatArray, NpshCurve, OperatingPoint, Solution
 from hydraulics.units import to_display, unit_label
 
 IDLE_READOUT = "Point at the plot to read flow and NPSH."
@@ -47,7 +46,7 @@ class NpshPlot(QWidget):
 
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent)
-        self._solution: Any = None
+        self._solution: Solution | None = None
         self._unit_system = "SI"
         self.readout = make_readout_label(self)
         self.canvas = make_canvas()
@@ -92,11 +91,11 @@ class NpshPlot(QWidget):
 
     # ------------------------------------------------------------------ public API
     @property
-    def drawn_solution(self) -> Any:
+    def drawn_solution(self) -> Solution | None:
         """The solution drawn now (a first-stage one until the finished solve arrives)."""
         return self._solution
 
-    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+    def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
         if completes_drawn(self._solution, self._unit_system, solution, unit_system):
             self._solution = solution  # the finished solve of what is drawn: nothing to redraw
@@ -104,10 +103,11 @@ class NpshPlot(QWidget):
         self._solution = solution
         self._unit_system = unit_system
         self._apply_titles()
-        npsh = read.field(solution, "npsh_available_curve")
-        flow = read.as_array(read.field(npsh, "flow_m3_s"))
-        for pipe, item in self.available_items.items():
-            self._set_curve(item, flow, read.as_array(read.field(npsh, f"available_{pipe}_m")))
+        npsh = None if solution is None else solution.npsh_available_curve
+        self._set_curve(self.available_items["new"], None if npsh is None else npsh.flow_m3_s,
+                        None if npsh is None else npsh.available_new_m)
+        self._set_curve(self.available_items["aged"], None if npsh is None else npsh.flow_m3_s,
+                        None if npsh is None else npsh.available_aged_m)
         self._update_required(npsh)
         self._update_points()
         has_data = any(item.isVisible() for item in self.available_items.values()) or any(
@@ -136,14 +136,20 @@ class NpshPlot(QWidget):
         return list(self._margin_marks)
 
     # ------------------------------------------------------------------ drawing
-    def _flow(self, values):
+    def _flow(self, values: FloatArray) -> FloatArray:
         return to_display(values, "flow", self._unit_system)
 
-    def _head(self, values):
+    def _head(self, values: FloatArray) -> FloatArray:
         return to_display(values, "head", self._unit_system)
 
-    def _set_curve(self, item: pg.PlotDataItem, flow, values) -> None:
-        if flow is None or values is None or flow.size != values.size:
+    def _flow_at(self, point: OperatingPoint) -> float:
+        return to_display(float(point.flow_m3_s or 0.0), "flow", self._unit_system)
+
+    def _head_at(self, value_m: float | None) -> float:
+        return to_display(float(value_m or 0.0), "head", self._unit_system)
+
+    def _set_curve(self, item: pg.PlotDataItem, flow: FloatArray | None, values: FloatArray | None) -> None:
+        if flow is None or values is None or not flow.size or flow.size != values.size:
             item.setData(empty_array(), empty_array())
             item.setVisible(False)
             return
@@ -155,66 +161,63 @@ class NpshPlot(QWidget):
         if item is None:
             pen = style.make_pen(style.pump_colour(pumps), 2.0, Qt.PenStyle.DashDotLine)
             item = pg.PlotDataItem(empty_array(), empty_array(),
-                                   name=f"NPSH required, {read.pumps_phrase(pumps)}", pen=pen)
+                                   name=f"NPSH required, {scenarios.pumps_phrase(pumps)}", pen=pen)
             self.plot_item.addItem(item)
             self._required_items[pumps] = item
         return item
 
-    def _update_required(self, npsh: Any) -> None:
+    def _update_required(self, npsh: NpshCurve | None) -> None:
         shown: set[int] = set()
-        for curve in read.pump_curves_at_current_speed(self._solution):
-            pumps = int(read.field(curve, "pumps_running", 1) or 1)
-            required = read.as_array(read.field(curve, "npsh_required_m"))
-            if required is None or pumps in shown:
+        curves = [] if self._solution is None else scenarios.pump_curves_at_current_speed(self._solution)
+        for curve in curves:
+            pumps = curve.pumps_running
+            if curve.npsh_required_m is None or not curve.npsh_required_m.size or pumps in shown:
                 continue
-            self._set_curve(self._required_item(pumps), read.as_array(read.field(curve, "flow_m3_s")), required)
+            self._set_curve(self._required_item(pumps), curve.flow_m3_s, curve.npsh_required_m)
             shown.add(pumps)
-        if not shown:  # an NPSH curve object may carry the one-pump requirement itself
-            required = read.as_array(read.field(npsh, "required_m"))
-            flow = read.as_array(read.field(npsh, "required_flow_m3_s"))
-            if required is not None and flow is not None:
-                self._set_curve(self._required_item(1), flow, required)
-                shown.add(1)
+        if not shown and npsh is not None and npsh.required_m is not None and npsh.required_m.size:
+            # without pump curves at this speed, the NPSH curve's own one-pump requirement
+            self._set_curve(self._required_item(1), npsh.required_flow_m3_s, npsh.required_m)
+            shown.add(1)
         for pumps, item in self._required_items.items():
             if pumps not in shown:
                 item.setData(empty_array(), empty_array())
                 item.setVisible(False)
 
     def _update_points(self) -> None:
-        points = [p for p in read.found_points(read.operating_points(self._solution, current_speed_only=True))
-                  if read.finite_float(read.field(p, "npsh_available_m")) is not None]
-        self._pump_counts = sorted({int(read.field(p, "pumps_running", 1) or 1) for p in points})
-        x_of = lambda p: self._flow(float(p.flow_m3_s))  # noqa: E731
+        ordered = [] if self._solution is None else scenarios.ordered_points(self._solution, current_speed_only=True)
+        points = [p for p in scenarios.found_points(ordered) if p.npsh_available_m is not None]
+        self._pump_counts = sorted({p.pumps_running for p in points})
         self.available_points.setData(point_spots(
-            points, x_of, lambda p: self._head(float(p.npsh_available_m)), read.point_label))
-        with_required = [p for p in points if read.finite_float(read.field(p, "npsh_required_m")) is not None]
+            points, self._flow_at, lambda p: self._head_at(p.npsh_available_m), scenarios.point_label))
+        with_required = [p for p in points if p.npsh_required_m is not None]
         self.required_points.setData(
-            [x_of(p) for p in with_required], [self._head(float(p.npsh_required_m)) for p in with_required])
+            [self._flow_at(p) for p in with_required], [self._head_at(p.npsh_required_m) for p in with_required])
         bars_x, bars_y = [], []
         for p in with_required:
-            x = x_of(p)
+            x = self._flow_at(p)
             bars_x += [x, x]
-            bars_y += [self._head(float(p.npsh_available_m)), self._head(float(p.npsh_required_m))]
+            bars_y += [self._head_at(p.npsh_available_m), self._head_at(p.npsh_required_m)]
         self.margin_bars.setData(np.array(bars_x, dtype=float), np.array(bars_y, dtype=float))
-        self._update_margin_labels(with_required, x_of)
+        self._update_margin_labels(with_required)
 
-    def _update_margin_labels(self, points: list, x_of) -> None:
-        least: dict[int, Any] = {}
+    def _update_margin_labels(self, points: list[OperatingPoint]) -> None:
+        least: dict[int, tuple[float, OperatingPoint]] = {}
         for point in points:
-            margin = read.finite_float(read.field(point, "npsh_margin_m"))
+            margin = point.npsh_margin_m
             if margin is None:
-                margin = float(point.npsh_available_m) - float(point.npsh_required_m)
-            pumps = int(read.field(point, "pumps_running", 1) or 1)
+                continue
+            pumps = point.pumps_running
             if pumps not in least or margin < least[pumps][0]:
                 least[pumps] = (margin, point)
         head_unit = unit_label("head", self._unit_system)
         self._margin_marks = []
         for pumps in sorted(least):
             margin, point = least[pumps]
-            ratio = read.finite_float(read.field(point, "npsh_margin_ratio"))
-            text = (f"least margin, {read.pumps_phrase(pumps)}: {format_number(self._head(margin), 3)} {head_unit}"
-                    + (f" (ratio {ratio:.2f})" if ratio is not None else ""))
-            self._margin_marks.append((x_of(point), self._head(float(point.npsh_available_m)), text))
+            ratio = point.npsh_margin_ratio
+            text = (f"least margin, {scenarios.pumps_phrase(pumps)}: {readout_number(self._head_at(margin), 3)} "
+                    f"{head_unit}" + (f" (ratio {ratio:.2f})" if ratio is not None else ""))
+            self._margin_marks.append((self._flow_at(point), self._head_at(point.npsh_available_m), text))
         update_label_pool(self.plot_item, self._margin_labels, self._margin_marks, fill_alpha=170)
         self._place_margin_labels()
 
@@ -248,8 +251,8 @@ class NpshPlot(QWidget):
         self._legend_sync.sync(ordered)
 
     def _describe_position(self, _index: int, x: float, y: float) -> str:
-        return (f"Pointer: flow {format_number(x)} {unit_label('flow', self._unit_system)}   ·   "
-                f"NPSH {format_number(y)} {unit_label('head', self._unit_system)}")
+        return (f"Pointer: flow {readout_number(x)} {unit_label('flow', self._unit_system)}   ·   "
+                f"NPSH {readout_number(y)} {unit_label('head', self._unit_system)}")
 
 
 def _data(item: pg.PlotDataItem) -> tuple[np.ndarray, np.ndarray]:

@@ -3,7 +3,7 @@ that lists only what is shown, and a placer that keeps point labels from overlap
 
 from __future__ import annotations
 
-from typing import Callable, Iterable, Sequence
+from typing import Any, Callable, Iterable, Sequence
 
 import numpy as np
 import pyqtgraph as pg
@@ -12,6 +12,7 @@ from PySide6.QtGui import QPainterPath
 from PySide6.QtWidgets import QLabel, QSizePolicy, QWidget
 
 from app import style
+from hydraulics.results import OperatingPoint, Solution
 
 
 def make_readout_label(parent: QWidget) -> QLabel:
@@ -219,10 +220,8 @@ def set_axis_title(plot_item: pg.PlotItem, axis: str, text: str) -> None:
     plot_item.setLabel(axis, text, **label_style)
 
 
-_STAGE_PARTS = ("curves", "segments", "operating_points", "pump_curves", "pump_fits", "npsh_available_curve")
-
-
-def completes_drawn(drawn, drawn_units: str | None, solution, unit_system: str) -> bool:
+def completes_drawn(drawn: Solution | None, drawn_units: str | None, solution: Solution | None,
+                    unit_system: str) -> bool:
     """True when ``solution`` only completes the first-stage solution ``drawn``.
 
     The engine finishes a solve in two stages (:func:`hydraulics.solve.solve_curves`,
@@ -232,9 +231,14 @@ def completes_drawn(drawn, drawn_units: str | None, solution, unit_system: str) 
     needs no redraw.
     """
     return (drawn is not None and solution is not None and drawn_units == unit_system
-            and getattr(drawn, "complete", True) is False and getattr(solution, "complete", False) is True
-            and getattr(solution, "project", None) is getattr(drawn, "project", None)
-            and all(getattr(solution, name, None) is getattr(drawn, name, None) for name in _STAGE_PARTS))
+            and not drawn.complete and solution.complete
+            and solution.project is drawn.project
+            and solution.curves is drawn.curves
+            and solution.segments is drawn.segments
+            and solution.operating_points is drawn.operating_points
+            and solution.pump_curves is drawn.pump_curves
+            and solution.pump_fits is drawn.pump_fits
+            and solution.npsh_available_curve is drawn.npsh_available_curve)
 
 
 def empty_array() -> np.ndarray:
@@ -490,15 +494,16 @@ class PointKey:
         return out
 
 
-def point_spots(points: Iterable, x_of: Callable, y_of: Callable, label_of: Callable) -> list[dict]:
+def point_spots(points: Iterable[OperatingPoint], x_of: Callable[[OperatingPoint], float | None],
+                y_of: Callable[[OperatingPoint], float | None],
+                label_of: Callable[[OperatingPoint], str]) -> list[dict[str, Any]]:
     """ScatterPlotItem spots for operating points; points whose x or y is missing are skipped."""
     spots = []
     for point in points:
         x, y = x_of(point), y_of(point)
         if x is None or y is None or not (np.isfinite(x) and np.isfinite(y)):
             continue
-        look = style.operating_point_style(str(getattr(point, "static", "")), str(getattr(point, "pipe", "")),
-                                           int(getattr(point, "pumps_running", 1) or 1))
+        look = style.operating_point_style(point.static, point.pipe, point.pumps_running)
         spots.append({"pos": (float(x), float(y)), "symbol": look.symbol, "brush": look.brush,
                       "pen": look.pen, "size": look.size, "data": label_of(point)})
     return spots

@@ -2,14 +2,13 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 from PySide6.QtCore import QCoreApplication, QEvent
 from PySide6.QtWidgets import QTabWidget, QWidget
 
 from app.plots.efficiency_power_plot import EfficiencyPowerPlot
 from app.plots.head_flow_plot import HeadFlowPlot
 from app.plots.npsh_plot import NpshPlot
+from hydraulics.results import Solution
 
 
 class PlotTabs(QTabWidget):
@@ -27,14 +26,14 @@ class PlotTabs(QTabWidget):
         self.setTabToolTip(0, "System curves, pump curves and operating points")
         self.setTabToolTip(1, "Efficiency and shaft power of one pump against its flow")
         self.setTabToolTip(2, "NPSH available against NPSH required, with the margin at each point")
-        self._pending: dict[int, tuple[Any, str]] = {}
+        self._pending: dict[int, tuple[Solution | None, str]] = {}
         self.currentChanged.connect(self._draw_pending)
 
     def plots(self) -> tuple[HeadFlowPlot, EfficiencyPowerPlot, NpshPlot]:
         """The three plot widgets, in tab order."""
         return self.head_flow, self.efficiency_power, self.npsh
 
-    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+    def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` in the visible tab now and in the others when they are shown.
 
         ``None`` clears them.  Hidden tabs keep the newest solution pending, so a burst
@@ -48,7 +47,7 @@ class PlotTabs(QTabWidget):
             else:
                 self._pending[index] = (solution, unit_system)
 
-    def drawn_solution(self) -> Any:
+    def drawn_solution(self) -> Solution | None:
         """The solution the visible plot has drawn."""
         return self.plots()[self.currentIndex()].drawn_solution
 
@@ -56,7 +55,7 @@ class PlotTabs(QTabWidget):
         """The plot canvas of the visible tab."""
         return self.plots()[self.currentIndex()].canvas
 
-    def show_and_paint(self, solution: Any, unit_system: str = "SI") -> None:
+    def show_and_paint(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """:meth:`show_solution`, then :meth:`paint_now` (the live path's first stage)."""
         self.show_solution(solution, unit_system)
         self.paint_now()

@@ -9,14 +9,14 @@ select the row or panel concerned.
 
 from __future__ import annotations
 
-from typing import Any, Iterable
+from typing import Iterable
 
 from PySide6.QtCore import QModelIndex, Qt, Signal
 from PySide6.QtGui import QBrush, QColor, QFont, QStandardItem, QStandardItemModel
 from PySide6.QtWidgets import QAbstractItemView, QHeaderView, QTreeView, QVBoxLayout, QWidget
 
 from app import style
-from hydraulics.results import SEVERITY_ORDER
+from hydraulics.results import SEVERITY_ORDER, Finding
 
 FINDING_INDEX_ROLE = Qt.ItemDataRole.UserRole + 1
 """Item data role holding the position of a finding in :attr:`ChecksPanel.findings`."""
@@ -25,7 +25,10 @@ _SEVERITY_ROLE = Qt.ItemDataRole.UserRole + 2
 """Item data role holding the severity of a group row."""
 
 COLUMNS = ("Finding", "Where", "Remedy")
-SEVERITIES = tuple(sorted(SEVERITY_ORDER, key=SEVERITY_ORDER.get))
+SEVERITIES = tuple(sorted(SEVERITY_ORDER, key=SEVERITY_ORDER.__getitem__))
+
+_Group = tuple[str, list[tuple[int, Finding]]]
+"""One severity and its findings, each with its position in :attr:`ChecksPanel.findings`."""
 
 
 def _group_title(severity: str, count: int) -> str:
@@ -41,7 +44,7 @@ class ChecksPanel(QWidget):
 
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent)
-        self._findings: list[Any] = []
+        self._findings: list[Finding] = []
         self._unit_system = "SI"
         self._shown = False
         self._shape: tuple[tuple[str, int], ...] | None = None  # (severity, count) per group shown
@@ -73,18 +76,19 @@ class ChecksPanel(QWidget):
 
     # ------------------------------------------------------------------ public API
     @property
-    def findings(self) -> tuple[Any, ...]:
+    def findings(self) -> tuple[Finding, ...]:
         """The findings shown, most serious first."""
         return tuple(self._findings)
 
-    def show_findings(self, findings: Iterable[Any] | None, unit_system: str = "SI", solved: bool = True) -> None:
+    def show_findings(self, findings: Iterable[Finding] | None, unit_system: str = "SI",
+                      solved: bool = True) -> None:
         """Show ``findings`` (from ``solution.findings``).
 
         Quoted values are stated in ``unit_system`` (``Finding.text``).  ``solved=False`` shows
         that there is no result yet rather than "no findings".
         """
         self._unit_system = unit_system
-        self._findings = sorted(findings or (), key=lambda f: SEVERITY_ORDER.get(getattr(f, "severity", ""), 9))
+        self._findings = sorted(findings or (), key=lambda f: SEVERITY_ORDER.get(f.severity, 9))
         if not self._findings:
             text = "Every check passed: no findings." if solved else "No results yet."
             if self._shape == () and self._placeholder_text == text:
@@ -96,10 +100,9 @@ class ChecksPanel(QWidget):
             self.model.appendRow([placeholder, _plain(""), _plain("")])
             self._shape, self._placeholder_text = (), text
             return
-        groups = []
-        for severity in SEVERITIES + tuple(
-                s for s in {getattr(f, "severity", "") for f in self._findings} if s not in SEVERITY_ORDER):
-            members = [(i, f) for i, f in enumerate(self._findings) if getattr(f, "severity", "") == severity]
+        groups: list[_Group] = []
+        for severity in SEVERITIES:
+            members = [(i, f) for i, f in enumerate(self._findings) if f.severity == severity]
             if members:
                 groups.append((severity, members))
         shape = tuple((severity, len(members)) for severity, members in groups)
@@ -124,7 +127,7 @@ class ChecksPanel(QWidget):
         return QModelIndex()
 
     # ------------------------------------------------------------------ internals
-    def _reshape(self, groups) -> None:
+    def _reshape(self, groups: list[_Group]) -> None:
         """Make the tree hold one group row per severity of ``groups`` and one row per finding.
 
         Groups already shown stay (with their expanded state); groups that are gone are
@@ -153,7 +156,7 @@ class ChecksPanel(QWidget):
             for index, finding in members[have:]:
                 group.appendRow(self._finding_row(index, finding))
 
-    def _refresh_rows(self, groups) -> None:
+    def _refresh_rows(self, groups: list[_Group]) -> None:
         """Write the texts of ``groups`` into the rows shown (the tree has their shape)."""
         for row, (_severity, members) in enumerate(groups):
             group = self.model.item(row, 0)
@@ -167,17 +170,14 @@ class ChecksPanel(QWidget):
                     if cell.data(FINDING_INDEX_ROLE) != index:
                         cell.setData(index, FINDING_INDEX_ROLE)
 
-    def _finding_cells(self, finding: Any) -> list[tuple[str, str]]:
+    def _finding_cells(self, finding: Finding) -> list[tuple[str, str]]:
         """(text, tooltip) of the three cells of ``finding``'s row."""
-        text = getattr(finding, "text", None)
-        message = str(text(self._unit_system) if callable(text) else getattr(finding, "message", ""))
-        where = str(getattr(finding, "where", ""))
-        remedy = str(getattr(finding, "remedy", "") or "")
-        code = str(getattr(finding, "code", ""))
+        message = finding.text(self._unit_system)
+        where, remedy, code = finding.where, finding.remedy, finding.code
         tooltip = message + (f"\n\nRemedy: {remedy}" if remedy else "") + (f"\n\nCheck: {code}" if code else "")
         return [(message, tooltip), (where, tooltip), (remedy, tooltip)]
 
-    def _finding_row(self, index: int, finding: Any) -> list[QStandardItem]:
+    def _finding_row(self, index: int, finding: Finding) -> list[QStandardItem]:
         cells = []
         for message, tooltip in self._finding_cells(finding):
             cell = _plain(message)
@@ -190,7 +190,7 @@ class ChecksPanel(QWidget):
         position = index.data(FINDING_INDEX_ROLE)
         if position is None or not 0 <= int(position) < len(self._findings):
             return
-        self.findingActivated.emit(getattr(self._findings[int(position)], "target", None))
+        self.findingActivated.emit(self._findings[int(position)].target)
 
 
 def _group_item(severity: str) -> QStandardItem:

@@ -8,20 +8,24 @@ columns.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
-from typing import Any, Callable, Iterable
+from typing import Callable, Iterable
 
 from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt
 from PySide6.QtWidgets import QAbstractItemView, QHeaderView, QTableView, QWidget
 
-from app.results import solution_reading as read
-from app.results.formatting import DASH, format_number
+from app.results import scenarios
+from hydraulics.number_format import MISSING, readout_number
+from hydraulics.results import OperatingPoint, Solution
 from hydraulics.units import to_display, unit_label
 
 SI_VALUE_ROLE = Qt.ItemDataRole.UserRole + 1
 """Role returning the stored value of a cell (SI float, fraction, int, bool or text)."""
 
 Index = QModelIndex | QPersistentModelIndex
+CellValue = str | int | float | bool | None
+"""What a column reads from an operating point (SI float, fraction, int, bool or text)."""
 
 
 @dataclass(frozen=True)
@@ -34,35 +38,31 @@ class Column:
 
     title: str
     quantity: str | None
-    read: Callable[[Any], Any]
+    read: Callable[[OperatingPoint], CellValue]
     significant: int = 4
     max_decimals: int = 3
     tooltip: str = ""
 
 
-def _get(name: str) -> Callable[[Any], Any]:
-    return lambda point: read.field(point, name)
-
-
 COLUMNS: tuple[Column, ...] = (
-    Column("Scenario", None, read.scenario_phrase, tooltip="Static-head extreme and pipe state"),
-    Column("Pumps\nrunning", None, _get("pumps_running"), tooltip="Identical pumps running in parallel"),
-    Column("Speed", "percent", _get("speed_ratio"), 3, 1, "Speed as a percentage of rated speed"),
-    Column("Flow", "flow", _get("flow_m3_s"), tooltip="Station flow"),
-    Column("Flow per\npump", "flow", _get("flow_per_pump_m3_s")),
-    Column("Head", "head", _get("head_m"), tooltip="Total head of the station at the operating point"),
-    Column("Efficiency", "percent", _get("efficiency"), 3, 1, "Pump efficiency at the operating point"),
-    Column("Shaft power\ntotal", "power", _get("shaft_power_total_w"), tooltip="Shaft power of all pumps running"),
-    Column("Input power", "power", _get("input_power_w"), tooltip="Electrical input power of all pumps running"),
-    Column("Specific\nenergy", "specific_energy", _get("specific_energy_kwh_m3"), 3, 4,
+    Column("Scenario", None, scenarios.scenario_phrase, tooltip="Static-head extreme and pipe state"),
+    Column("Pumps\nrunning", None, lambda p: p.pumps_running, tooltip="Identical pumps running in parallel"),
+    Column("Speed", "percent", lambda p: p.speed_ratio, 3, 1, "Speed as a percentage of rated speed"),
+    Column("Flow", "flow", lambda p: p.flow_m3_s, tooltip="Station flow"),
+    Column("Flow per\npump", "flow", lambda p: p.flow_per_pump_m3_s),
+    Column("Head", "head", lambda p: p.head_m, tooltip="Total head of the station at the operating point"),
+    Column("Efficiency", "percent", lambda p: p.efficiency, 3, 1, "Pump efficiency at the operating point"),
+    Column("Shaft power\ntotal", "power", lambda p: p.shaft_power_total_w, tooltip="Shaft power of all pumps running"),
+    Column("Input power", "power", lambda p: p.input_power_w, tooltip="Electrical input power of all pumps running"),
+    Column("Specific\nenergy", "specific_energy", lambda p: p.specific_energy_kwh_m3, 3, 4,
            "Electrical energy per volume pumped"),
-    Column("NPSH\navailable", "head", _get("npsh_available_m")),
-    Column("NPSH\nrequired", "head", _get("npsh_required_m")),
-    Column("NPSH\nmargin", "head", _get("npsh_margin_m"), tooltip="NPSH available − NPSH required"),
-    Column("NPSH\nratio", None, _get("npsh_margin_ratio"), 3, 2, "NPSH available / NPSH required"),
-    Column("Share of\nBEP flow", "percent", _get("bep_flow_ratio"), 3, 0,
+    Column("NPSH\navailable", "head", lambda p: p.npsh_available_m),
+    Column("NPSH\nrequired", "head", lambda p: p.npsh_required_m),
+    Column("NPSH\nmargin", "head", lambda p: p.npsh_margin_m, tooltip="NPSH available − NPSH required"),
+    Column("NPSH\nratio", None, lambda p: p.npsh_margin_ratio, 3, 2, "NPSH available / NPSH required"),
+    Column("Share of\nBEP flow", "percent", lambda p: p.bep_flow_ratio, 3, 0,
            "Flow per pump as a percentage of the best-efficiency flow"),
-    Column("Extrapolated", None, _get("extrapolated"), tooltip="Operating point beyond the pump's tested data"),
+    Column("Extrapolated", None, lambda p: p.extrapolated, tooltip="Operating point beyond the pump's tested data"),
 )
 
 FIRST_VALUE_COLUMN = 3
@@ -85,26 +85,26 @@ class OperatingPointsModel(QAbstractTableModel):
 
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent)
-        self._points: list[Any] = []
+        self._points: list[OperatingPoint] = []
         self._found: list[bool] = []
         self._display_cache: dict[tuple[int, int], str] = {}
         self._unit_system = "SI"
 
     # ------------------------------------------------------------------ public API
-    def set_points(self, points: Iterable[Any], unit_system: str = "SI") -> None:
-        """Show ``points`` (operating-point objects) in ``unit_system``."""
+    def set_points(self, points: Iterable[OperatingPoint], unit_system: str = "SI") -> None:
+        """Show ``points`` in ``unit_system``."""
         self.beginResetModel()
         self._points = list(points)
-        self._found = [bool(read.found_points([p])) for p in self._points]
-        self._display_cache: dict[tuple[int, int], str] = {}
+        self._found = [bool(scenarios.found_points([p])) for p in self._points]
+        self._display_cache = {}
         self._unit_system = unit_system
         self.endResetModel()
 
-    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+    def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Show the operating points of ``solution`` (``None`` empties the table)."""
-        self.set_points(read.operating_points(solution), unit_system)
+        self.set_points([] if solution is None else scenarios.ordered_points(solution), unit_system)
 
-    def point(self, row: int) -> Any:
+    def point(self, row: int) -> OperatingPoint:
         """The operating point shown in ``row``."""
         return self._points[row]
 
@@ -155,9 +155,9 @@ class OperatingPointsModel(QAbstractTableModel):
             return text
         if role == Qt.ItemDataRole.ToolTipRole:
             if not found:
-                return f"No operating point: {read.reason_text(point, self._unit_system)}"
+                return f"No operating point: {scenarios.reason_text(point, self._unit_system)}"
             if index.column() == 0:
-                return read.point_label(point, with_speed=True)
+                return scenarios.point_label(point, with_speed=True)
             return column.tooltip or None
         if role == Qt.ItemDataRole.TextAlignmentRole:
             if index.column() == 0 or (not found and index.column() == FIRST_VALUE_COLUMN):
@@ -175,28 +175,28 @@ class OperatingPointsModel(QAbstractTableModel):
             return "%"
         return unit_label(column.quantity, self._unit_system)
 
-    def _display(self, point: Any, column: Column, column_index: int, found: bool) -> str:
+    def _display(self, point: OperatingPoint, column: Column, column_index: int, found: bool) -> str:
         value = column.read(point)
         if column_index >= FIRST_VALUE_COLUMN and not found:
             if column_index == FIRST_VALUE_COLUMN:
-                return f"No operating point: {read.reason_text(point, self._unit_system)}"
+                return f"No operating point: {scenarios.reason_text(point, self._unit_system)}"
             return ""
         if column_index == 0:
             return str(value)
         if column.title == "Extrapolated":
             return "yes" if value else "no"
         if column.title.startswith("Pumps"):
-            return DASH if value is None else str(int(value))
-        number = read.finite_float(value)
-        if number is None:
-            return DASH
+            return MISSING if value is None else str(int(value))
+        if not isinstance(value, (int, float)) or not math.isfinite(value):
+            return MISSING
+        number = float(value)
         if column.quantity == "percent":
             number *= 100.0
         elif column.quantity == "specific_energy":
             number = to_display(_specific_energy_si(number), "specific_energy", self._unit_system)
         elif column.quantity is not None:
             number = to_display(number, column.quantity, self._unit_system)
-        return format_number(number, column.significant, column.max_decimals)
+        return readout_number(number, column.significant, column.max_decimals)
 
 
 class OperatingPointsTable(QTableView):
@@ -218,7 +218,7 @@ class OperatingPointsTable(QTableView):
         self.points_model.modelReset.connect(self._update_spans)
         self._sized_for: tuple[int, str] | None = None
 
-    def show_solution(self, solution: Any, unit_system: str = "SI") -> None:
+    def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Show the operating points of ``solution`` in ``unit_system``.
 
         Columns are sized to their contents when the rows or the units change, not on
@@ -230,16 +230,15 @@ class OperatingPointsTable(QTableView):
             self._sized_for = shape
             self.resizeColumnsToContents()
 
-    def select_scenario(self, scenario) -> bool:
+    def select_scenario(self, scenario: object) -> bool:
         """Select the row of ``(static, pipe, pumps_running, speed_ratio)``; False if not shown."""
         if not (isinstance(scenario, tuple) and len(scenario) == 4):
             return False
         static, pipe, pumps, speed = scenario
         for row in range(self.points_model.rowCount()):
             point = self.points_model.point(row)
-            if (getattr(point, "static", None) == static and getattr(point, "pipe", None) == pipe
-                    and getattr(point, "pumps_running", None) == pumps
-                    and abs(float(getattr(point, "speed_ratio", 1.0)) - float(speed)) < 1e-9):
+            if (point.static == static and point.pipe == pipe and point.pumps_running == pumps
+                    and abs(point.speed_ratio - float(speed)) < 1e-9):
                 self.selectRow(row)
                 self.scrollTo(self.points_model.index(row, 0))
                 return True

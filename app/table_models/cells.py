@@ -12,6 +12,7 @@ from __future__ import annotations
 import math
 
 from hydraulics.model import ModelError
+from hydraulics.number_format import plain_number
 from hydraulics.units import UnitInputError, display_unit, parse_quantity, to_display, unit_label
 from hydraulics.validation import LIMITS, Limit
 
@@ -27,25 +28,6 @@ SAME_VALUE_TOLERANCE = 1e-9
 
 class CellError(ValueError):
     """A typed value the window refuses; ``str(error)`` is the message shown to the user."""
-
-
-def plain_number(value: float, digits: int = DISPLAY_DIGITS) -> str:
-    """A number with up to ``digits`` significant digits, no trailing zeros, no exponent
-    for ordinary magnitudes.
-
-    >>> plain_number(11.811023622), plain_number(300.0), plain_number(1250.5), plain_number(1.0e-5)
-    ('11.811', '300', '1250.5', '1e-05')
-    >>> plain_number(2500000.0)
-    '2500000'
-    """
-    if not math.isfinite(value):
-        return "—"
-    text = f"{value:.{digits}g}"
-    if "e" in text and abs(value) >= 1.0:
-        text = f"{value:.0f}"
-    if text == "-0":
-        text = "0"
-    return text
 
 
 def display_text(value_si: float | None, quantity: str, system: str, digits: int = DISPLAY_DIGITS) -> str:

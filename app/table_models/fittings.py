@@ -13,6 +13,7 @@ from typing import Any, Sequence
 from app.table_models import choices
 from app.table_models.base import Column, ProjectTableModel
 from hydraulics.model import Fitting, Project
+from hydraulics.number_format import general_number
 
 _COLUMNS: tuple[Column, ...] = (
     Column("fitting_id", "Fitting type", kind="choice", tooltip="From the fittings catalogue."),
@@ -120,7 +121,7 @@ class FittingsModel(ProjectTableModel):
     def display(self, project: Project, row: int, column: Column) -> str:
         if column.key == "catalogue_k":
             k = self.value(project, row, column)
-            return "—" if k is None else f"{k:.3g}"
+            return general_number(k, 3)
         return super().display(project, row, column)
 
     def choices(self, project: Project, row: int, column: Column) -> list[tuple[str | None, str]]:

@@ -3,9 +3,8 @@
 Demo data only: the curves are simple parabolas of an invented station (static heads
 12 m and 18 m, an invented pump with 40 m shut-off head).  They exercise the widgets; they
 are not hydraulic results.  They are built from the engine's own result classes
-(:class:`~hydraulics.pump_arrangement.PumpCurve`,
-:class:`~hydraulics.operating_points.OperatingPoint`, :class:`~hydraulics.solve.NpshCurve`),
-so a renamed field breaks these tests as it would break the window.
+(:mod:`hydraulics.results`), so a renamed field breaks these tests as it would break the
+window.
 """
 
 from __future__ import annotations
@@ -15,10 +14,7 @@ from dataclasses import replace
 import numpy as np
 
 from hydraulics.model import Arrangement, Criteria, Project, PumpModel, Site, TankDelivery
-from hydraulics.operating_points import OperatingPoint
-from hydraulics.pump_arrangement import PumpCurve
-from hydraulics.results import Finding, Solution, SystemCurve
-from hydraulics.solve import NpshCurve
+from hydraulics.results import Finding, FluidProperties, NpshCurve, OperatingPoint, PumpCurve, Solution, SystemCurve
 
 STATIC_HEADS = {"min": 12.0, "max": 18.0}
 FRICTION_COEFF = {"new": 4000.0, "aged": 6500.0}  # head = static + c Q², Q in m³/s (invented)
@@ -26,6 +22,8 @@ SHUTOFF_HEAD_M = 40.0
 PUMP_COEFF = 9000.0  # one pump: head = 40 − 9000 Q² (invented)
 BEP_FLOW_M3_S = 0.040  # invented best-efficiency flow of one pump
 DESIGN_FLOW_M3_S = 0.045
+INVENTED_FLUID = FluidProperties(temperature_c=15.0, density_kg_m3=1000.0, kinematic_viscosity_m2_s=1.1e-6,
+                                 vapour_pressure_pa=1700.0, description="invented test liquid")
 
 
 def _efficiency(q_per_pump: np.ndarray) -> np.ndarray:
@@ -79,7 +77,7 @@ def make_solution(duty_count: int = 2, scale: float = 1.0, with_pump: bool = Tru
                                       head_m=hs + friction + minor, static_m=np.full_like(flows, hs),
                                       friction_m=friction, minor_m=minor))
     project = make_project(duty_count)
-    base = dict(project=project, fluid=None, atmospheric_pressure_pa=101325.0,
+    base = dict(project=project, fluid=INVENTED_FLUID, atmospheric_pressure_pa=101325.0,
                 static_head_min_m=STATIC_HEADS["min"], static_head_max_m=STATIC_HEADS["max"],
                 design_flow_m3_s=DESIGN_FLOW_M3_S, curves=tuple(curves), segments=(), findings=findings)
     if not with_pump:
@@ -134,7 +132,7 @@ def sample_findings() -> tuple[Finding, ...]:
     return (
         Finding("critical", "npsh_insufficient", "NPSH available 2.1 m is below NPSH required 3.0 m.",
                 "pump 'Invented pump A', 2 pumps, max static, aged pipe", "Lower the pump.",
-                ("scenario", "2 pumps, max static, aged pipe")),
+                ("scenario", ("max", "aged", 2, 1.0))),
         Finding("warning", "velocity_high", "Velocity 2.9 m/s is above the maximum 2.5 m/s.",
                 "segment 'Rising main' (delivery)", "Try a larger diameter.", ("segment", 2)),
         Finding("warning", "outside_preferred", "Runs at 135 % of best-efficiency flow.",

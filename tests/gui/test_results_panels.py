@@ -7,7 +7,7 @@ from PySide6.QtCore import QModelIndex, Qt
 from PySide6.QtGui import QImage
 
 from app.results.checks_panel import ChecksPanel
-from app.results.formatting import format_number
+from hydraulics.number_format import readout_number
 from app.results.operating_points_table import (
     COLUMNS,
     FIRST_VALUE_COLUMN,
@@ -137,17 +137,17 @@ def test_values_shown_in_display_units(unit_system):
     def shown(title: str) -> str:
         return model.data(model.index(row, _column(title)))
 
-    assert shown("Flow") == format_number(point.flow_m3_s * flow_factor)
-    assert shown("Flow per") == format_number(point.flow_per_pump_m3_s * flow_factor)
-    assert shown("Head") == format_number(point.head_m * head_factor)
-    assert shown("Efficiency") == format_number(point.efficiency * 100.0, 3, 1)
-    assert shown("Shaft power") == format_number(point.shaft_power_total_w * power_factor)
-    assert shown("Input power") == format_number(point.input_power_w * power_factor)
-    assert shown("Specific") == format_number(point.specific_energy_kwh_m3 * energy_factor, 3, 4)
-    assert shown("NPSH\navailable") == format_number(point.npsh_available_m * head_factor)
-    assert shown("NPSH\nmargin") == format_number(point.npsh_margin_m * head_factor)
-    assert shown("NPSH\nratio") == format_number(point.npsh_margin_ratio, 3, 2)
-    assert shown("Share of") == format_number(point.bep_flow_ratio * 100.0, 3, 0)
+    assert shown("Flow") == readout_number(point.flow_m3_s * flow_factor)
+    assert shown("Flow per") == readout_number(point.flow_per_pump_m3_s * flow_factor)
+    assert shown("Head") == readout_number(point.head_m * head_factor)
+    assert shown("Efficiency") == readout_number(point.efficiency * 100.0, 3, 1)
+    assert shown("Shaft power") == readout_number(point.shaft_power_total_w * power_factor)
+    assert shown("Input power") == readout_number(point.input_power_w * power_factor)
+    assert shown("Specific") == readout_number(point.specific_energy_kwh_m3 * energy_factor, 3, 4)
+    assert shown("NPSH\navailable") == readout_number(point.npsh_available_m * head_factor)
+    assert shown("NPSH\nmargin") == readout_number(point.npsh_margin_m * head_factor)
+    assert shown("NPSH\nratio") == readout_number(point.npsh_margin_ratio, 3, 2)
+    assert shown("Share of") == readout_number(point.bep_flow_ratio * 100.0, 3, 0)
     assert shown("Speed") == "100"
     assert shown("Extrapolated") == "no"
     # the stored value stays SI behind the display
