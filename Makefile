@@ -5,7 +5,7 @@ PY := $(VENV)/bin/python
 STAMP := $(VENV)/.installed
 SAMPLE := hilltop_booster
 
-.PHONY: run test bench install clean
+.PHONY: run test lint typecheck bench install clean
 
 $(PY):
 	$(PYTHON) -m venv $(VENV)
@@ -22,8 +22,14 @@ run: $(STAMP)
 	$(PY) -m app.platform_check
 	$(PY) -m app --sample $(SAMPLE)
 
-test: $(STAMP)
+test: lint typecheck
 	QT_QPA_PLATFORM=offscreen $(PY) -m pytest
+
+lint: $(STAMP)
+	$(PY) -m ruff check .
+
+typecheck: $(STAMP)
+	$(PY) -m mypy
 
 bench: $(STAMP)
 	QT_QPA_PLATFORM=offscreen $(PY) benchmarks/run_benchmarks.py
