@@ -18,8 +18,15 @@ Versions outside the range a migration can handle (not a whole number, below 1, 
 program) pass through unchanged, so the reader refuses them with its own message.  A missing step
 between the file's version and the current one is an error naming both versions.
 
-The registry is empty while the format is at version 1.  ``sample_projects/README.md`` explains
-how to add a migration.
+Registered steps:
+
+* 1 → 2 (:func:`v1_to_v2`): the station as built.  Every segment says what it carries
+  (``"carries"``: ``"pump"`` for a pump's own branch, ``"station"`` for common pipework) and the
+  project has a profile of its main (``"profile"``, a list of chainage/elevation points).  A
+  version-1 file knew only common pipework and no profile, so every segment becomes
+  ``"station"`` and the profile is empty: the file solves exactly as before.
+
+``sample_projects/README.md`` explains how to add a migration.
 """
 
 from __future__ import annotations
@@ -92,3 +99,18 @@ def migrate(data: Any, target_version: int) -> Any:
                 f"returned {type(result).__name__}, not a dictionary")
         current = {**result, "version": step_from + 1}
     return current
+
+
+@migration(1)
+def v1_to_v2(data: Mapping[str, Any]) -> dict[str, Any]:
+    """Format 1 → 2: every segment carries the station flow; the main has no profile yet.
+
+    >>> v1_to_v2({"version": 1, "segments": [{"name": "Main"}]})
+    {'version': 1, 'segments': [{'name': 'Main', 'carries': 'station'}], 'profile': []}
+    """
+    segments = data.get("segments")
+    upgraded = dict(data)
+    if isinstance(segments, list):
+        upgraded["segments"] = [{**s, "carries": "station"} if isinstance(s, dict) else s for s in segments]
+    upgraded.setdefault("profile", [])
+    return upgraded

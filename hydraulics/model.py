@@ -6,9 +6,9 @@ metres per second, ``_kg_m3`` kilograms per cubic metre, ``_w`` watts).  Ratios
 (efficiency, speed ratio) are plain fractions, never percentages.
 
 The model is immutable: an edit builds a new object with :func:`dataclasses.replace`.
-Validation of user input (ranges, dimensions) happens at the edges (file reader,
-table models); :func:`validate_project` is the single place that states the allowed
-ranges, so the window and the file reader report the same limits.
+Units are parsed at the edges (file reader, table cells); every rule a project must
+satisfy is stated once, in :func:`hydraulics.validation.validate_project`, which the
+file reader, the command line and the window all call.
 """
 
 from __future__ import annotations
@@ -17,6 +17,9 @@ from dataclasses import dataclass, field
 from typing import Literal
 
 Side = Literal["suction", "delivery"]
+Carries = Literal["pump", "station"]
+"""What a segment carries: ``"pump"``, the flow of one running pump (a pump's own suction or
+discharge branch); ``"station"``, the station flow (common suction header, manifold, main)."""
 FrictionMethod = Literal["darcy_weisbach", "hazen_williams"]
 PipeState = Literal["new", "aged"]
 StaticCase = Literal["min", "max"]
@@ -107,11 +110,16 @@ class Fitting:
 
     ``fitting_id`` names an entry of the fittings catalogue; ``k_override`` when
     given replaces the catalogue K of one fitting (K refers to the segment velocity).
+    A reducer or expander sits at the inlet of its segment: ``other_diameter_m`` is the
+    bore upstream of it (``None``: the bore of the previous segment in flow order) and
+    ``angle_deg`` its included cone angle (``None``: a sudden change of bore).
     """
 
     fitting_id: str
     count: int = 1
     k_override: float | None = None
+    angle_deg: float | None = None
+    other_diameter_m: float | None = None
 
 
 @dataclass(frozen=True)
@@ -122,7 +130,11 @@ class Segment:
     ``nominal_size`` are set the diameter came from the pipe-series catalogue and the
     window steps through that series; otherwise it was typed.
     ``roughness_new_m``/``roughness_aged_m``/``hw_c_new``/``hw_c_aged`` override the
-    material catalogue when not ``None``.
+    material catalogue when not ``None``.  ``carries`` says whether the segment is part
+    of each pump's own branch (``"pump"``: it carries one running pump's flow, and idle
+    pumps' branches carry nothing) or common pipework (``"station"``: the station flow).
+    Flow order: station suction, pump suction branch, pump, pump discharge branch,
+    station delivery (manifold and main), each in table order.
     """
 
     name: str
@@ -140,6 +152,21 @@ class Segment:
     roughness_aged_m: float | None = None
     hw_c_new: float | None = None
     hw_c_aged: float | None = None
+    carries: Carries = "station"
+
+
+@dataclass(frozen=True)
+class ProfilePoint:
+    """One point of the main's longitudinal profile: pipe elevation at a chainage.
+
+    Chainage runs along the common delivery pipework (the ``"station"`` delivery
+    segments in table order, laid end to end from chainage 0); the pipe elevation is
+    linear between points.  ``air_valve`` marks a vented summit.
+    """
+
+    chainage_m: float
+    elevation_m: float
+    air_valve: bool = False
 
 
 # --------------------------------------------------------------------------- pumps
@@ -232,6 +259,7 @@ class Project:
     energy: EnergyInputs = field(default_factory=EnergyInputs)
     flow_grid_max_factor: float = 1.6
     notes: str = ""
+    profile: tuple[ProfilePoint, ...] = ()
 
     def pump(self, pump_id: str) -> PumpModel | None:
         """The pump model with ``pump_id``, or ``None``."""

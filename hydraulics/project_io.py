@@ -31,6 +31,7 @@ from hydraulics.model import (
     Fitting,
     ModelError,
     PressurisedDelivery,
+    ProfilePoint,
     Project,
     PumpModel,
     Segment,
@@ -42,7 +43,7 @@ from hydraulics.model import (
 from hydraulics.validation import validate_project
 
 FORMAT_NAME = "pumpsketch-project"
-FORMAT_VERSION = 1
+FORMAT_VERSION = 2
 FILE_SUFFIX = ".pumpsketch.json"
 
 
@@ -205,15 +206,25 @@ class _Reader:
         )
 
     def fitting(self, node: Any, path: str) -> Fitting:
-        node = self.obj(node, path, frozenset({"type", "count", "k_override"}))
+        node = self.obj(node, path, frozenset({"type", "count", "k_override", "angle_deg", "other_diameter"}))
         return Fitting(
             fitting_id=self.text(node, "type", path),
             count=self.integer(node, "count", path, default=1),
             k_override=self.number(node, "k_override", path, required=False),
+            angle_deg=self.number(node, "angle_deg", path, required=False),
+            other_diameter_m=self.quantity(node, "other_diameter", path, "diameter", required=False),
+        )
+
+    def profile_point(self, node: Any, path: str) -> ProfilePoint:
+        node = self.obj(node, path, frozenset({"chainage", "elevation", "air_valve"}))
+        return ProfilePoint(
+            chainage_m=self.quantity(node, "chainage", path, "length"),
+            elevation_m=self.quantity(node, "elevation", path, "elevation"),
+            air_valve=self.boolean(node, "air_valve", path, default=False),
         )
 
     def segment(self, node: Any, path: str) -> Segment:
-        node = self.obj(node, path, frozenset({"name", "side", "material", "pipe_series", "nominal_size", "internal_diameter", "length", "start_elevation", "end_elevation", "parallel_pipes", "roughness_new", "roughness_aged", "hw_c_new", "hw_c_aged", "fittings"}))
+        node = self.obj(node, path, frozenset({"name", "side", "material", "pipe_series", "nominal_size", "internal_diameter", "length", "start_elevation", "end_elevation", "parallel_pipes", "roughness_new", "roughness_aged", "hw_c_new", "hw_c_aged", "fittings", "carries"}))
         series_id = self.optional_text(node, "pipe_series", path)
         nominal = self.optional_text(node, "nominal_size", path)
         if (series_id is None) != (nominal is None):
@@ -227,6 +238,9 @@ class _Reader:
         side = self.text(node, "side", path)
         if side not in ("suction", "delivery"):
             raise ProjectFileError(_join(path, "side"), f"must be 'suction' or 'delivery', got {side!r}")
+        carries = self.text(node, "carries", path)
+        if carries not in ("pump", "station"):
+            raise ProjectFileError(_join(path, "carries"), f"must be 'pump' or 'station', got {carries!r}")
         return Segment(
             name=self.text(node, "name", path),
             side=side,  # type: ignore[arg-type]
@@ -243,6 +257,7 @@ class _Reader:
             roughness_aged_m=self.quantity(node, "roughness_aged", path, "roughness", required=False),
             hw_c_new=self.number(node, "hw_c_new", path, required=False),
             hw_c_aged=self.number(node, "hw_c_aged", path, required=False),
+            carries=carries,  # type: ignore[arg-type]
         )
 
     def pump(self, node: Any, path: str) -> PumpModel:
@@ -347,7 +362,7 @@ class _Reader:
         )
 
     def project(self, data: Any) -> Project:
-        root = self.obj(data, "(file)", frozenset({"format", "version", "name", "notes", "fluid", "site", "friction_method", "segments", "pumps", "arrangement", "criteria", "energy", "flow_grid_max_factor"}))
+        root = self.obj(data, "(file)", frozenset({"format", "version", "name", "notes", "fluid", "site", "friction_method", "segments", "pumps", "arrangement", "criteria", "energy", "flow_grid_max_factor", "profile"}))
         fmt = root.get("format")
         if fmt != FORMAT_NAME:
             raise ProjectFileError("format", f"not a PumpSketch project (expected {FORMAT_NAME!r}, got {fmt!r})")
@@ -372,6 +387,9 @@ class _Reader:
         if method not in ("darcy_weisbach", "hazen_williams"):
             raise ProjectFileError("friction_method", f"must be 'darcy_weisbach' or 'hazen_williams', got {method!r}")
         arrangement_node = root.get("arrangement")
+        profile_node = self.get(root, "profile", "")
+        if not isinstance(profile_node, list):
+            raise ProjectFileError("profile", f"expected a list, got {_kind(profile_node)}")
         return Project(
             name=self.text(root, "name", "", default="Untitled"),
             notes=self.text(root, "notes", "", default=""),
@@ -384,6 +402,7 @@ class _Reader:
             criteria=self.criteria(root.get("criteria") or {}),
             energy=self.energy(root.get("energy") or {}),
             flow_grid_max_factor=self.number(root, "flow_grid_max_factor", "", default=1.6),
+            profile=tuple(self.profile_point(p, f"profile[{i}]") for i, p in enumerate(profile_node)),
         )
 
 
@@ -564,7 +583,7 @@ def project_to_dict(project: Project) -> dict:
     segments = []
     for s in project.segments:
         segments.append(_drop_none({
-            "name": s.name, "side": s.side, "material": s.material_id,
+            "name": s.name, "side": s.side, "carries": s.carries, "material": s.material_id,
             "pipe_series": s.pipe_series, "nominal_size": s.nominal_size,
             "internal_diameter": _q(s.internal_diameter_m, "diameter"),
             "length": _q(s.length_m, "length"),
@@ -574,7 +593,9 @@ def project_to_dict(project: Project) -> dict:
             "roughness_new": _q(s.roughness_new_m, "roughness"),
             "roughness_aged": _q(s.roughness_aged_m, "roughness"),
             "hw_c_new": s.hw_c_new, "hw_c_aged": s.hw_c_aged,
-            "fittings": [_drop_none({"type": f.fitting_id, "count": f.count, "k_override": f.k_override})
+            "fittings": [_drop_none({"type": f.fitting_id, "count": f.count, "k_override": f.k_override,
+                                     "angle_deg": f.angle_deg,
+                                     "other_diameter": _q(f.other_diameter_m, "diameter")})
                          for f in s.fittings],
         }))
     pumps = []
@@ -634,6 +655,8 @@ def project_to_dict(project: Project) -> dict:
         "criteria": criteria,
         "energy": energy,
         "flow_grid_max_factor": project.flow_grid_max_factor,
+        "profile": [{"chainage": _q(p.chainage_m, "length"), "elevation": _q(p.elevation_m, "elevation"),
+                     "air_valve": p.air_valve} for p in project.profile],
     })
 
 

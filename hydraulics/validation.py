@@ -11,6 +11,7 @@ typing slip (a negative length, a 30 m pipe bore), not unusual designs.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 from hydraulics.model import (
@@ -19,6 +20,7 @@ from hydraulics.model import (
     EnergyInputs,
     ModelError,
     PressurisedDelivery,
+    ProfilePoint,
     Project,
     PumpModel,
     Segment,
@@ -107,6 +109,11 @@ LIMITS: dict[str, Limit] = {
     "segment.hw_c": Limit("Hazen–Williams C", "dimensionless", 40.0, 160.0),
     "fitting.count": Limit("fitting count", "dimensionless", 0, 1000, integer=True),
     "fitting.k_override": Limit("K override", "dimensionless", 0.0, 1000.0),
+    "fitting.angle_deg": Limit("cone angle", "dimensionless", 1.0, 180.0),
+    "fitting.other_diameter_m": Limit("bore upstream of the fitting", "diameter", 0.005, 5.0),
+    # profile of the main
+    "profile.chainage_m": Limit("chainage", "length", 0.0, 1_000_000.0),
+    "profile.elevation_m": Limit("pipe elevation", "elevation", -1000.0, 9000.0),
     # arrangement
     "arrangement.duty_count": Limit("duty pumps", "dimensionless", 1, 8, integer=True),
     "arrangement.standby_count": Limit("standby pumps", "dimensionless", 0, 8, integer=True),
@@ -205,6 +212,8 @@ def validate_segment(segment: Segment, path: str) -> None:
         raise ModelError(f"{path}.name", "a segment needs a name")
     if segment.side not in ("suction", "delivery"):
         raise ModelError(f"{path}.side", f"side must be 'suction' or 'delivery'; got {segment.side!r}")
+    if segment.carries not in ("pump", "station"):
+        raise ModelError(f"{path}.carries", f"carries must be 'pump' or 'station'; got {segment.carries!r}")
     check("segment.length_m", segment.length_m, f"{path}.length")
     check("segment.internal_diameter_m", segment.internal_diameter_m, f"{path}.internal_diameter")
     _optional("segment.elevation_m", segment.start_elevation_m, f"{path}.start_elevation")
@@ -218,6 +227,28 @@ def validate_segment(segment: Segment, path: str) -> None:
         fpath = f"{path}.fittings[{j}]"
         check("fitting.count", fitting.count, f"{fpath}.count")
         _optional("fitting.k_override", fitting.k_override, f"{fpath}.k_override")
+        _optional("fitting.angle_deg", fitting.angle_deg, f"{fpath}.angle_deg")
+        _optional("fitting.other_diameter_m", fitting.other_diameter_m, f"{fpath}.other_diameter")
+
+
+def validate_profile(profile: Sequence[ProfilePoint], path: str = "profile") -> None:
+    """Check the main's profile: chainage and elevation in range, chainage strictly increasing.
+
+    An empty profile is allowed (the main then has no profile); one with points needs at
+    least two.
+    """
+    if len(profile) == 1:
+        raise ModelError(path, "a profile needs at least two points (or none)")
+    previous: float | None = None
+    for i, point in enumerate(profile):
+        chainage = check("profile.chainage_m", point.chainage_m, f"{path}[{i}].chainage")
+        check("profile.elevation_m", point.elevation_m, f"{path}[{i}].elevation")
+        if not isinstance(point.air_valve, bool):
+            raise ModelError(f"{path}[{i}].air_valve", f"air valve must be true or false; got {point.air_valve!r}")
+        if previous is not None and chainage <= previous:
+            raise ModelError(f"{path}[{i}].chainage",
+                             f"chainage must increase from point to point (point {i + 1} is not beyond point {i})")
+        previous = chainage
 
 
 def require_pump_points(count: int, field_path: str) -> None:
@@ -343,3 +374,4 @@ def validate_project(project: Project) -> None:
     validate_criteria(project.criteria)
     validate_energy(project.energy)
     check("project.flow_grid_max_factor", project.flow_grid_max_factor, "flow_grid_max_factor")
+    validate_profile(project.profile)

@@ -1,8 +1,8 @@
 """The migration seam of the project file format, and the frozen version-1 files.
 
-The steps used here are synthetic (the format is at version 1, so none is registered yet):
-they are small made-up changes whose only purpose is to show the chaining, the purity and
-the errors of :func:`hydraulics.format_migrations.migrate`.
+Most steps used here are synthetic: small made-up changes whose only purpose is to show the
+chaining, the purity and the errors of :func:`hydraulics.format_migrations.migrate`.  The real
+step 1 → 2 (the station as built) is tested at the end, on the frozen version-1 files.
 """
 
 import copy
@@ -120,7 +120,7 @@ def test_the_real_registry_reaches_the_current_version():
 # --------------------------------------------------------------------------- through the reader
 def test_loading_migrates_an_older_file_and_saving_writes_the_new_version(registry, monkeypatch, tmp_path):
     monkeypatch.setattr(project_io, "FORMAT_VERSION", 2)
-    registry[1] = lambda data: {**data, "name": data["name"] + " [v2]"}  # synthetic step
+    registry[1] = lambda data: {**format_migrations.v1_to_v2(data), "name": data["name"] + " [v2]"}
     path = V1_FILES[0]
     before = path.read_bytes()
     project = load_project(path)
@@ -177,3 +177,31 @@ def test_every_version_1_file_loads_and_solves(path):
     assert results["project"] == project.name
     assert len(results["system_curves"]) == 4
     assert any(point["flow_m3_s"] is not None for point in results["operating_points"])
+
+
+# --------------------------------------------------------------------------- the real step 1 -> 2
+def test_step_1_to_2_makes_every_segment_common_pipework_and_adds_an_empty_profile():
+    data = json.loads(V1_FILES[0].read_text(encoding="utf-8"))
+    before = copy.deepcopy(data)
+    upgraded = migrate(data, 2)
+    assert data == before
+    assert upgraded["version"] == 2 and upgraded["profile"] == []
+    assert {s["carries"] for s in upgraded["segments"]} == {"station"}
+    assert [{k: v for k, v in s.items() if k != "carries"} for s in upgraded["segments"]] == before["segments"]
+
+
+# Duty points of the frozen files as solved by the version-1 program (a regression record taken
+# before format 2 existed, at the arrangement's own speed): the migrated files must solve the same.
+V1_DUTY_RECORD = Path(__file__).resolve().parent / "fixtures" / "format_v1_duty_points.json"
+
+
+@pytest.mark.parametrize("path", V1_FILES, ids=lambda p: p.name)
+def test_every_version_1_file_solves_as_the_version_1_program_did(path):
+    record = json.loads(V1_DUTY_RECORD.read_text(encoding="utf-8"))[path.name]
+    points = solution_to_json_dict(solve(load_project(path)))["operating_points"]
+    got = [(p["flow_m3_s"], p["head_m"]) for p in points]
+    assert len(got) == len(record)
+    for (flow, head), (flow_was, head_was) in zip(got, record, strict=True):
+        assert (flow is None) == (flow_was is None)
+        if flow is not None:
+            assert flow == pytest.approx(flow_was, rel=1e-9) and head == pytest.approx(head_was, rel=1e-9)
