@@ -276,8 +276,8 @@ def bore_change_k(
 
 def transition_angle_deg(
     entry_angle_deg: float | None, row_angle_deg: float | None, kind: str, field_path: str = "fitting",
-) -> float | None:
-    """The cone angle to use for a reducer or expander row (``None`` = sudden).
+) -> float:
+    """The included cone angle [°] to use for a reducer or expander row (180 = sudden).
 
     ``entry_angle_deg`` is the angle fixed by the catalogue entry (180° for the sudden
     entries, ``None`` for the conical ones, whose angle the row must give);
