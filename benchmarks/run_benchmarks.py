@@ -58,7 +58,9 @@ def median_ms(func, repeats: int = 51, warmup: int = 3) -> float:
 def generated_project(n_segments: int = 100, n_fittings: int = 300, seed: int = 7) -> Project:
     """A synthetic project (benchmark data only): random diameters, lengths and fittings."""
     rng = np.random.default_rng(seed)
-    ids = sorted(fittings_catalogue.fitting_catalogue())
+    # Fittings whose K comes from the catalogue alone (not bore changes or user K rows).
+    ids = sorted(fid for fid, entry in fittings_catalogue.fitting_catalogue().items()
+                 if entry.method in ("constant", "crane"))
     materials = ["pe100", "ductile_iron_cml", "steel_new", "pvc_u"]
     per_segment = np.bincount(rng.integers(0, n_segments, n_fittings), minlength=n_segments)
     segments = []

@@ -3,7 +3,10 @@
 A fitting's loss is h_m = K v²/(2g), with K referred to the mean velocity of the segment
 that holds the fitting.  The catalogue (``resources/fittings.json``) gives K either as a
 constant or by the Crane Technical Paper 410 method K = n·f_T, where f_T is the fully
-turbulent friction factor of clean commercial steel pipe of the fitting's size.
+turbulent friction factor of clean commercial steel pipe of the fitting's size.  Reducers and
+expanders (methods ``"reducer"``/``"expander"``) have a K that depends on the two bores and
+the cone angle (:mod:`hydraulics.bore_change`); a ``"user_k"`` fitting's K is the row's own
+K override.
 
 Each catalogue entry names its source; the file's ``source_notes`` say how to read them.
 """
@@ -22,6 +25,7 @@ from typing import Literal
 import numpy as np
 from numpy.typing import ArrayLike
 
+from hydraulics.bore_change import SUDDEN_ANGLE_DEG
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.friction import fully_turbulent_friction_factor
 from hydraulics.model import Fitting, ModelError
@@ -42,7 +46,10 @@ CRANE_STEEL_ROUGHNESS_M = 0.00015 * 0.3048
 K_OVERRIDE_MAX = 1000.0
 """Largest K a user may give as an override (same range as hydraulics.validation)."""
 
-FittingMethod = Literal["constant", "crane"]
+FittingMethod = Literal["constant", "crane", "reducer", "expander", "user_k"]
+
+BORE_CHANGE_METHODS: tuple[FittingMethod, ...] = ("reducer", "expander")
+"""Methods whose K depends on the bores either side and the cone angle (hydraulics.bore_change)."""
 
 DEFAULT_CATALOGUE_PATH = resources_dir() / "fittings.json"
 """The fittings catalogue shipped with PumpSketch (in the bundled ``resources/``)."""
@@ -53,8 +60,11 @@ class FittingType:
     """One entry of the fittings catalogue.
 
     ``method`` ``"constant"`` uses ``k``; ``"crane"`` uses K = ``n``·f_T
-    (:func:`crane_friction_factor`).  ``source`` names the published value;
-    ``checked`` says how the test suite checks it (or that it is from memory).
+    (:func:`crane_friction_factor`); ``"reducer"``/``"expander"`` take K from the bores
+    and the cone angle (:func:`hydraulics.bore_change.bore_change_k`), ``angle_deg`` being
+    180 for a sudden entry and ``None`` where the row gives the angle; ``"user_k"`` takes
+    the row's K override.  ``source`` names the published value; ``checked`` says how the
+    test suite checks it (or that it is from memory).
     """
 
     fitting_id: str
@@ -65,6 +75,7 @@ class FittingType:
     category: str
     source: str
     checked: str = ""
+    angle_deg: float | None = None
 
 
 # --------------------------------------------------------------------------- catalogue
@@ -88,15 +99,28 @@ def _parse_entry(entry: object, path: Path, index: int) -> FittingType:
     if entry["category"] not in CATEGORIES:
         raise _entry_error(path, index, "category", f"must be one of {', '.join(CATEGORIES)}", entry["category"])
     method = entry["method"]
+    angle: float | None = None
     if method == "constant":
         k, n = _number(entry, "k", path, index), None
     elif method == "crane":
         k, n = None, _number(entry, "n", path, index)
+    elif method in BORE_CHANGE_METHODS:
+        k = n = None
+        if entry.get("angle_deg") is not None:
+            angle = _number(entry, "angle_deg", path, index)
+            if not 0.0 < angle <= SUDDEN_ANGLE_DEG:
+                raise _entry_error(
+                    path, index, "angle_deg", f"must be more than 0 and at most 180; got {angle:g}", angle
+                )
+    elif method == "user_k":
+        k = n = None
     else:
-        raise _entry_error(path, index, "method", "must be 'constant' or 'crane'", method)
+        raise _entry_error(
+            path, index, "method", "must be 'constant', 'crane', 'reducer', 'expander' or 'user_k'", method
+        )
     return FittingType(
         fitting_id=entry["id"], name=entry["name"], method=method, k=k, n=n,
-        category=entry["category"], source=entry["source"], checked=str(entry.get("checked", "")),
+        category=entry["category"], source=entry["source"], checked=str(entry.get("checked", "")), angle_deg=angle,
     )
 
 
@@ -189,16 +213,28 @@ def crane_friction_factor(internal_diameter_m: ArrayLike) -> float | np.ndarray:
     return float(f_t) if f_t.ndim == 0 else f_t
 
 
-def fitting_k(fitting_type: FittingType, internal_diameter_m: float) -> float:
+def fitting_k(fitting_type: FittingType, internal_diameter_m: float, field_path: str = "fitting") -> float:
     """K of one fitting of ``fitting_type`` in a pipe of internal diameter D [m].
 
     ``"constant"`` entries return their K; ``"crane"`` entries K = n·f_T(D)
     (Crane TP-410), with f_T from :func:`crane_friction_factor` at the segment's
-    internal diameter.
+    internal diameter.  Reducers, expanders and user-K fittings have no K of their own
+    here: a :class:`ModelError` at ``{field_path}.fitting_id`` (the K depends on the bores
+    and the cone angle, :mod:`hydraulics.bore_change`) or ``{field_path}.k_override``
+    (a user K fitting needs its K override) says so.
 
     >>> round(fitting_k(fitting_catalogue()["gate_valve_open"], 0.1023), 4)
     0.1303
     """
+    if fitting_type.method in BORE_CHANGE_METHODS:
+        raise ModelError(
+            f"{field_path}.fitting_id",
+            f"the K of a {fitting_type.method} depends on the bores either side and the cone angle, "
+            "not on this segment's bore alone; give its K as a K override",
+            fitting_type.fitting_id,
+        )
+    if fitting_type.method == "user_k":
+        raise ModelError(f"{field_path}.k_override", "a user K fitting needs its K: give the K override (0 to 1000)")
     if fitting_type.method == "constant":
         assert fitting_type.k is not None
         return fitting_type.k
@@ -223,7 +259,9 @@ def segment_k_total(
     ModelError
         ``fittings[j].fitting_id`` for an id not in the catalogue,
         ``fittings[j].count`` for a count that is not a whole number 0 or more,
-        ``fittings[j].k_override`` for an override outside 0–1000.
+        ``fittings[j].k_override`` for an override outside 0–1000, or missing on a user K
+        fitting; ``fittings[j].fitting_id`` for a reducer or expander without an override
+        (its K depends on the bores either side, :mod:`hydraulics.bore_change`).
         ``field_path`` prefixes the path (default ``"fittings"``).
 
     >>> from hydraulics.model import Fitting
@@ -245,7 +283,7 @@ def segment_k_total(
             )
         override = fitting.k_override
         if override is None:
-            k = fitting_k(fitting_type, internal_diameter_m)
+            k = fitting_k(fitting_type, internal_diameter_m, path)
         else:
             if (
                 isinstance(override, bool)

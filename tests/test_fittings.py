@@ -14,6 +14,7 @@ import fluids.friction
 import numpy as np
 import pytest
 
+from hydraulics.bore_change import bore_change_k, transition_angle_deg
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.fittings import (
     CATEGORIES,
@@ -72,6 +73,15 @@ CONSTANT_REFERENCES = {
     "exit": lambda d: ff.exit_normal(),
 }
 
+# Reducer and expander entries against fluids.fittings (Crane TP-410 contraction and enlargement
+# formulas): a function (D_small, D_large, cone angle) -> K referred to the small-bore velocity.
+BORE_CHANGE_REFERENCES = {
+    "reducer_sudden": lambda small, large, angle: ff.contraction_sharp(large, small, method="Crane"),
+    "reducer_conical": lambda small, large, angle: ff.contraction_conical_Crane(large, small, angle=angle),
+    "expander_sudden": lambda small, large, angle: ff.diffuser_sharp(small, large),
+    "expander_conical": lambda small, large, angle: ff.diffuser_conical(small, large, angle=angle, method="Crane"),
+}
+
 
 # --------------------------------------------------------------------------- catalogue
 def test_catalogue_loads_and_every_entry_names_its_source():
@@ -81,18 +91,20 @@ def test_catalogue_loads_and_every_entry_names_its_source():
     for fitting_id, entry in catalogue.items():
         assert isinstance(entry, FittingType) and entry.fitting_id == fitting_id
         assert entry.category in CATEGORIES
-        assert "Crane" in entry.source and entry.name
-        assert (entry.method == "constant") == (entry.k is not None) == (entry.n is None)
+        assert entry.name and ("Crane" in entry.source or entry.method == "user_k")
+        assert (entry.method == "constant") == (entry.k is not None)
+        assert (entry.method == "crane") == (entry.n is not None)
+        assert entry.angle_deg is None or entry.method in ("reducer", "expander")
 
 
 def test_entries_claimed_checked_are_the_ones_checked_here():
     catalogue = fitting_catalogue()
     checked_here = set(CRANE_REFERENCES) | set(BUTTERFLY_BANDS) | set(BEND_RATIOS) | set(MITRE_ANGLES)
-    checked_here |= set(CONSTANT_REFERENCES)
+    checked_here |= set(CONSTANT_REFERENCES) | set(BORE_CHANGE_REFERENCES)
     claimed = {fid for fid, entry in catalogue.items() if "fluids" in entry.checked}
     assert claimed == checked_here
     for fid, entry in catalogue.items():
-        if fid not in checked_here:
+        if fid not in checked_here and entry.method != "user_k":
             assert "from memory" in entry.checked
 
 
@@ -194,6 +206,44 @@ def test_constant_entries_match_fluids(fitting_id):
         assert fitting_k(entry, d) == pytest.approx(CONSTANT_REFERENCES[fitting_id](d), rel=1e-12)
 
 
+@pytest.mark.parametrize("fitting_id", sorted(BORE_CHANGE_REFERENCES))
+def test_reducer_and_expander_entries_match_fluids(fitting_id):
+    entry = fitting_catalogue()[fitting_id]
+    # Sudden entries fix the angle at 180°; conical entries take the row's angle, in both of
+    # Crane's regimes (θ ≤ 45° and θ > 45°).
+    row_angles = [None] if entry.angle_deg is not None else [10.0, 30.0, 60.0, 120.0]
+    for small, large in ((0.1023, 0.1541), (0.1541, 0.3032), (0.0525, 0.2027)):
+        segment, other = (small, large) if entry.method == "reducer" else (large, small)
+        for row_angle in row_angles:
+            angle = transition_angle_deg(entry.angle_deg, row_angle, entry.method)
+            k_small = BORE_CHANGE_REFERENCES[fitting_id](small, large, angle)
+            # fluids.fittings.change_K_basis: the K referred to the segment's own velocity.
+            expected = ff.change_K_basis(k_small, small, segment)
+            assert bore_change_k(entry.method, segment, other, angle) == pytest.approx(expected, rel=1e-12)
+
+
+def test_bore_change_and_user_k_entries_have_no_k_of_their_own():
+    catalogue = fitting_catalogue()
+    for fid in ("reducer_sudden", "reducer_conical", "expander_sudden", "expander_conical"):
+        with pytest.raises(ModelError, match="depends on the bores") as info:
+            fitting_k(catalogue[fid], 0.1, "segments[2].fittings[0]")
+        assert info.value.field_path == "segments[2].fittings[0].fitting_id"
+    with pytest.raises(ModelError, match="needs its K") as info:
+        fitting_k(catalogue["user_k"], 0.1)
+    assert info.value.field_path == "fitting.k_override"
+
+
+def test_user_k_fitting_takes_its_override_and_refuses_without_one():
+    assert segment_k_total([Fitting("user_k", 2, k_override=0.7), Fitting("exit")], 0.1) == pytest.approx(2.4)
+    with pytest.raises(ModelError) as info:
+        segment_k_total([Fitting("exit"), Fitting("user_k")], 0.1)
+    assert info.value.field_path == "fittings[1].k_override"
+    with pytest.raises(ModelError) as info:
+        segment_k_total([Fitting("reducer_conical")], 0.1, field_path="segments[1].fittings")
+    assert info.value.field_path == "segments[1].fittings[0].fitting_id"
+    assert segment_k_total([Fitting("reducer_conical", k_override=0.2)], 0.1) == 0.2
+
+
 # --------------------------------------------------------------------------- segment totals
 def test_segment_total_sums_count_times_k():
     d = 0.2027
@@ -289,12 +339,25 @@ def test_small_catalogue_file_loads(tmp_path):
         (_document(method="crane", k=None), "fittings.json: fittings[0].n"),
         (_document(category="pump"), "fittings.json: fittings[0].category"),
         (_document(source=""), "fittings.json: fittings[0].source"),
+        (_document(method="reducer", angle_deg=0.0), "fittings.json: fittings[0].angle_deg"),
+        (_document(method="expander", angle_deg=190.0), "fittings.json: fittings[0].angle_deg"),
+        (_document(method="expander", angle_deg="wide"), "fittings.json: fittings[0].angle_deg"),
     ],
 )
 def test_malformed_catalogue_is_refused_naming_the_field(tmp_path, document, field):
     with pytest.raises(ModelError) as info:
         load_fitting_catalogue(_write(tmp_path, document))
     assert info.value.field_path == field
+
+
+def test_bore_change_and_user_k_entries_load(tmp_path):
+    document = _document(method="reducer", angle_deg=180.0)
+    document["fittings"] += [{**document["fittings"][0], "id": "cone", "angle_deg": None},
+                             {**document["fittings"][0], "id": "mine", "method": "user_k"}]
+    catalogue = load_fitting_catalogue(_write(tmp_path, document))
+    assert catalogue["exit"].method == "reducer" and catalogue["exit"].angle_deg == 180.0
+    assert catalogue["cone"].angle_deg is None and catalogue["cone"].k is None and catalogue["cone"].n is None
+    assert catalogue["mine"].method == "user_k"
 
 
 def test_duplicate_ids_are_refused(tmp_path):
@@ -309,4 +372,6 @@ def test_shipped_file_is_the_documented_format():
     document = json.loads(DEFAULT_CATALOGUE_PATH.read_text(encoding="utf-8"))
     assert document["format"] == "pumpsketch-fittings" and document["version"] == 1
     assert document["categories"] == list(CATEGORIES)
-    assert all(math.isfinite(e.get("k") or e.get("n")) for e in document["fittings"])
+    numbered = [e for e in document["fittings"] if e["method"] in ("constant", "crane")]
+    assert all(math.isfinite(e.get("k") or e.get("n")) for e in numbered)
+    assert {e["method"] for e in document["fittings"]} == {"constant", "crane", "reducer", "expander", "user_k"}

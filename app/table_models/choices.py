@@ -72,5 +72,12 @@ def fitting_source(fitting_id: str) -> str:
     fitting_type = fittings.fitting_catalogue().get(fitting_id)
     if fitting_type is None:
         return "not in the fittings catalogue"
-    how = "constant K" if fitting_type.method == "constant" else f"K = {fitting_type.n:g} × f_T at the pipe bore"
+    if fitting_type.method == "constant":
+        how = "constant K"
+    elif fitting_type.method == "crane":
+        how = f"K = {fitting_type.n:g} × f_T at the pipe bore"
+    elif fitting_type.method == "user_k":
+        how = "K is the row's K override"
+    else:
+        how = "K from the bores either side and the cone angle"
     return f"{how}; source: {fitting_type.source}"
