@@ -35,7 +35,7 @@ from numpy.typing import ArrayLike, NDArray
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import ModelError, PipeState, StaticCase
-from hydraulics.number_format import readout_number
+from hydraulics.number_format import plain_number
 
 __all__ = [
     "FloatArray", "PipeProfile", "ProfileCoverage", "CrestControl", "GradeLine", "OperatingLosses",
@@ -450,7 +450,7 @@ class ProfileLine:
         """``"delivery"`` or ``"crest at 600 m"``."""
         if self.control_index == DELIVERY_CONTROL:
             return "delivery"
-        return f"crest at {readout_number(self.control_chainage_m)} m"
+        return f"crest at {plain_number(self.control_chainage_m)} m"
 
     def to_json_dict(self) -> dict[str, Any]:
         return {"label": self.label, "static": self.static, "pipe": self.pipe, "flow_m3_s": self.flow_m3_s,
