@@ -464,7 +464,9 @@ class ProfileResult:
     """The main's profile with the grade lines at the operating points and at rest.
 
     ``chainage_m``/``elevation_m`` shape ``(n_x,)``; ``air_valve_chainage_m`` shape ``(n_vented,)``;
-    ``segment_start_m``/``segment_end_m`` shape ``(n_segments,)``.
+    ``segment_start_m``/``segment_end_m`` shape ``(n_segments,)``.  ``segment_rating_pa`` is the
+    pressure rating of each segment (PN or allowable operating pressure of its pipe series, gauge),
+    NaN where the catalogue gives none; ``None`` when not looked up.
     """
 
     chainage_m: FloatArray
@@ -474,6 +476,7 @@ class ProfileResult:
     segment_end_m: FloatArray
     scenarios: tuple[ProfileLine, ...]
     at_rest: tuple[ProfileLine, ...]
+    segment_rating_pa: FloatArray | None = None
 
     def to_json_dict(self) -> dict[str, Any]:
         """Plain lists and numbers for a JSON document."""

@@ -19,6 +19,7 @@ from typing import TYPE_CHECKING, Any, Literal, TypeAlias
 import numpy as np
 from numpy.typing import NDArray
 
+from hydraulics.main_profile import ProfileLine, ProfileResult
 from hydraulics.model import PipeState, Project, StaticCase
 
 if TYPE_CHECKING:  # re-exported lazily (see __getattr__): fitting imports the optimiser
@@ -29,6 +30,7 @@ __all__ = [
     "FluidProperties", "SystemCurve", "SegmentResult", "Finding", "render_template", "finding",
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
     "SpeedForFlow", "VariableSpeedResult", "ScenarioEnergy", "EnergyResult", "Solution",
+    "ProfileLine", "ProfileResult",
 ]
 
 FloatArray: TypeAlias = NDArray[np.float64]
@@ -164,7 +166,9 @@ class PumpCurve:
     ``shaft_power_w`` is per pump; ``efficiency``, ``shaft_power_w``, ``npsh_required_m``
     are ``None`` without data.  The preferred-region bounds and the best-efficiency flow
     are station flows (per-pump value × pumps running) so they plot on the same axis;
-    ``None`` without efficiency data.
+    ``None`` without efficiency data.  ``head_at_manifold_m`` is the set's head as it acts
+    at the manifold, net of each pump's own suction and discharge branch losses at the
+    per-pump flow; ``None`` when the pipework has no pump branches.
     """
 
     pumps_running: int
@@ -180,6 +184,7 @@ class PumpCurve:
     bep_flow_m3_s: float | None
     preferred_flow_min_m3_s: float | None
     preferred_flow_max_m3_s: float | None
+    head_at_manifold_m: FloatArray | None = None
 
     def to_json_dict(self) -> dict[str, Any]:
         def listed(a: FloatArray | None) -> list[float | None] | None:
@@ -432,6 +437,7 @@ class Solution:
     pump_curves: tuple[PumpCurve, ...] = ()
     npsh_available_curve: NpshCurve | None = None
     complete: bool = True
+    profile: ProfileResult | None = None
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""
