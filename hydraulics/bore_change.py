@@ -225,7 +225,7 @@ def bore_change_k(
         ``{field_path}.fitting_id`` for a kind that is not a reducer or expander, or whose
         direction contradicts the bores (a reducer into a larger bore, an expander into a
         smaller one); ``{field_path}.other_diameter`` for a missing or out-of-range other bore;
-        ``{field_path}.angle`` for a cone angle outside 0–180°; ``internal_diameter``
+        ``{field_path}.angle_deg`` for a cone angle outside 0–180°; ``internal_diameter``
         for a segment bore outside the allowed range.
 
     >>> round(bore_change_k("expander", 0.2, 0.1, None), 6)    # sudden, K₁ = 0.5625, × 2⁴
@@ -248,7 +248,7 @@ def bore_change_k(
         if isinstance(angle_deg, bool) or not isinstance(angle_deg, (int, float)) or not math.isfinite(angle_deg) \
                 or not 0.0 < angle_deg <= SUDDEN_ANGLE_DEG:
             raise ModelError(
-                f"{field_path}.angle",
+                f"{field_path}.angle_deg",
                 f"included cone angle must be more than 0° and at most 180° (none for sudden); got {angle_deg!r}",
                 angle_deg,
             )
@@ -286,7 +286,7 @@ def transition_angle_deg(
     Raises
     ------
     ModelError
-        ``{field_path}.angle`` when a conical entry has no angle on its row, or a sudden
+        ``{field_path}.angle_deg`` when a conical entry has no angle on its row, or a sudden
         entry is given a different angle on its row.
 
     >>> transition_angle_deg(None, 20.0, "reducer"), transition_angle_deg(180.0, None, "reducer")
@@ -295,13 +295,13 @@ def transition_angle_deg(
     if entry_angle_deg is None:
         if row_angle_deg is None:
             raise ModelError(
-                f"{field_path}.angle",
+                f"{field_path}.angle_deg",
                 f"a conical {kind} needs its included cone angle, more than 0° and at most 180°",
             )
         return row_angle_deg
     if row_angle_deg is not None and row_angle_deg != entry_angle_deg:
         raise ModelError(
-            f"{field_path}.angle",
+            f"{field_path}.angle_deg",
             f"this {kind} is sudden; choose the conical {kind} to give a cone angle "
             f"(got {row_angle_deg!r}°)",
             row_angle_deg,

@@ -25,7 +25,7 @@ from typing import Literal
 import numpy as np
 from numpy.typing import ArrayLike
 
-from hydraulics.bore_change import SUDDEN_ANGLE_DEG
+from hydraulics.bore_change import SUDDEN_ANGLE_DEG, bore_change_k, transition_angle_deg
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.friction import fully_turbulent_friction_factor
 from hydraulics.model import Fitting, ModelError
@@ -247,12 +247,16 @@ def segment_k_total(
     internal_diameter_m: float,
     field_path: str = "fittings",
     catalogue: Mapping[str, FittingType] | None = None,
+    upstream_diameter_m: float | None = None,
 ) -> float:
     """Sum of K over the fitting rows of one segment: Σ count × K.
 
     K is the row's ``k_override`` when given, otherwise the catalogue K of its
-    ``fitting_id`` (:func:`fitting_k` at the segment's internal diameter).  The total
-    refers to the segment's own velocity.
+    ``fitting_id`` (:func:`fitting_k` at the segment's internal diameter).  A reducer or
+    expander sits at the segment's inlet: its K comes from the bores either side and its
+    cone angle (:func:`hydraulics.bore_change.bore_change_k`, Crane TP-410), the upstream
+    bore being the row's ``other_diameter_m`` or else ``upstream_diameter_m`` (the bore of
+    the previous segment in flow order).  The total refers to the segment's own velocity.
 
     Raises
     ------
@@ -282,7 +286,15 @@ def segment_k_total(
                 fitting.fitting_id,
             )
         override = fitting.k_override
-        if override is None:
+        if override is None and fitting_type.method in BORE_CHANGE_METHODS:
+            other = fitting.other_diameter_m if fitting.other_diameter_m is not None else upstream_diameter_m
+            if other is None:
+                raise ModelError(f"{path}.other_diameter",
+                                 f"a {fitting_type.method} on the first segment of its path needs the bore "
+                                 "upstream of it (give the other diameter)")
+            angle = transition_angle_deg(fitting_type.angle_deg, fitting.angle_deg, fitting_type.method, path)
+            k = bore_change_k(fitting_type.method, float(internal_diameter_m), other, angle, path)
+        elif override is None:
             k = fitting_k(fitting_type, internal_diameter_m, path)
         else:
             if (

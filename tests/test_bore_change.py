@@ -25,8 +25,8 @@ from hydraulics.bore_change import (
     transition_angle_deg,
     unfitted_bore_changes,
 )
-from hydraulics.fittings import minor_loss
-from hydraulics.model import ModelError
+from hydraulics.fittings import minor_loss, segment_k_total
+from hydraulics.model import Fitting, ModelError
 
 LARGE_M = 0.3032  # 12 in schedule 40 bore
 BETAS = (0.2, 0.4, 0.5, 0.7, 0.9, 0.99)
@@ -196,7 +196,7 @@ def test_bad_other_bore_is_refused(other):
 def test_bad_cone_angle_is_refused(angle):
     with pytest.raises(ModelError, match="cone angle") as info:
         bore_change_k("expander", 0.2, 0.1, angle, "segments[0].fittings[0]")  # type: ignore[arg-type]
-    assert info.value.field_path == "segments[0].fittings[0].angle"
+    assert info.value.field_path == "segments[0].fittings[0].angle_deg"
 
 
 def test_bad_segment_bore_is_refused():
@@ -224,10 +224,10 @@ def test_transition_angle_from_entry_and_row():
     assert transition_angle_deg(None, 20.0, "expander") == 20.0           # conical entry, row's angle
     with pytest.raises(ModelError, match="needs its included cone angle") as info:
         transition_angle_deg(None, None, "expander", "segments[1].fittings[0]")
-    assert info.value.field_path == "segments[1].fittings[0].angle"
+    assert info.value.field_path == "segments[1].fittings[0].angle_deg"
     with pytest.raises(ModelError, match="is sudden") as info:
         transition_angle_deg(180.0, 30.0, "reducer", "segments[1].fittings[0]")
-    assert info.value.field_path == "segments[1].fittings[0].angle"
+    assert info.value.field_path == "segments[1].fittings[0].angle_deg"
 
 
 # --------------------------------------------------------------------------- junction check
@@ -276,3 +276,22 @@ def test_every_unfitted_junction_of_a_path_is_found_in_flow_order():
     found = unfitted_bore_changes(iter(path))
     assert [(j.upstream_index, j.downstream_index) for j in found] == [(1, 2), (3, 4)]
     assert unfitted_bore_changes([]) == () and unfitted_bore_changes([PathSegment(0, 0.1)]) == ()
+
+
+# --------------------------------------------------------------------------- in a segment's K total
+def test_a_reducer_row_takes_its_k_from_the_bores_either_side():
+    # Reference: fluids.fittings.contraction_conical_Crane(Di1=0.2, Di2=0.15, angle=20) (reference
+    # library), K on the small (downstream) bore, which is this segment's own bore.
+    expected = ff.contraction_conical_Crane(Di1=0.2, Di2=0.15, angle=20.0)
+    given = segment_k_total([Fitting("reducer_conical", angle_deg=20.0, other_diameter_m=0.2)], 0.15)
+    from_upstream = segment_k_total([Fitting("reducer_conical", angle_deg=20.0)], 0.15, upstream_diameter_m=0.2)
+    assert given == pytest.approx(expected, rel=1e-12)
+    assert from_upstream == pytest.approx(expected, rel=1e-12)
+    # An override still replaces the method's K.
+    assert segment_k_total([Fitting("reducer_conical", k_override=0.3)], 0.15) == 0.3
+
+
+def test_a_reducer_with_no_upstream_bore_names_its_field():
+    with pytest.raises(ModelError) as info:
+        segment_k_total([Fitting("reducer_sudden")], 0.15, field_path="segments[0].fittings")
+    assert info.value.field_path == "segments[0].fittings[0].other_diameter"

@@ -238,9 +238,9 @@ def test_user_k_fitting_takes_its_override_and_refuses_without_one():
     with pytest.raises(ModelError) as info:
         segment_k_total([Fitting("exit"), Fitting("user_k")], 0.1)
     assert info.value.field_path == "fittings[1].k_override"
-    with pytest.raises(ModelError) as info:
+    with pytest.raises(ModelError) as info:  # a reducer needs the bore upstream of it (and its angle)
         segment_k_total([Fitting("reducer_conical")], 0.1, field_path="segments[1].fittings")
-    assert info.value.field_path == "segments[1].fittings[0].fitting_id"
+    assert info.value.field_path == "segments[1].fittings[0].other_diameter"
     assert segment_k_total([Fitting("reducer_conical", k_override=0.2)], 0.1) == 0.2
 
 
