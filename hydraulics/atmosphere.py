@@ -9,7 +9,8 @@ import numpy as np
 from hydraulics.constants import STANDARD_ATMOSPHERE_PA
 from hydraulics.model import ModelError
 
-__all__ = ["ALTITUDE_MIN_M", "ALTITUDE_MAX_M", "EARTH_RADIUS_M", "geopotential_altitude", "standard_atmosphere_pressure"]
+__all__ = ["ALTITUDE_MIN_M", "ALTITUDE_MAX_M", "EARTH_RADIUS_M", "geopotential_altitude",
+           "standard_atmosphere_pressure"]
 
 ALTITUDE_MIN_M: Final = -500.0
 """Lowest site altitude accepted (m above mean sea level)."""

@@ -36,11 +36,13 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 from fractions import Fraction
 from pathlib import Path
-from types import MappingProxyType
-from typing import Any
+from types import EllipsisType, MappingProxyType
+from typing import Any, TypeVar, overload
 
 from hydraulics.model import ModelError, PipeState
 from hydraulics.package_data import resources_dir
+
+_T = TypeVar("_T")
 
 RESOURCES_DIR = resources_dir()
 """Folder of the bundled catalogues (``resources/`` of the repository, installed as package data)."""
@@ -334,7 +336,7 @@ def thermoplastic_min_wall_mm(outside_diameter_mm: float, sdr: float) -> float:
     if not (math.isfinite(outside_diameter_mm) and outside_diameter_mm > 0.0):
         raise ModelError("outside_diameter_mm", "must be a positive, finite diameter in mm",
                          outside_diameter_mm)
-    exact_s = 10.0 ** (round(10.0 * math.log10(nominal_s)) / 10.0)
+    exact_s: float = 10.0 ** (round(10.0 * math.log10(nominal_s)) / 10.0)
     e = round(outside_diameter_mm / (2.0 * exact_s + 1.0), 2)
     return math.ceil(round(e * 10.0, 6)) / 10.0
 
@@ -557,7 +559,7 @@ def _read_json(path: Path, expected_format: str) -> dict[str, Any]:
     return data
 
 
-def _field(obj: dict, key: str, kind: type, path: Path, where: str) -> Any:
+def _field(obj: Mapping[str, object], key: str, kind: type[_T], path: Path, where: str) -> _T:
     entry = f"{where}.{key}" if where else key
     if key not in obj:
         raise CatalogueError(path, entry, "missing")
@@ -567,14 +569,14 @@ def _field(obj: dict, key: str, kind: type, path: Path, where: str) -> Any:
     return value
 
 
-def _text(obj: dict, key: str, path: Path, where: str, allow_empty: bool = False) -> str:
+def _text(obj: Mapping[str, object], key: str, path: Path, where: str, allow_empty: bool = False) -> str:
     value = _field(obj, key, str, path, where)
     if not allow_empty and not value.strip():
         raise CatalogueError(path, f"{where}.{key}" if where else key, "must not be empty", value)
     return value
 
 
-def _identifier(obj: dict, path: Path, where: str) -> str:
+def _identifier(obj: Mapping[str, object], path: Path, where: str) -> str:
     value = _text(obj, "id", path, where)
     if not _ID_PATTERN.match(value):
         raise CatalogueError(path, f"{where}.id" if where else "id",
@@ -582,8 +584,15 @@ def _identifier(obj: dict, path: Path, where: str) -> str:
     return value
 
 
-def _number(obj: dict, key: str, path: Path, where: str, low: float, high: float,
-            low_open: bool = False, default: Any = ...) -> Any:
+@overload
+def _number(obj: Mapping[str, object], key: str, path: Path, where: str, low: float, high: float,
+            low_open: bool = False, *, default: float | EllipsisType = ...) -> float: ...
+@overload
+def _number(obj: Mapping[str, object], key: str, path: Path, where: str, low: float, high: float,
+            low_open: bool = False, *, default: None) -> float | None: ...
+def _number(obj: Mapping[str, object], key: str, path: Path, where: str, low: float, high: float,
+            low_open: bool = False, *, default: float | None | EllipsisType = ...) -> float | None:
+    """A finite number within [low, high] (or (low, high]); ``default`` where missing, else refused."""
     entry = f"{where}.{key}" if where else key
     if key not in obj:
         if default is ...:
@@ -600,7 +609,7 @@ def _number(obj: dict, key: str, path: Path, where: str, low: float, high: float
     return float(value)
 
 
-def _no_unknown_keys(obj: dict, allowed: frozenset[str], path: Path, where: str) -> None:
+def _no_unknown_keys(obj: Mapping[str, object], allowed: frozenset[str], path: Path, where: str) -> None:
     unknown = sorted(set(obj) - allowed)
     if unknown:
         raise CatalogueError(path, where or "(top level)",

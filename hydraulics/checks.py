@@ -40,14 +40,18 @@ Speed-control codes are raised by :func:`hydraulics.variable_speed.variable_spee
 
 from __future__ import annotations
 
-from typing import Iterable, Sequence
+from collections.abc import Iterable, Sequence
+from typing import TYPE_CHECKING
 
-from hydraulics.model import Project
+from hydraulics.model import Criteria, ModelError, Project
 from hydraulics.number_format import fixed_decimals, percent_number
-from hydraulics.results import SEVERITY_ORDER, Finding, SegmentResult, finding
+from hydraulics.results import SEVERITY_ORDER, Finding, FindingTarget, OperatingPoint, SegmentResult, finding
+
+if TYPE_CHECKING:  # imported by the solve only where a pump is fitted
+    from hydraulics.pump_fit import FittedPump
 
 
-def _scenario_label(point) -> str:
+def _scenario_label(point: OperatingPoint) -> str:
     n = point.pumps_running
     pumps = "1 pump" if n == 1 else f"{n} pumps"
     speed = "" if abs(point.speed_ratio - 1.0) < 1e-9 else f" at {percent_number(point.speed_ratio)} % speed"
@@ -67,7 +71,7 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
     out: list[Finding] = []
     low_set = at_lowest_flow or at_design
     high_set = at_highest_flow or at_design
-    for seg_low, seg_high in zip(low_set, high_set):
+    for seg_low, seg_high in zip(low_set, high_set, strict=True):
         if seg_low.side == "suction":
             v_min, v_max = c.suction_velocity_min_m_s, c.suction_velocity_max_m_s
         else:
@@ -143,9 +147,12 @@ def regime_findings(at_design: Iterable[SegmentResult]) -> list[Finding]:
     return out
 
 
-def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m: float) -> list[Finding]:
+def pump_findings(project: Project, fitted: FittedPump, points: Sequence[OperatingPoint],
+                  static_head_max_m: float) -> list[Finding]:
     """Findings about the pump, its arrangement and every operating point."""
     arrangement = project.arrangement
+    if arrangement is None:
+        raise ModelError("arrangement", "the pump checks need a pump arrangement")
     criteria = project.criteria
     pump_where = f"pump '{fitted.pump.name}'"
     pump_target = ("pump", fitted.pump.pump_id)
@@ -186,7 +193,7 @@ def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m:
                 out.append(Finding("critical", "no_operating_point", f"No operating point: {point.reason}.", where,
                                    remedy, target))
             continue
-        if point.extrapolated:
+        if point.extrapolated and point.flow_per_pump_m3_s is not None:
             out.append(finding(
                 "warning", "extrapolated_duty",
                 "The duty point at {q} per pump lies beyond the pump's tested data; the fitted curve is "
@@ -197,7 +204,7 @@ def pump_findings(project: Project, fitted, points: Sequence, static_head_max_m:
     return out
 
 
-def _npsh_findings(point, criteria, where, target) -> list[Finding]:
+def _npsh_findings(point: OperatingPoint, criteria: Criteria, where: str, target: FindingTarget) -> list[Finding]:
     npsha, npshr = point.npsh_available_m, point.npsh_required_m
     if npsha is None or npshr is None:
         return []
@@ -219,7 +226,7 @@ def _npsh_findings(point, criteria, where, target) -> list[Finding]:
     return []
 
 
-def _region_findings(point, criteria, where, target) -> list[Finding]:
+def _region_findings(point: OperatingPoint, criteria: Criteria, where: str, target: FindingTarget) -> list[Finding]:
     ratio = point.bep_flow_ratio
     if ratio is None:
         return []

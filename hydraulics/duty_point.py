@@ -32,11 +32,12 @@ Nothing here raises for these cases; each gets a status and a plain reason.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Callable
+from typing import Protocol
 
 import numpy as np
-from numpy.typing import NDArray
+from numpy.typing import ArrayLike, NDArray
 
 from hydraulics.pump_arrangement import arrangement_head
 from hydraulics.pump_fit import FittedPump
@@ -72,18 +73,28 @@ HEAD_TOLERANCE_M = 1e-9
 
 _EPS = np.finfo(float).eps
 
+ReasonTemplate = tuple[str, tuple[QuotedValue, ...]]
+"""A reason as ``(template, values)``: ``{name}`` placeholders and their quoted values."""
+
+
+class SystemHeads(Protocol):
+    """What the duty-point solver needs of a system: its head, elementwise, non-decreasing in flow."""
+
+    def head(self, flow_m3_s: ArrayLike, static_m: ArrayLike, aged: ArrayLike) -> FloatArray: ...
+
 
 @dataclass(frozen=True, eq=False)
 class RootResult:
     """Roots from :func:`bracketed_roots` (arrays of the bracket's shape)."""
 
-    x: np.ndarray
-    f: np.ndarray
-    converged: np.ndarray
+    x: FloatArray
+    f: FloatArray
+    converged: NDArray[np.bool_]
     iterations: int
 
 
-def bracketed_roots(func: Callable[[np.ndarray], np.ndarray], a, b, fa=None, fb=None, active=None,
+def bracketed_roots(func: Callable[[FloatArray], ArrayLike], a: ArrayLike, b: ArrayLike,
+                    fa: ArrayLike | None = None, fb: ArrayLike | None = None, active: ArrayLike | None = None,
                     ftol: float = HEAD_TOLERANCE_M, xtol: float = 0.0, maxiter: int = 100) -> RootResult:
     """Vectorised Chandrupatla (1997) root finder on brackets [a, b] with f(a) f(b) ≤ 0.
 
@@ -99,14 +110,27 @@ def bracketed_roots(func: Callable[[np.ndarray], np.ndarray], a, b, fa=None, fb=
     >>> [round(float(v), 12) for v in r.x], bool(r.converged.all())
     ([1.414213562373, 3.0], True)
     """
-    a = np.array(a, dtype=float)
-    b = np.array(b, dtype=float)
+    return _bracketed_roots(func, *_bracket_arrays(func, a, b, fa, fb, active), ftol, xtol, maxiter)
+
+
+def _bracket_arrays(func: Callable[[FloatArray], ArrayLike], a_in: ArrayLike, b_in: ArrayLike,
+                    fa_in: ArrayLike | None, fb_in: ArrayLike | None, active_in: ArrayLike | None,
+                    ) -> tuple[FloatArray, FloatArray, FloatArray, FloatArray, NDArray[np.bool_]]:
+    """The bracket ends, their function values and the mask to solve, as owned float64 arrays."""
+    a = np.array(a_in, dtype=np.float64)
+    b = np.array(b_in, dtype=np.float64)
     if a.shape != b.shape:
         a, b = (v.copy() for v in np.broadcast_arrays(a, b))
-    fa = np.asarray(func(a), dtype=float).copy() if fa is None else np.array(fa, dtype=float)
-    fb = np.asarray(func(b), dtype=float).copy() if fb is None else np.array(fb, dtype=float)
-    active = np.ones(a.shape, dtype=bool) if active is None else np.array(active, dtype=bool)
+    fa = np.asarray(func(a), dtype=np.float64).copy() if fa_in is None else np.array(fa_in, dtype=np.float64)
+    fb = np.asarray(func(b), dtype=np.float64).copy() if fb_in is None else np.array(fb_in, dtype=np.float64)
+    active = np.ones(a.shape, dtype=bool) if active_in is None else np.array(active_in, dtype=bool)
     active &= np.isfinite(fa) & np.isfinite(fb) & (np.sign(fa) * np.sign(fb) <= 0)
+    return a, b, fa, fb, active
+
+
+def _bracketed_roots(func: Callable[[FloatArray], ArrayLike], a: FloatArray, b: FloatArray, fa: FloatArray,
+                     fb: FloatArray, active: NDArray[np.bool_], ftol: float, xtol: float, maxiter: int) -> RootResult:
+    """Chandrupatla's iteration of :func:`bracketed_roots` on prepared arrays."""
 
     a_better = np.abs(fa) <= np.abs(fb)
     best_x = np.where(a_better, a, b)
@@ -123,7 +147,7 @@ def bracketed_roots(func: Callable[[np.ndarray], np.ndarray], a, b, fa=None, fb=
         while iterations < maxiter and running.any():
             iterations += 1
             xt = np.where(running, a + t * (b - a), best_x)
-            ft = np.asarray(func(xt), dtype=float)
+            ft = np.asarray(func(xt), dtype=np.float64)
             # Keep the bracket [a, b]: the new point replaces a, the old a goes to c (same
             # side) or the old b goes to c and the old a becomes b (sign change).  Elements
             # that have stopped are updated too (their state is no longer read; only
@@ -178,10 +202,14 @@ class DutyPoints:
     extrapolated: NDArray[np.bool_]
     reasons: tuple[str | None, ...]
     iterations: int
-    reason_templates: tuple[tuple[str, tuple[QuotedValue, ...]] | None, ...] = ()
+    reason_templates: tuple[ReasonTemplate | None, ...] = ()
 
 
-def _narrowed_brackets(fitted, residual, pump_args, lo, hi, f_lo, f_hi, active, width: float = 0.04):
+def _narrowed_brackets(fitted: FittedPump, residual: Callable[[FloatArray], FloatArray],
+                       pump_args: tuple[FloatArray, FloatArray, FloatArray, FloatArray],
+                       lo: FloatArray, hi: FloatArray, f_lo: FloatArray, f_hi: FloatArray,
+                       active: NDArray[np.bool_],
+                       width: float = 0.04) -> tuple[FloatArray, FloatArray, FloatArray, FloatArray]:
     """Shrink each bracket around an estimate of its root, keeping it an exact bracket.
 
     A speed-up only: the system head between the bracket ends is modelled as a quadratic
@@ -198,11 +226,11 @@ def _narrowed_brackets(fitted, residual, pump_args, lo, hi, f_lo, f_hi, active, 
         span = hi * hi - lo * lo
         slope = np.where(span > 0.0, (sys_hi - sys_lo) / span, 0.0)
 
-    def model(q):
+    def model(q: FloatArray) -> FloatArray:
         return arrangement_head(fitted, q, *pump_args) - (sys_lo + slope * (q * q - lo * lo))
 
-    estimate = bracketed_roots(model, lo, hi, f_lo, f_hi, active=active, ftol=1e-6 * (np.abs(f_lo) + np.abs(f_hi)).max(
-        initial=1.0)).x
+    ftol = 1e-6 * float((np.abs(f_lo) + np.abs(f_hi)).max(initial=1.0))
+    estimate = bracketed_roots(model, lo, hi, f_lo, f_hi, active=active, ftol=ftol).x
     half = width * np.maximum(estimate - lo, 0.0) + 1e-3 * (hi - lo)
     a = np.clip(estimate - half, lo, hi)
     b = np.clip(estimate + half, lo, hi)
@@ -219,8 +247,9 @@ def _narrowed_brackets(fitted, residual, pump_args, lo, hi, f_lo, f_hi, active, 
     return new_lo, new_hi, new_f_lo, new_f_hi
 
 
-def solve_duty_points(system, fitted: FittedPump, pumps_running, series_stages=1, speed_ratio=1.0,
-                      trim_ratio=1.0, static_m=0.0, aged=False, extension: float = DEFAULT_EXTENSION,
+def solve_duty_points(system: SystemHeads, fitted: FittedPump, pumps_running: ArrayLike,
+                      series_stages: ArrayLike = 1, speed_ratio: ArrayLike = 1.0, trim_ratio: ArrayLike = 1.0,
+                      static_m: ArrayLike = 0.0, aged: ArrayLike = False, extension: float = DEFAULT_EXTENSION,
                       ftol: float = HEAD_TOLERANCE_M) -> DutyPoints:
     """Intersect the pump-set curve with the system curve for every scenario at once.
 
@@ -264,8 +293,8 @@ def solve_duty_points(system, fitted: FittedPump, pumps_running, series_stages=1
     q_ext = q_end * extension
     q_data_min = scale * fitted.flow_min_m3_s
 
-    def residual(q):
-        return arrangement_head(fitted, q, n, stages, s, t) - np.asarray(system.head(q, hs, aged_arr), dtype=float)
+    def residual(q: FloatArray) -> FloatArray:
+        return arrangement_head(fitted, q, n, stages, s, t) - np.asarray(system.head(q, hs, aged_arr), dtype=np.float64)
 
     ends = np.stack([q_left, q_end, q_ext])
     r_ends = residual(ends)
@@ -296,7 +325,7 @@ def solve_duty_points(system, fitted: FittedPump, pumps_running, series_stages=1
     head = np.where(found, arrangement_head(fitted, np.where(found, flow, 0.0), n, stages, s, t), np.nan)
 
     reasons: list[str | None] = []
-    templates: list[tuple[str, tuple] | None] = []
+    templates: list[ReasonTemplate | None] = []
     flat_status = status.ravel().tolist()
     pump_at_left = arrangement_head(fitted, q_left, n, stages, s, t)
     pump_left = pump_at_left.ravel().tolist()
@@ -304,7 +333,7 @@ def solve_duty_points(system, fitted: FittedPump, pumps_running, series_stages=1
     left_list = q_left.ravel().tolist()
     beyond_list = beyond.ravel().tolist()
     for i, st in enumerate(flat_status):
-        quoted = None
+        quoted: ReasonTemplate | None = None
         if st == STATUS_FOUND:
             reasons.append(None)
         elif st == STATUS_EXTRAPOLATED:

@@ -83,7 +83,7 @@ def _entry_error(path: Path, index: int, field: str, problem: str, value: object
     return ModelError(f"{path.name}: fittings[{index}].{field}", problem, value)
 
 
-def _number(entry: dict, key: str, path: Path, index: int) -> float:
+def _number(entry: Mapping[str, object], key: str, path: Path, index: int) -> float:
     value = entry.get(key)
     if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value) or value < 0:
         raise _entry_error(path, index, key, f"must be a number, 0 or more; got {value!r}", value)

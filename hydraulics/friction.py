@@ -30,6 +30,7 @@ from numpy.typing import ArrayLike
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import ModelError
+from hydraulics.results import FloatArray
 
 LAMINAR_LIMIT_RE = 2000.0
 """Highest Reynolds number treated as laminar (f = 64/Re)."""
@@ -97,7 +98,8 @@ def _colebrook_inputs(reynolds: ArrayLike, relative_roughness: ArrayLike) -> tup
     rr = _as_float_array(relative_roughness, "relative_roughness")
     _require(re > 0.0, "reynolds", "greater than 0 for the Colebrook–White equation", re)
     _require(rr >= 0.0, "relative_roughness", "0 or more", rr)
-    return np.broadcast_arrays(re, rr)
+    re_b, rr_b = np.broadcast_arrays(re, rr)
+    return re_b, rr_b
 
 
 def _clamond_variables(re: np.ndarray, rr: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -112,7 +114,8 @@ _F_FROM_VARIABLE = _HALF_LN10**2
 """f = (ln 10 / 2)² / F², from 1/√f = (2/ln 10) F."""
 
 
-def _clamond_steps(x1, x2, f_var, t, r, u, u2, num, den) -> None:
+def _clamond_steps(x1: FloatArray, x2: FloatArray, f_var: FloatArray, t: FloatArray, r: FloatArray, u: FloatArray,
+                   u2: FloatArray, num: FloatArray, den: FloatArray) -> None:
     r"""Clamond's start and two third-order steps, in place: ``f_var`` ends as F = 1/√f·(ln 10/2).
 
     ``x1`` and ``x2`` hold Clamond's variables; the other arguments are scratch arrays of
@@ -263,7 +266,7 @@ def colebrook_lambert_w(reynolds: ArrayLike, relative_roughness: ArrayLike) -> n
         )
     # Imported here: scipy.special costs about 0.1 s to import and only this reference form
     # (not the engine's own darcy_friction_factor) needs it.
-    from scipy.special import lambertw
+    from scipy.special import lambertw  # type: ignore[import-untyped]  # scipy ships no type information
 
     w = lambertw(np.exp(log_z), k=0).real
     inv_sqrt_f = (x2 - np.log(w)) / _HALF_LN10
@@ -574,16 +577,16 @@ def _pipe_inputs(
     return q, d, length, n
 
 
-def _pipe_friction(velocity, reynolds, f, head) -> PipeFriction:
+def _pipe_friction(velocity: ArrayLike, reynolds: ArrayLike, f: ArrayLike, head: ArrayLike) -> PipeFriction:
     return PipeFriction(
-        velocity_m_s=np.asarray(velocity, dtype=float),
-        reynolds=np.asarray(reynolds, dtype=float),
-        friction_factor=np.asarray(f, dtype=float),
-        head_loss_m=np.asarray(head, dtype=float),
+        velocity_m_s=np.asarray(velocity, dtype=np.float64),
+        reynolds=np.asarray(reynolds, dtype=np.float64),
+        friction_factor=np.asarray(f, dtype=np.float64),
+        head_loss_m=np.asarray(head, dtype=np.float64),
     )
 
 
-def _velocity(q: np.ndarray, d: np.ndarray, n: np.ndarray) -> np.ndarray:
+def _velocity(q: FloatArray, d: FloatArray, n: FloatArray) -> FloatArray:
     return (q / n) / (0.25 * np.pi * d * d)
 
 

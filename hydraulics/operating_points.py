@@ -21,17 +21,20 @@ Formulas (SI):
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
-from typing import Sequence
+from typing import overload
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.duty_point import DEFAULT_EXTENSION, solve_duty_points
 from hydraulics.model import Arrangement, ModelError
 from hydraulics.pump_arrangement import arrangement_performance
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import OperatingPoint
+from hydraulics.results import FloatArray, OperatingPoint
+from hydraulics.system_curve import SystemHydraulics
 
 __all__ = ["npsh_available", "OperatingPoint", "ScenarioGrid", "scenario_grid", "operating_points",
            "STATIC_CASES", "PIPE_STATES"]
@@ -42,8 +45,17 @@ PIPE_STATES: tuple[str, ...] = ("new", "aged")
 _JOULES_PER_KWH = 3.6e6
 
 
-def npsh_available(atmospheric_pressure_pa, vapour_pressure_pa, density_kg_m3, suction_level_m, pump_datum_m,
-                   suction_loss_m, gravity_m_s2: float = G):
+@overload
+def npsh_available(atmospheric_pressure_pa: float, vapour_pressure_pa: float, density_kg_m3: float,
+                   suction_level_m: float, pump_datum_m: float, suction_loss_m: float,
+                   gravity_m_s2: float = G) -> float: ...
+@overload
+def npsh_available(atmospheric_pressure_pa: ArrayLike, vapour_pressure_pa: ArrayLike, density_kg_m3: ArrayLike,
+                   suction_level_m: ArrayLike, pump_datum_m: ArrayLike, suction_loss_m: ArrayLike,
+                   gravity_m_s2: float = G) -> float | FloatArray: ...
+def npsh_available(atmospheric_pressure_pa: ArrayLike, vapour_pressure_pa: ArrayLike, density_kg_m3: ArrayLike,
+                   suction_level_m: ArrayLike, pump_datum_m: ArrayLike, suction_loss_m: ArrayLike,
+                   gravity_m_s2: float = G) -> float | FloatArray:
     """Net positive suction head available at the pump (m) from an open suction tank or sump.
 
     NPSH_A = (p_atm − p_v) / (ρ g) + (z_suction − z_pump) − h_loss,suction
@@ -76,10 +88,10 @@ def npsh_available(atmospheric_pressure_pa, vapour_pressure_pa, density_kg_m3, s
     >>> round(npsh_available(101325.0, 2339.0, 998.2, 1.5, 0.0, 0.4), 3)
     11.212
     """
-    value = ((np.asarray(atmospheric_pressure_pa, dtype=float) - np.asarray(vapour_pressure_pa, dtype=float))
-             / (np.asarray(density_kg_m3, dtype=float) * gravity_m_s2)
-             + (np.asarray(suction_level_m, dtype=float) - np.asarray(pump_datum_m, dtype=float))
-             - np.asarray(suction_loss_m, dtype=float))
+    value = ((np.asarray(atmospheric_pressure_pa, dtype=np.float64) - np.asarray(vapour_pressure_pa, dtype=np.float64))
+             / (np.asarray(density_kg_m3, dtype=np.float64) * gravity_m_s2)
+             + (np.asarray(suction_level_m, dtype=np.float64) - np.asarray(pump_datum_m, dtype=np.float64))
+             - np.asarray(suction_loss_m, dtype=np.float64))
     return float(value) if value.ndim == 0 else value
 
 
@@ -89,19 +101,25 @@ class ScenarioGrid:
 
     static: tuple[str, ...]
     pipe: tuple[str, ...]
-    static_head_m: np.ndarray
-    aged: np.ndarray
-    pumps_running: np.ndarray
-    speed_ratio: np.ndarray
+    static_head_m: FloatArray
+    aged: NDArray[np.bool_]
+    pumps_running: FloatArray
+    speed_ratio: FloatArray
 
     @property
     def size(self) -> int:
         return len(self.static)
 
 
-def scenario_grid(static_head_m, duty_count: int, speed_ratios: Sequence[float]) -> ScenarioGrid:
+def scenario_grid(static_head_m: Mapping[str, float], duty_count: int,
+                  speed_ratios: Sequence[float]) -> ScenarioGrid:
     """All scenarios for the static extremes, pipe states, 1..``duty_count`` pumps and speeds."""
-    statics, pipes, heads, aged, pumps, speeds = [], [], [], [], [], []
+    statics: list[str] = []
+    pipes: list[str] = []
+    heads: list[float] = []
+    aged: list[bool] = []
+    pumps: list[int] = []
+    speeds: list[float] = []
     for static in STATIC_CASES:
         for pipe in PIPE_STATES:
             for n in range(1, duty_count + 1):
@@ -117,13 +135,14 @@ def scenario_grid(static_head_m, duty_count: int, speed_ratios: Sequence[float])
                         speed_ratio=np.array(speeds))
 
 
-def _optional(values: np.ndarray, ok: np.ndarray) -> list[float | None]:
+def _optional(values: FloatArray, ok: NDArray[np.bool_]) -> list[float | None]:
     """Python floats, ``None`` where not ``ok`` or not finite."""
     good = ok & np.isfinite(values)
-    return [v if g else None for v, g in zip(values.tolist(), good.tolist())]
+    return [v if g else None for v, g in zip(values.tolist(), good.tolist(), strict=True)]
 
 
-def operating_points(system, fitted: FittedPump, arrangement: Arrangement, npsh_static_head_m: float | None,
+def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrangement,
+                     npsh_static_head_m: float | None,
                      density_kg_m3: float, speed_ratios: Sequence[float] | None = None,
                      extension: float = DEFAULT_EXTENSION) -> tuple[OperatingPoint, ...]:
     """Operating points for every static extreme × pipe state × pumps running × speed.
@@ -151,9 +170,9 @@ def operating_points(system, fitted: FittedPump, arrangement: Arrangement, npsh_
         In the order static ("min", "max") × pipe ("new", "aged") × pumps 1..N × speed.
     """
     speeds = (arrangement.speed_ratio,) if speed_ratios is None else tuple(speed_ratios)
-    for s in speeds:
-        if not (isinstance(s, (int, float, np.floating)) and math.isfinite(s) and s > 0):
-            raise ModelError("arrangement.speed_ratio", "every speed ratio must be a positive number", s)
+    for speed in speeds:
+        if not (isinstance(speed, (int, float, np.floating)) and math.isfinite(speed) and speed > 0):
+            raise ModelError("arrangement.speed_ratio", "every speed ratio must be a positive number", speed)
     if arrangement.duty_count < 1:
         raise ModelError("arrangement.duty_count", "at least one duty pump", arrangement.duty_count)
     grid = scenario_grid(system.static_head_m, int(arrangement.duty_count), speeds)
@@ -172,10 +191,12 @@ def operating_points(system, fitted: FittedPump, arrangement: Arrangement, npsh_
         input_power = shaft_total / (arrangement.motor_efficiency * arrangement.drive_efficiency)
         specific = np.where(q > 0.0, input_power / (q * _JOULES_PER_KWH), np.nan)
         hydraulic = density_kg_m3 * G * q * head
+        bep_ratio: FloatArray
         if fitted.bep_flow_m3_s is not None:
             bep_ratio = perf.flow_per_pump_m3_s / (fitted.bep_flow_m3_s * s * trim)
         else:
             bep_ratio = np.full(q.shape, np.nan)
+        npsha: FloatArray
         if npsh_static_head_m is not None:
             npsha = float(npsh_static_head_m) - np.asarray(system.suction_loss(q, grid.aged), dtype=float)
         else:

@@ -25,20 +25,24 @@ from importlib import resources
 from pathlib import Path
 
 
-class BundledDataMissing(FileNotFoundError):
+class BundledDataMissingError(FileNotFoundError):
     """A bundled data folder is in neither place it can be (a broken installation)."""
+
+
+BundledDataMissing = BundledDataMissingError
+"""The former name, kept while callers move to :class:`BundledDataMissingError`."""
 
 
 def bundled_folder(package: str, folder: str) -> Path:
     """The data folder ``folder`` shipped with the importable package ``package``.
 
     First ``<package>/<folder>`` as an installed wheel holds it, else ``<folder>`` beside the
-    package's own directory (a source checkout).  Raises :class:`BundledDataMissing`,
+    package's own directory (a source checkout).  Raises :class:`BundledDataMissingError`,
     naming both places, when neither exists.
     """
     root = resources.files(package)
     if not isinstance(root, Path):  # a zip import: the readers need real files
-        raise BundledDataMissing(
+        raise BundledDataMissingError(
             f"package {package!r} is not installed as files on disk ({root}); "
             f"install PumpSketch with pip so that {folder}/ can be read")
     installed = root / folder
@@ -47,7 +51,7 @@ def bundled_folder(package: str, folder: str) -> Path:
     checkout = root.parent / folder
     if checkout.is_dir():
         return checkout
-    raise BundledDataMissing(f"the bundled folder {folder}/ is missing: looked in {installed} and {checkout}")
+    raise BundledDataMissingError(f"the bundled folder {folder}/ is missing: looked in {installed} and {checkout}")
 
 
 def resources_dir() -> Path:

@@ -33,7 +33,7 @@ from hydraulics.model import (
     WaterFluid,
 )
 
-if TYPE_CHECKING:  # pragma: no cover - for the annotation only
+if TYPE_CHECKING:  # for the annotation only
     from hydraulics.results import Solution
 
 EXAMPLE_RATED_SPEED_RPM = 1450.0
@@ -122,6 +122,9 @@ def stepped_segment(segment: Segment, steps: int) -> Segment:
     Raises :class:`ModelError` (field ``material``) when its material has no pipe series.
     """
     if segment.pipe_series is not None:
+        if segment.nominal_size is None:
+            raise ModelError("nominal_size",
+                             f"a segment of pipe series '{segment.pipe_series}' needs its nominal size")
         size = catalogue.series(segment.pipe_series).step(segment.nominal_size, steps)
         return replace(segment, nominal_size=size.nominal, internal_diameter_m=size.internal_diameter_m)
     candidates = series_of_material(segment.material_id)

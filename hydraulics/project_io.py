@@ -19,22 +19,26 @@ import json
 import math
 import os
 import tempfile
+from collections.abc import Mapping
+from dataclasses import replace
 from pathlib import Path
-from typing import Any
 
 from hydraulics import units
 from hydraulics.format_migrations import MigrationError, migrate
 from hydraulics.model import (
     Arrangement,
+    Carries,
     Criteria,
     EnergyInputs,
     Fitting,
+    FrictionMethod,
     ModelError,
     PressurisedDelivery,
     ProfilePoint,
     Project,
     PumpModel,
     Segment,
+    Side,
     Site,
     TankDelivery,
     UserFluid,
@@ -68,7 +72,7 @@ class _Reader:
 
     # ---- primitive accessors -------------------------------------------------
     @staticmethod
-    def obj(node: Any, path: str, known: frozenset[str] | None = None) -> dict:
+    def obj(node: object, path: str, known: frozenset[str] | None = None) -> dict[str, object]:
         """``node`` as an object; with ``known``, refuse keys the format does not have.
 
         A misspelt key would otherwise be ignored silently and its value lost.
@@ -82,22 +86,24 @@ class _Reader:
                                                              + ", ".join(sorted(known)))
         return node
 
-    def get(self, node: dict, key: str, path: str, required: bool = True) -> Any:
-        if key not in node or node[key] is None:
-            if required:
-                raise ProjectFileError(_join(path, key), "is missing")
-            return None
-        return node[key]
-
-    def text(self, node: dict, key: str, path: str, default: str | None = None) -> str:
-        value = self.get(node, key, path, required=default is None)
+    def get(self, node: Mapping[str, object], key: str, path: str) -> object:
+        """The value at ``key``; a missing key or null is refused."""
+        value = node.get(key)
         if value is None:
-            return default  # type: ignore[return-value]
+            raise ProjectFileError(_join(path, key), "is missing")
+        return value
+
+    def text(self, node: Mapping[str, object], key: str, path: str, default: str | None = None) -> str:
+        value = node.get(key)
+        if value is None:
+            if default is None:
+                raise ProjectFileError(_join(path, key), "is missing")
+            return default
         if not isinstance(value, str):
             raise ProjectFileError(_join(path, key), f"expected text, got {_kind(value)}")
         return value
 
-    def optional_text(self, node: dict, key: str, path: str) -> str | None:
+    def optional_text(self, node: Mapping[str, object], key: str, path: str) -> str | None:
         value = node.get(key)
         if value is None:
             return None
@@ -105,26 +111,33 @@ class _Reader:
             raise ProjectFileError(_join(path, key), f"expected text or null, got {_kind(value)}")
         return value
 
-    def integer(self, node: dict, key: str, path: str, default: int | None = None) -> int:
-        value = self.get(node, key, path, required=default is None)
+    def integer(self, node: Mapping[str, object], key: str, path: str, default: int | None = None) -> int:
+        value = node.get(key)
         if value is None:
-            return default  # type: ignore[return-value]
+            if default is None:
+                raise ProjectFileError(_join(path, key), "is missing")
+            return default
         if isinstance(value, bool) or not isinstance(value, int):
             raise ProjectFileError(_join(path, key), f"expected a whole number, got {_kind(value)}")
         return value
 
-    def number(self, node: dict, key: str, path: str, default: float | None = None,
-               required: bool = True) -> float | None:
+    def number(self, node: Mapping[str, object], key: str, path: str, default: float | None = None) -> float:
+        """A plain number; missing or null gives ``default``, or is refused when there is none."""
         value = node.get(key)
         if value is None:
-            if default is not None:
-                return default
-            if required:
+            if default is None:
                 raise ProjectFileError(_join(path, key), "is missing")
+            return default
+        return _finite(value, _join(path, key))
+
+    def optional_number(self, node: Mapping[str, object], key: str, path: str) -> float | None:
+        """A plain number, or None where the file leaves it out or gives null."""
+        value = node.get(key)
+        if value is None:
             return None
         return _finite(value, _join(path, key))
 
-    def boolean(self, node: dict, key: str, path: str, default: bool) -> bool:
+    def boolean(self, node: Mapping[str, object], key: str, path: str, default: bool) -> bool:
         value = node.get(key)
         if value is None:
             return default
@@ -132,27 +145,35 @@ class _Reader:
             raise ProjectFileError(_join(path, key), f"expected true or false, got {_kind(value)}")
         return value
 
-    def quantity(self, node: dict, key: str, path: str, quantity: str,
-                 required: bool = True, default: float | None = None) -> float | None:
-        """A ``{"value": v, "unit": u}`` object converted to the SI float."""
+    def quantity(self, node: Mapping[str, object], key: str, path: str, quantity: str,
+                 default: float | None = None) -> float:
+        """A ``{"value": v, "unit": u}`` object converted to the SI float.
+
+        Missing or null gives ``default``, or is refused when there is none.
+        """
         value = node.get(key)
         where = _join(path, key)
         if value is None:
-            if default is not None:
-                return default
-            if required:
+            if default is None:
                 raise ProjectFileError(where, "is missing")
-            return None
+            return default
         return _quantity_to_si(value, where, quantity)
 
-    def quantity_list(self, node: dict, key: str, path: str, quantity: str) -> tuple[float, ...]:
+    def optional_quantity(self, node: Mapping[str, object], key: str, path: str, quantity: str) -> float | None:
+        """A quantity object converted to the SI float, or None where the file leaves it out."""
+        value = node.get(key)
+        if value is None:
+            return None
+        return _quantity_to_si(value, _join(path, key), quantity)
+
+    def quantity_list(self, node: Mapping[str, object], key: str, path: str, quantity: str) -> tuple[float, ...]:
         value = node.get(key)
         where = _join(path, key)
         if value is None:
             return ()
-        value = self.obj(value, where)
-        unit = self.text(value, "unit", where)
-        values = self.get(value, "values", where)
+        list_node = self.obj(value, where)
+        unit = self.text(list_node, "unit", where)
+        values = self.get(list_node, "values", where)
         if not isinstance(values, list):
             raise ProjectFileError(_join(where, "values"), f"expected a list of numbers, got {_kind(values)}")
         numbers = [_finite(v, f"{where}.values[{i}]") for i, v in enumerate(values)]
@@ -160,8 +181,10 @@ class _Reader:
         return tuple(n * factor + offset for n in numbers)
 
     # ---- sections ----------------------------------------------------------
-    def fluid(self, node: Any, path: str = "fluid") -> WaterFluid | UserFluid:
-        node = self.obj(node, path, frozenset({"kind", "temperature", "name", "density", "kinematic_viscosity", "vapour_pressure"}))
+    def fluid(self, node: object, path: str = "fluid") -> WaterFluid | UserFluid:
+        node = self.obj(node, path, frozenset({
+            "kind", "temperature", "name", "density", "kinematic_viscosity", "vapour_pressure",
+        }))
         kind = self.text(node, "kind", path)
         if kind == "water":
             return WaterFluid(temperature_c=self.quantity(node, "temperature", path, "temperature"))
@@ -175,9 +198,12 @@ class _Reader:
             )
         raise ProjectFileError(_join(path, "kind"), f"must be 'water' or 'user', got {kind!r}")
 
-    def site(self, node: Any, path: str = "site") -> Site:
-        node = self.obj(node, path, frozenset({"altitude", "atmospheric_pressure", "suction", "delivery", "pump_datum", "design_flow"}))
-        suction = self.obj(self.get(node, "suction", path), _join(path, "suction"), frozenset({"level_low", "level_high"}))
+    def site(self, node: object, path: str = "site") -> Site:
+        node = self.obj(node, path, frozenset({
+            "altitude", "atmospheric_pressure", "suction", "delivery", "pump_datum", "design_flow",
+        }))
+        suction = self.obj(self.get(node, "suction", path), _join(path, "suction"),
+                           frozenset({"level_low", "level_high"}))
         spath = _join(path, "suction")
         delivery_node = self.obj(self.get(node, "delivery", path), _join(path, "delivery"),
                                  frozenset({"kind", "level_low", "level_high", "elevation", "pressure"}))
@@ -202,20 +228,20 @@ class _Reader:
             pump_datum_m=self.quantity(node, "pump_datum", path, "elevation"),
             design_flow_m3_s=self.quantity(node, "design_flow", path, "flow"),
             altitude_m=self.quantity(node, "altitude", path, "elevation", default=0.0),
-            atmospheric_pressure_pa=self.quantity(node, "atmospheric_pressure", path, "pressure", required=False),
+            atmospheric_pressure_pa=self.optional_quantity(node, "atmospheric_pressure", path, "pressure"),
         )
 
-    def fitting(self, node: Any, path: str) -> Fitting:
+    def fitting(self, node: object, path: str) -> Fitting:
         node = self.obj(node, path, frozenset({"type", "count", "k_override", "angle_deg", "other_diameter"}))
         return Fitting(
             fitting_id=self.text(node, "type", path),
             count=self.integer(node, "count", path, default=1),
-            k_override=self.number(node, "k_override", path, required=False),
-            angle_deg=self.number(node, "angle_deg", path, required=False),
-            other_diameter_m=self.quantity(node, "other_diameter", path, "diameter", required=False),
+            k_override=self.optional_number(node, "k_override", path),
+            angle_deg=self.optional_number(node, "angle_deg", path),
+            other_diameter_m=self.optional_quantity(node, "other_diameter", path, "diameter"),
         )
 
-    def profile_point(self, node: Any, path: str) -> ProfilePoint:
+    def profile_point(self, node: object, path: str) -> ProfilePoint:
         node = self.obj(node, path, frozenset({"chainage", "elevation", "air_valve"}))
         return ProfilePoint(
             chainage_m=self.quantity(node, "chainage", path, "length"),
@@ -223,55 +249,61 @@ class _Reader:
             air_valve=self.boolean(node, "air_valve", path, default=False),
         )
 
-    def segment(self, node: Any, path: str) -> Segment:
-        node = self.obj(node, path, frozenset({"name", "side", "material", "pipe_series", "nominal_size", "internal_diameter", "length", "start_elevation", "end_elevation", "parallel_pipes", "roughness_new", "roughness_aged", "hw_c_new", "hw_c_aged", "fittings", "carries"}))
+    def segment(self, node: object, path: str) -> Segment:
+        node = self.obj(node, path, frozenset({
+            "name", "side", "material", "pipe_series", "nominal_size", "internal_diameter", "length",
+            "start_elevation", "end_elevation", "parallel_pipes", "roughness_new", "roughness_aged",
+            "hw_c_new", "hw_c_aged", "fittings", "carries",
+        }))
         series_id = self.optional_text(node, "pipe_series", path)
         nominal = self.optional_text(node, "nominal_size", path)
         if (series_id is None) != (nominal is None):
             raise ProjectFileError(path, "give both pipe_series and nominal_size, or neither")
-        diameter = self.quantity(node, "internal_diameter", path, "diameter", required=series_id is None)
-        if series_id is not None:
+        if series_id is None or nominal is None:
+            diameter = self.quantity(node, "internal_diameter", path, "diameter")
+        else:
+            self.optional_quantity(node, "internal_diameter", path, "diameter")  # a stored bore must still be valid
             diameter = _catalogue_diameter(series_id, nominal, path)
         fittings_node = node.get("fittings") or []
         if not isinstance(fittings_node, list):
             raise ProjectFileError(_join(path, "fittings"), f"expected a list, got {_kind(fittings_node)}")
-        side = self.text(node, "side", path)
-        if side not in ("suction", "delivery"):
-            raise ProjectFileError(_join(path, "side"), f"must be 'suction' or 'delivery', got {side!r}")
-        carries = self.text(node, "carries", path)
-        if carries not in ("pump", "station"):
-            raise ProjectFileError(_join(path, "carries"), f"must be 'pump' or 'station', got {carries!r}")
+        side = _side(self.text(node, "side", path), _join(path, "side"))
+        carries = _carries(self.text(node, "carries", path), _join(path, "carries"))
         return Segment(
             name=self.text(node, "name", path),
-            side=side,  # type: ignore[arg-type]
+            side=side,
             material_id=self.text(node, "material", path),
             length_m=self.quantity(node, "length", path, "length"),
             internal_diameter_m=diameter,
             pipe_series=series_id,
             nominal_size=nominal,
-            start_elevation_m=self.quantity(node, "start_elevation", path, "elevation", required=False),
-            end_elevation_m=self.quantity(node, "end_elevation", path, "elevation", required=False),
+            start_elevation_m=self.optional_quantity(node, "start_elevation", path, "elevation"),
+            end_elevation_m=self.optional_quantity(node, "end_elevation", path, "elevation"),
             parallel_pipes=self.integer(node, "parallel_pipes", path, default=1),
             fittings=tuple(self.fitting(f, f"{path}.fittings[{j}]") for j, f in enumerate(fittings_node)),
-            roughness_new_m=self.quantity(node, "roughness_new", path, "roughness", required=False),
-            roughness_aged_m=self.quantity(node, "roughness_aged", path, "roughness", required=False),
-            hw_c_new=self.number(node, "hw_c_new", path, required=False),
-            hw_c_aged=self.number(node, "hw_c_aged", path, required=False),
-            carries=carries,  # type: ignore[arg-type]
+            roughness_new_m=self.optional_quantity(node, "roughness_new", path, "roughness"),
+            roughness_aged_m=self.optional_quantity(node, "roughness_aged", path, "roughness"),
+            hw_c_new=self.optional_number(node, "hw_c_new", path),
+            hw_c_aged=self.optional_number(node, "hw_c_aged", path),
+            carries=carries,
         )
 
-    def pump(self, node: Any, path: str) -> PumpModel:
-        node = self.obj(node, path, frozenset({"id", "name", "rated_speed", "impeller_diameter", "fit_orders", "notes", "points", "source_csv"}))
+    def pump(self, node: object, path: str) -> PumpModel:
+        node = self.obj(node, path, frozenset({
+            "id", "name", "rated_speed", "impeller_diameter", "fit_orders", "notes", "points", "source_csv",
+        }))
         pump_id = self.text(node, "id", path)
         name = self.text(node, "name", path, default=pump_id)
-        rated_speed = self.quantity(node, "rated_speed", path, "speed", required=False)
-        orders = self.obj(node.get("fit_orders") or {}, _join(path, "fit_orders"), frozenset({"head", "efficiency", "power"}))
+        rated_speed = self.optional_quantity(node, "rated_speed", path, "speed")
+        orders = self.obj(node.get("fit_orders") or {}, _join(path, "fit_orders"),
+                          frozenset({"head", "efficiency", "power"}))
         opath = _join(path, "fit_orders")
         points_node = node.get("points")
         source_csv = self.optional_text(node, "source_csv", path)
         if points_node is not None:
             ppath = _join(path, "points")
-            points = self.obj(points_node, ppath, frozenset({"flow", "head", "efficiency", "shaft_power", "npsh_required"}))
+            points = self.obj(points_node, ppath,
+                              frozenset({"flow", "head", "efficiency", "shaft_power", "npsh_required"}))
             columns = {
                 "flow_m3_s": self.quantity_list(points, "flow", ppath, "flow"),
                 "head_m": self.quantity_list(points, "head", ppath, "head"),
@@ -282,7 +314,7 @@ class _Reader:
             pump = PumpModel(
                 pump_id=pump_id, name=name,
                 rated_speed_rpm=rated_speed if rated_speed is not None else 1450.0,
-                impeller_diameter_m=self.quantity(node, "impeller_diameter", path, "diameter", required=False),
+                impeller_diameter_m=self.optional_quantity(node, "impeller_diameter", path, "diameter"),
                 head_fit_order=self.integer(orders, "head", opath, default=2),
                 efficiency_fit_order=self.integer(orders, "efficiency", opath, default=2),
                 power_fit_order=self.integer(orders, "power", opath, default=2),
@@ -291,12 +323,13 @@ class _Reader:
             )
         elif source_csv is not None:
             pump = self._pump_from_csv(source_csv, pump_id, name, rated_speed, _join(path, "source_csv"))
-            pump = _replace(
+            impeller = self.optional_quantity(node, "impeller_diameter", path, "diameter")
+            pump = replace(
                 pump,
                 head_fit_order=self.integer(orders, "head", opath, default=pump.head_fit_order),
                 efficiency_fit_order=self.integer(orders, "efficiency", opath, default=pump.efficiency_fit_order),
                 power_fit_order=self.integer(orders, "power", opath, default=pump.power_fit_order),
-                impeller_diameter_m=self.quantity(node, "impeller_diameter", path, "diameter", required=False),
+                impeller_diameter_m=pump.impeller_diameter_m if impeller is None else impeller,
                 notes=self.text(node, "notes", path, default=pump.notes),
             )
         else:
@@ -317,8 +350,11 @@ class _Reader:
         except (PumpCsvError, OSError, ValueError) as exc:
             raise ProjectFileError(path, f"pump data file {relative}: {exc}") from None
 
-    def arrangement(self, node: Any, path: str = "arrangement") -> Arrangement:
-        node = self.obj(node, path, frozenset({"pump", "duty_count", "standby_count", "series_stages", "speed_ratio", "trim_ratio", "min_speed_ratio", "max_speed_ratio", "motor_efficiency", "drive_efficiency"}))
+    def arrangement(self, node: object, path: str = "arrangement") -> Arrangement:
+        node = self.obj(node, path, frozenset({
+            "pump", "duty_count", "standby_count", "series_stages", "speed_ratio", "trim_ratio",
+            "min_speed_ratio", "max_speed_ratio", "motor_efficiency", "drive_efficiency",
+        }))
         return Arrangement(
             pump_id=self.text(node, "pump", path),
             duty_count=self.integer(node, "duty_count", path, default=1),
@@ -332,17 +368,27 @@ class _Reader:
             drive_efficiency=self.number(node, "drive_efficiency", path, default=1.0),
         )
 
-    def criteria(self, node: Any, path: str = "criteria") -> Criteria:
-        node = self.obj(node, path, frozenset({"suction_velocity_min", "suction_velocity_max", "delivery_velocity_min", "delivery_velocity_max", "sewage", "sewage_velocity_min", "npsh_margin_ratio", "npsh_margin_min", "preferred_region_low", "preferred_region_high", "allowable_region_low", "allowable_region_high", "trim_warning_limit"}))
+    def criteria(self, node: object, path: str = "criteria") -> Criteria:
+        node = self.obj(node, path, frozenset({
+            "suction_velocity_min", "suction_velocity_max", "delivery_velocity_min", "delivery_velocity_max",
+            "sewage", "sewage_velocity_min", "npsh_margin_ratio", "npsh_margin_min",
+            "preferred_region_low", "preferred_region_high", "allowable_region_low", "allowable_region_high",
+            "trim_warning_limit",
+        }))
         d = Criteria()
         q = self.quantity
         return Criteria(
-            suction_velocity_min_m_s=q(node, "suction_velocity_min", path, "velocity", default=d.suction_velocity_min_m_s),
-            suction_velocity_max_m_s=q(node, "suction_velocity_max", path, "velocity", default=d.suction_velocity_max_m_s),
-            delivery_velocity_min_m_s=q(node, "delivery_velocity_min", path, "velocity", default=d.delivery_velocity_min_m_s),
-            delivery_velocity_max_m_s=q(node, "delivery_velocity_max", path, "velocity", default=d.delivery_velocity_max_m_s),
+            suction_velocity_min_m_s=q(node, "suction_velocity_min", path, "velocity",
+                                       default=d.suction_velocity_min_m_s),
+            suction_velocity_max_m_s=q(node, "suction_velocity_max", path, "velocity",
+                                       default=d.suction_velocity_max_m_s),
+            delivery_velocity_min_m_s=q(node, "delivery_velocity_min", path, "velocity",
+                                        default=d.delivery_velocity_min_m_s),
+            delivery_velocity_max_m_s=q(node, "delivery_velocity_max", path, "velocity",
+                                        default=d.delivery_velocity_max_m_s),
             sewage=self.boolean(node, "sewage", path, default=d.sewage),
-            sewage_velocity_min_m_s=q(node, "sewage_velocity_min", path, "velocity", default=d.sewage_velocity_min_m_s),
+            sewage_velocity_min_m_s=q(node, "sewage_velocity_min", path, "velocity",
+                                      default=d.sewage_velocity_min_m_s),
             npsh_margin_ratio=self.number(node, "npsh_margin_ratio", path, default=d.npsh_margin_ratio),
             npsh_margin_min_m=q(node, "npsh_margin_min", path, "head", default=d.npsh_margin_min_m),
             preferred_region_low=self.number(node, "preferred_region_low", path, default=d.preferred_region_low),
@@ -352,17 +398,21 @@ class _Reader:
             trim_warning_limit=self.number(node, "trim_warning_limit", path, default=d.trim_warning_limit),
         )
 
-    def energy(self, node: Any, path: str = "energy") -> EnergyInputs:
-        node = self.obj(node, path, frozenset({"operating_hours_per_year", "annual_volume", "tariff_per_kwh", "currency"}))
+    def energy(self, node: object, path: str = "energy") -> EnergyInputs:
+        node = self.obj(node, path,
+                        frozenset({"operating_hours_per_year", "annual_volume", "tariff_per_kwh", "currency"}))
         return EnergyInputs(
-            operating_hours_per_year=self.number(node, "operating_hours_per_year", path, required=False),
-            annual_volume_m3=self.quantity(node, "annual_volume", path, "volume", required=False),
+            operating_hours_per_year=self.optional_number(node, "operating_hours_per_year", path),
+            annual_volume_m3=self.optional_quantity(node, "annual_volume", path, "volume"),
             tariff_per_kwh=self.number(node, "tariff_per_kwh", path, default=EnergyInputs().tariff_per_kwh),
             currency=self.text(node, "currency", path, default=EnergyInputs().currency),
         )
 
-    def project(self, data: Any) -> Project:
-        root = self.obj(data, "(file)", frozenset({"format", "version", "name", "notes", "fluid", "site", "friction_method", "segments", "pumps", "arrangement", "criteria", "energy", "flow_grid_max_factor", "profile"}))
+    def project(self, data: object) -> Project:
+        root = self.obj(data, "(file)", frozenset({
+            "format", "version", "name", "notes", "fluid", "site", "friction_method", "segments", "pumps",
+            "arrangement", "criteria", "energy", "flow_grid_max_factor", "profile",
+        }))
         fmt = root.get("format")
         if fmt != FORMAT_NAME:
             raise ProjectFileError("format", f"not a PumpSketch project (expected {FORMAT_NAME!r}, got {fmt!r})")
@@ -383,9 +433,7 @@ class _Reader:
         pumps_node = root.get("pumps") or []
         if not isinstance(pumps_node, list):
             raise ProjectFileError("pumps", f"expected a list, got {_kind(pumps_node)}")
-        method = self.text(root, "friction_method", "", default="darcy_weisbach")
-        if method not in ("darcy_weisbach", "hazen_williams"):
-            raise ProjectFileError("friction_method", f"must be 'darcy_weisbach' or 'hazen_williams', got {method!r}")
+        method = _friction_method(self.text(root, "friction_method", "", default="darcy_weisbach"), "friction_method")
         arrangement_node = root.get("arrangement")
         profile_node = self.get(root, "profile", "")
         if not isinstance(profile_node, list):
@@ -396,7 +444,7 @@ class _Reader:
             fluid=self.fluid(self.get(root, "fluid", "")),
             site=self.site(self.get(root, "site", "")),
             segments=tuple(self.segment(s, f"segments[{i}]") for i, s in enumerate(segments_node)),
-            friction_method=method,  # type: ignore[arg-type]
+            friction_method=method,
             pumps=tuple(self.pump(p, f"pumps[{i}]") for i, p in enumerate(pumps_node)),
             arrangement=None if arrangement_node is None else self.arrangement(arrangement_node),
             criteria=self.criteria(root.get("criteria") or {}),
@@ -406,17 +454,35 @@ class _Reader:
         )
 
 
-def _replace(obj, **changes):
-    from dataclasses import replace
+def _side(text: str, path: str) -> Side:
+    if text == "suction":
+        return "suction"
+    if text == "delivery":
+        return "delivery"
+    raise ProjectFileError(path, f"must be 'suction' or 'delivery', got {text!r}")
 
-    return replace(obj, **{k: v for k, v in changes.items() if v is not None})
+
+def _carries(text: str, path: str) -> Carries:
+    if text == "pump":
+        return "pump"
+    if text == "station":
+        return "station"
+    raise ProjectFileError(path, f"must be 'pump' or 'station', got {text!r}")
+
+
+def _friction_method(text: str, path: str) -> FrictionMethod:
+    if text == "darcy_weisbach":
+        return "darcy_weisbach"
+    if text == "hazen_williams":
+        return "hazen_williams"
+    raise ProjectFileError(path, f"must be 'darcy_weisbach' or 'hazen_williams', got {text!r}")
 
 
 def _join(path: str, key: str) -> str:
     return f"{path}.{key}" if path else key
 
 
-def _kind(value: Any) -> str:
+def _kind(value: object) -> str:
     if value is None:
         return "null"
     if isinstance(value, bool):
@@ -432,7 +498,7 @@ def _kind(value: Any) -> str:
     return type(value).__name__
 
 
-def _finite(value: Any, path: str) -> float:
+def _finite(value: object, path: str) -> float:
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise ProjectFileError(path, f"expected a number, got {_kind(value)}")
     number = float(value)
@@ -463,7 +529,7 @@ def _unit_factor(unit: str, quantity: str, path: str) -> tuple[float, float]:
         try:
             zero = float(units.convert_to_si(0.0, quantity, unit))
             one = float(units.convert_to_si(1.0, quantity, unit))
-        except Exception:  # pint raises several error types for unknown or wrong units
+        except Exception:  # noqa: BLE001 - pint raises several error types for unknown or wrong units
             expected = FILE_UNITS[quantity]
             raise ProjectFileError(path, f"{unit!r} is not a unit of {quantity.replace('_', ' ')} "
                                          f"(for example {expected!r})") from None
@@ -471,7 +537,7 @@ def _unit_factor(unit: str, quantity: str, path: str) -> tuple[float, float]:
     return _FACTOR_CACHE[key]
 
 
-def _quantity_to_si(node: Any, path: str, quantity: str) -> float:
+def _quantity_to_si(node: object, path: str, quantity: str) -> float:
     if not isinstance(node, dict):
         raise ProjectFileError(path, f'expected {{"value": number, "unit": text}}, got {_kind(node)}')
     if "value" not in node:
@@ -496,7 +562,7 @@ def _catalogue_diameter(series_id: str, nominal: str, path: str) -> float:
         raise ProjectFileError(_join(path, field), exc.problem) from None
 
 
-def project_from_dict(data: Any, source: str = "", base_dir: Path | None = None) -> Project:
+def project_from_dict(data: object, source: str = "", base_dir: Path | None = None) -> Project:
     """Build a validated :class:`Project` from parsed JSON, or raise ProjectFileError.
 
     A file of an older format version is first brought up to :data:`FORMAT_VERSION` by the
@@ -515,7 +581,7 @@ def project_from_dict(data: Any, source: str = "", base_dir: Path | None = None)
     return project
 
 
-def load_project(path: str | os.PathLike) -> Project:
+def load_project(path: str | os.PathLike[str]) -> Project:
     """Read a project file; raise :class:`ProjectFileError` for any problem."""
     path = Path(path)
     try:
@@ -535,23 +601,23 @@ def load_project(path: str | os.PathLike) -> Project:
 
 
 # =========================================================================== writing
-def _q(value: float | None, quantity: str) -> dict | None:
+def _q(value: float | None, quantity: str) -> dict[str, object] | None:
     if value is None:
         return None
     return {"value": float(value), "unit": _file_unit(quantity)}
 
 
-def _qlist(values: tuple[float, ...], quantity: str) -> dict | None:
+def _qlist(values: tuple[float, ...], quantity: str) -> dict[str, object] | None:
     if not values:
         return None
     return {"unit": _file_unit(quantity), "values": [float(v) for v in values]}
 
 
-def _drop_none(d: dict) -> dict:
+def _drop_none(d: dict[str, object]) -> dict[str, object]:
     return {k: v for k, v in d.items() if v is not None}
 
 
-def project_to_dict(project: Project) -> dict:
+def project_to_dict(project: Project) -> dict[str, object]:
     """The JSON-ready dictionary of ``project``, every quantity in SI."""
     fluid = project.fluid
     if isinstance(fluid, WaterFluid):
@@ -665,7 +731,7 @@ def project_to_json(project: Project) -> str:
     return json.dumps(project_to_dict(project), indent=2, ensure_ascii=False) + "\n"
 
 
-def atomic_write_text(path: str | os.PathLike, text: str) -> None:
+def atomic_write_text(path: str | os.PathLike[str], text: str) -> None:
     """Write ``text`` to ``path`` atomically: temporary file, fsync, then rename over."""
     path = Path(path)
     try:
@@ -690,7 +756,7 @@ def atomic_write_text(path: str | os.PathLike, text: str) -> None:
         raise
 
 
-def save_project(project: Project, path: str | os.PathLike) -> None:
+def save_project(project: Project, path: str | os.PathLike[str]) -> None:
     """Validate and save ``project`` atomically (the old file survives any failure)."""
     validate_project(project)
     atomic_write_text(path, project_to_json(project))

@@ -33,9 +33,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
+from numpy.typing import ArrayLike, NDArray
 
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import PumpCurve
+from hydraulics.results import FloatArray, PumpCurve
 
 __all__ = [
     "rated_equivalent_flow",
@@ -48,11 +49,12 @@ __all__ = [
 ]
 
 
-def _arrays(*values) -> list[np.ndarray]:
-    return [np.asarray(v, dtype=float) for v in values]
+def _arrays(*values: ArrayLike) -> list[FloatArray]:
+    return [np.asarray(v, dtype=np.float64) for v in values]
 
 
-def rated_equivalent_flow(flow_total_m3_s, pumps_in_parallel=1, speed_ratio=1.0, trim_ratio=1.0) -> np.ndarray:
+def rated_equivalent_flow(flow_total_m3_s: ArrayLike, pumps_in_parallel: ArrayLike = 1, speed_ratio: ArrayLike = 1.0,
+                          trim_ratio: ArrayLike = 1.0) -> FloatArray:
     """The flow at rated speed and full impeller corresponding to one pump's share.
 
     q_rated = Q / (N · s · t)  (affinity laws; parallel pumps share the flow equally).
@@ -64,8 +66,9 @@ def rated_equivalent_flow(flow_total_m3_s, pumps_in_parallel=1, speed_ratio=1.0,
     return q / (n * s * t)
 
 
-def arrangement_head(fitted: FittedPump, flow_total_m3_s, pumps_in_parallel=1, series_stages=1,
-                     speed_ratio=1.0, trim_ratio=1.0) -> np.ndarray:
+def arrangement_head(fitted: FittedPump, flow_total_m3_s: ArrayLike, pumps_in_parallel: ArrayLike = 1,
+                     series_stages: ArrayLike = 1, speed_ratio: ArrayLike = 1.0,
+                     trim_ratio: ArrayLike = 1.0) -> FloatArray:
     """Head of the pump set (m) at station flow Q (m³/s): H = S (s t)² H_rated(Q / (N s t)).
 
     Parameters broadcast against each other.  No clipping: outside the data range the
@@ -77,7 +80,8 @@ def arrangement_head(fitted: FittedPump, flow_total_m3_s, pumps_in_parallel=1, s
     >>> fitted = fit_pump(PumpModel("P", "demo", 2900.0, q, tuple(60 - 20000 * x * x for x in q)), 1000.0)
     >>> round(float(arrangement_head(fitted, 0.02, pumps_in_parallel=2)), 9)  # 60 - 20000 * 0.01²
     58.0
-    >>> round(float(arrangement_head(fitted, 0.01, series_stages=2, speed_ratio=0.5)), 9)  # 2 * 0.25 * (60 - 20000 * 0.02²)
+    >>> # 2 * 0.25 * (60 - 20000 * 0.02²)
+    >>> round(float(arrangement_head(fitted, 0.01, series_stages=2, speed_ratio=0.5)), 9)
     26.0
     """
     q, n, stages, s, t = _arrays(flow_total_m3_s, pumps_in_parallel, series_stages, speed_ratio, trim_ratio)
@@ -94,18 +98,19 @@ class ArrangementPerformance:
     flow lies outside the data range.
     """
 
-    flow_total_m3_s: np.ndarray
-    flow_per_pump_m3_s: np.ndarray
-    rated_flow_m3_s: np.ndarray
-    head_m: np.ndarray
-    efficiency: np.ndarray
-    shaft_power_per_pump_w: np.ndarray
-    npsh_required_m: np.ndarray
-    extrapolated: np.ndarray
+    flow_total_m3_s: FloatArray
+    flow_per_pump_m3_s: FloatArray
+    rated_flow_m3_s: FloatArray
+    head_m: FloatArray
+    efficiency: FloatArray
+    shaft_power_per_pump_w: FloatArray
+    npsh_required_m: FloatArray
+    extrapolated: NDArray[np.bool_]
 
 
-def arrangement_performance(fitted: FittedPump, flow_total_m3_s, pumps_in_parallel=1, series_stages=1,
-                            speed_ratio=1.0, trim_ratio=1.0) -> ArrangementPerformance:
+def arrangement_performance(fitted: FittedPump, flow_total_m3_s: ArrayLike, pumps_in_parallel: ArrayLike = 1,
+                            series_stages: ArrayLike = 1, speed_ratio: ArrayLike = 1.0,
+                            trim_ratio: ArrayLike = 1.0) -> ArrangementPerformance:
     """Head, per-pump efficiency, shaft power and NPSH required of the pump set at each flow."""
     q, n, stages, s, t = np.broadcast_arrays(
         *_arrays(flow_total_m3_s, pumps_in_parallel, series_stages, speed_ratio, trim_ratio))
@@ -123,8 +128,8 @@ def arrangement_performance(fitted: FittedPump, flow_total_m3_s, pumps_in_parall
     )
 
 
-def arrangement_flow_range(fitted: FittedPump, pumps_in_parallel=1, speed_ratio=1.0,
-                           trim_ratio=1.0) -> tuple[np.ndarray, np.ndarray]:
+def arrangement_flow_range(fitted: FittedPump, pumps_in_parallel: ArrayLike = 1, speed_ratio: ArrayLike = 1.0,
+                           trim_ratio: ArrayLike = 1.0) -> tuple[FloatArray, FloatArray]:
     """Station-flow range (m³/s) covered by the pump data: N · s · t · [Q_min, Q_max].
 
     >>> from hydraulics.model import PumpModel

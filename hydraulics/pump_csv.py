@@ -275,7 +275,8 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
                 hint = " (decimal comma needs ';' as separator)" if ("," in cell and not decimal_comma) else ""
                 raise PumpCsvError(f"'{cell}' is not a number{hint}", line_no, column_no, col.key)
             if value < 0:
-                raise PumpCsvError(f"{value:g} is negative; {col.key} must be zero or more", line_no, column_no, col.key)
+                raise PumpCsvError(f"{value:g} is negative; {col.key} must be zero or more",
+                                   line_no, column_no, col.key)
             si = _to_si(value, col.key, col.unit)
             if col.key == "efficiency" and si > 1.0:
                 raise PumpCsvError(
@@ -300,7 +301,7 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
     if any(rows[i][1]["flow"] > rows[i + 1][1]["flow"] for i in range(len(rows) - 1)):
         messages.append("rows were not in order of flow; sorted by flow")
     rows.sort(key=lambda r: r[1]["flow"])
-    for (line_a, a), (line_b, b) in zip(rows, rows[1:]):
+    for (line_a, a), (line_b, b) in zip(rows, rows[1:], strict=False):
         if a["flow"] == b["flow"]:
             first, second = sorted((line_a, line_b))
             raise PumpCsvError(f"the same flow appears on lines {first} and {second}; each flow once",

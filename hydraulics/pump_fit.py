@@ -37,13 +37,16 @@ extrapolated value, and the operating-point solver flags it.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, replace
 
 import numpy as np
 from numpy.polynomial import polynomial as npoly
+from numpy.typing import ArrayLike, NDArray
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.model import ModelError, PumpModel
+from hydraulics.results import FloatArray
 from hydraulics.validation import require_pump_points
 
 __all__ = ["FitQuality", "FittedPump", "fit_pump", "EFFICIENCY_FLOOR", "RISING_HEAD_TOLERANCE",
@@ -71,11 +74,11 @@ class FitQuality:
     n_points: int
     order: int
 
-    def to_json_dict(self) -> dict:
+    def to_json_dict(self) -> dict[str, float | int]:
         return {"rms": self.rms, "max_abs": self.max_abs, "n_points": self.n_points, "order": self.order}
 
 
-def _polyval(coefficients: tuple[float, ...], x: np.ndarray) -> np.ndarray:
+def _polyval(coefficients: tuple[float, ...], x: FloatArray) -> FloatArray:
     """Horner evaluation of Σ c_i x^i (coefficients lowest order first)."""
     result = np.zeros_like(x)
     for c in reversed(coefficients):
@@ -83,7 +86,7 @@ def _polyval(coefficients: tuple[float, ...], x: np.ndarray) -> np.ndarray:
     return result
 
 
-def _quality(fitted: np.ndarray, data: np.ndarray, order: int) -> FitQuality:
+def _quality(fitted: FloatArray, data: FloatArray, order: int) -> FitQuality:
     residual = fitted - data
     return FitQuality(rms=float(np.sqrt(np.mean(residual**2))), max_abs=float(np.max(np.abs(residual))),
                       n_points=int(data.size), order=int(order))
@@ -125,10 +128,10 @@ class FittedPump:
     bep_at_end_of_data: bool
 
     # ------------------------------------------------------------------ evaluation
-    def _x(self, flow_m3_s) -> np.ndarray:
-        return np.asarray(flow_m3_s, dtype=float) / self.flow_scale_m3_s
+    def _x(self, flow_m3_s: ArrayLike) -> FloatArray:
+        return np.asarray(flow_m3_s, dtype=np.float64) / self.flow_scale_m3_s
 
-    def head(self, flow_m3_s) -> np.ndarray:
+    def head(self, flow_m3_s: ArrayLike) -> FloatArray:
         """Head at rated speed (m) at each flow (m³/s)."""
         return _polyval(self.head_coefficients, self._x(flow_m3_s))
 
@@ -141,7 +144,7 @@ class FittedPump:
     def has_npsh(self) -> bool:
         return self.npsh_coefficients is not None
 
-    def efficiency(self, flow_m3_s) -> np.ndarray:
+    def efficiency(self, flow_m3_s: ArrayLike) -> FloatArray:
         """Pump efficiency (fraction) at each flow; NaN when unknown or undefined."""
         q = np.asarray(flow_m3_s, dtype=float)
         if self.efficiency_coefficients is not None:
@@ -153,7 +156,7 @@ class FittedPump:
                 return np.where(power > 0.0, hydraulic / np.where(power > 0.0, power, 1.0), np.nan)
         return np.full_like(q, np.nan)
 
-    def shaft_power(self, flow_m3_s) -> np.ndarray:
+    def shaft_power(self, flow_m3_s: ArrayLike) -> FloatArray:
         """Shaft power at rated speed (W) at each flow; NaN when unknown or undefined."""
         q = np.asarray(flow_m3_s, dtype=float)
         if self.power_coefficients is not None:
@@ -165,13 +168,13 @@ class FittedPump:
             return np.where(ok, hydraulic / np.where(ok, eta, 1.0), np.nan)
         return np.full_like(q, np.nan)
 
-    def npsh_required(self, flow_m3_s) -> np.ndarray:
+    def npsh_required(self, flow_m3_s: ArrayLike) -> FloatArray:
         """NPSH required at rated speed (m) at each flow; NaN without NPSH data."""
         if self.npsh_coefficients is None:
             return np.full_like(np.asarray(flow_m3_s, dtype=float), np.nan)
         return _polyval(self.npsh_coefficients, self._x(flow_m3_s))
 
-    def is_extrapolated(self, flow_m3_s) -> np.ndarray:
+    def is_extrapolated(self, flow_m3_s: ArrayLike) -> NDArray[np.bool_]:
         """True where the flow lies outside the data range [Q_min, Q_max] (small tolerance).
 
         Flows between zero and Q_min count as extrapolated when the data do not start at
@@ -182,17 +185,14 @@ class FittedPump:
         return (q > self.flow_max_m3_s * (1.0 + EXTRAPOLATION_TOLERANCE)) | (q < self.flow_min_m3_s - tol)
 
     # ------------------------------------------------------------------ output
-    def to_json_dict(self) -> dict:
+    def to_json_dict(self) -> dict[str, object]:
         """Summary for the results file (SI; coefficients in x = Q / flow_scale_m3_s)."""
         p = self.pump
 
-        def fit(coefficients, quality, source=None):
+        def fit(coefficients: tuple[float, ...] | None, quality: FitQuality | None) -> dict[str, object] | None:
             if coefficients is None:
                 return None
-            out = {"coefficients": list(coefficients), "quality": quality.to_json_dict() if quality else None}
-            if source is not None:
-                out["source"] = source
-            return out
+            return {"coefficients": list(coefficients), "quality": quality.to_json_dict() if quality else None}
 
         return {
             "pump_id": p.pump_id,
@@ -231,7 +231,7 @@ class FittedPump:
 
 
 # ---------------------------------------------------------------------- fitting
-def _column(pump: PumpModel, name: str, n: int, lower: float, upper: float) -> np.ndarray | None:
+def _column(pump: PumpModel, name: str, n: int, lower: float, upper: float) -> FloatArray | None:
     values = getattr(pump, name)
     if len(values) == 0:
         return None
@@ -267,7 +267,7 @@ def _bep_of_polynomial(coefficients: tuple[float, ...], x_lo: float, x_hi: float
     return float(candidates[int(np.argmax(values))])
 
 
-def nonnegative_least_squares(design: np.ndarray, target: np.ndarray) -> np.ndarray:
+def nonnegative_least_squares(design: ArrayLike, target: ArrayLike) -> FloatArray:
     """Coefficients c >= 0 minimising ||design · c − target||, for a design of a few columns.
 
     Non-negative least squares (Lawson & Hanson, *Solving Least Squares Problems*, 1974,
@@ -283,19 +283,19 @@ def nonnegative_least_squares(design: np.ndarray, target: np.ndarray) -> np.ndar
     >>> nonnegative_least_squares(design, np.array([3.0, 2.0, 1.0]))   # a falling line: slope held at 0
     array([2., 0.])
     """
-    design = np.asarray(design, dtype=np.float64)
-    target = np.asarray(target, dtype=np.float64)
-    n_columns = design.shape[1]
+    design_matrix = np.asarray(design, dtype=np.float64)
+    target_vector = np.asarray(target, dtype=np.float64)
+    n_columns = design_matrix.shape[1]
     if n_columns > 8:
         raise ValueError(f"nonnegative_least_squares enumerates 2**n sets; {n_columns} columns is too many")
     best = np.zeros(n_columns)
-    best_residual = float(np.dot(target, target))
+    best_residual = float(np.dot(target_vector, target_vector))
     for free_set in range(1, 2**n_columns):
         free = np.array([(free_set >> j) & 1 == 1 for j in range(n_columns)])
-        coefficients, *_ = np.linalg.lstsq(design[:, free], target, rcond=None)
+        coefficients, *_ = np.linalg.lstsq(design_matrix[:, free], target_vector, rcond=None)
         if np.any(coefficients < 0.0):
             continue
-        residual_vector = design[:, free] @ coefficients - target
+        residual_vector = design_matrix[:, free] @ coefficients - target_vector
         residual = float(np.dot(residual_vector, residual_vector))
         if residual < best_residual:
             best_residual = residual
@@ -304,7 +304,7 @@ def nonnegative_least_squares(design: np.ndarray, target: np.ndarray) -> np.ndar
     return best
 
 
-def _argmax_on_interval(func, x_lo: float, x_hi: float) -> float:
+def _argmax_on_interval(func: Callable[[FloatArray], FloatArray], x_lo: float, x_hi: float) -> float:
     """x of the largest value of a smooth scalar function on [x_lo, x_hi]: grid then bounded refinement."""
     grid = np.linspace(x_lo, x_hi, 401)
     values = func(grid)
@@ -315,7 +315,7 @@ def _argmax_on_interval(func, x_lo: float, x_hi: float) -> float:
     lo, hi = grid[i - 1], grid[i + 1]
     # Imported here: scipy.optimize costs about 0.1 s to import, and only pumps whose data
     # give power without efficiency reach this refinement.
-    from scipy.optimize import minimize_scalar
+    from scipy.optimize import minimize_scalar  # type: ignore[import-untyped]  # scipy ships no type information
 
     result = minimize_scalar(lambda x: -float(func(np.asarray(x))), bounds=(lo, hi), method="bounded",
                              options={"xatol": 1e-12 * max(x_hi, 1e-300)})
@@ -357,6 +357,8 @@ def fit_pump(pump: PumpModel, density_kg_m3: float) -> FittedPump:
     n = len(pump.flow_m3_s)
     require_pump_points(n, "pump.flow_m3_s")
     flow = _column(pump, "flow_m3_s", n, 0.0, math.inf)
+    if flow is None:
+        raise ModelError("pump.flow_m3_s", "has 0 values", 0)
     head = _column(pump, "head_m", n, 0.0, math.inf)
     if head is None:
         raise ModelError("pump.head_m", f"has 0 values; flow has {n}", 0)

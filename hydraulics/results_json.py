@@ -10,18 +10,25 @@ Top-level keys (a contract: later versions add keys, never rename these):
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import Protocol
 
 import numpy as np
 
 from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.results import Solution
 
+
+class SupportsJsonDict(Protocol):
+    """A result that writes itself as a JSON-ready dictionary."""
+
+    def to_json_dict(self) -> dict[str, object]: ...
+
+
 RESULTS_FORMAT = "pumpsketch-results"
 RESULTS_VERSION = 1
 
 
-def _clean(value: Any) -> Any:
+def _clean(value: object) -> object:
     """JSON-safe: numpy to Python, NaN/inf to None, tuples to lists."""
     if isinstance(value, dict):
         return {k: _clean(v) for k, v in value.items()}
@@ -39,18 +46,14 @@ def _clean(value: Any) -> Any:
     return value
 
 
-def _to_dict(obj: Any) -> Any:
-    if obj is None:
-        return None
-    if hasattr(obj, "to_json_dict"):
-        return obj.to_json_dict()
-    return obj
+def _to_dict(obj: SupportsJsonDict | None) -> object:
+    return None if obj is None else obj.to_json_dict()
 
 
-def solution_to_json_dict(solution: Solution) -> dict:
+def solution_to_json_dict(solution: Solution) -> dict[str, object]:
     """The results dictionary of one solved project."""
     fluid = solution.fluid
-    data = {
+    data: dict[str, object] = {
         "format": RESULTS_FORMAT,
         "version": RESULTS_VERSION,
         "project": solution.project.name,
@@ -90,4 +93,4 @@ def solution_to_json_dict(solution: Solution) -> dict:
         "variable_speed": _to_dict(solution.variable_speed),
         "energy": _to_dict(solution.energy),
     }
-    return _clean(data)
+    return {key: _clean(value) for key, value in data.items()}

@@ -16,16 +16,17 @@ pass over (flows × segments) — no Python loop over flow points.
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass
 from functools import cached_property
-from typing import Mapping
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 from hydraulics import catalogue, fittings, friction
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
-from hydraulics.model import ModelError, PressurisedDelivery, Project, Site, TankDelivery
-from hydraulics.results import FluidProperties, SegmentResult, SystemCurve
+from hydraulics.model import ModelError, PipeState, PressurisedDelivery, Project, Site, StaticCase, TankDelivery
+from hydraulics.results import FloatArray, FluidProperties, Regime, SegmentResult, SystemCurve
 
 G = STANDARD_GRAVITY_M_S2
 
@@ -49,7 +50,7 @@ def static_heads(site: Site, density_kg_m3: float) -> dict[str, float]:
     elif isinstance(delivery, PressurisedDelivery):
         level = delivery.elevation_m + delivery.pressure_pa / (density_kg_m3 * G)
         delivery_low = delivery_high = level
-    else:  # pragma: no cover - the model has two kinds only
+    else:  # the model has two kinds only
         raise ModelError("site.delivery", "must be a tank or a pressurised point")
     return {
         "min": float(delivery_low - site.suction_level_high_m),
@@ -103,13 +104,13 @@ class SystemHydraulics:
     def n_segments(self) -> int:
         return len(self.segment_names)
 
-    def segment_velocities(self, flow_m3_s) -> np.ndarray:
+    def segment_velocities(self, flow_m3_s: ArrayLike) -> FloatArray:
         """Mean velocity in each pipe of each segment, v = Q / (n_parallel · π D²/4)."""
         q = np.asarray(flow_m3_s, dtype=float)[..., None]
         area = np.pi * self.diameter_m**2 / 4.0
         return q / (self.parallel_pipes * area)
 
-    def segment_friction(self, flow_m3_s, aged) -> friction.PipeFriction:
+    def segment_friction(self, flow_m3_s: ArrayLike, aged: bool) -> friction.PipeFriction:
         """Velocity, Reynolds number, friction factor and friction loss per segment."""
         q = np.asarray(flow_m3_s, dtype=float)[..., None]
         if self.method == "hazen_williams":
@@ -120,7 +121,7 @@ class SystemHydraulics:
         return friction.darcy_weisbach(q, self.diameter_m, self.length_m, eps,
                                        self.kinematic_viscosity_m2_s, self.parallel_pipes)
 
-    def losses(self, flow_m3_s, aged) -> tuple[np.ndarray, np.ndarray]:
+    def losses(self, flow_m3_s: ArrayLike, aged: ArrayLike) -> tuple[FloatArray, FloatArray]:
         """Total friction and total minor loss over all segments (shape ``S``).
 
         The sums over segments are taken without forming per-segment losses:
@@ -138,18 +139,20 @@ class SystemHydraulics:
         """
         return self._loss_totals(flow_m3_s, aged, self._loss_constants)
 
-    def _loss_totals(self, flow_m3_s, aged, k: "_LossConstants") -> tuple[np.ndarray, np.ndarray]:
+    def _loss_totals(self, flow_m3_s: ArrayLike, aged: ArrayLike,
+                     k: _LossConstants) -> tuple[FloatArray, FloatArray]:
         """Friction and minor totals over the segments that ``k`` was built for."""
-        q = np.asarray(flow_m3_s, dtype=float)
-        aged = np.asarray(aged, dtype=bool)
-        if aged.shape != q.shape:
-            q, aged = np.broadcast_arrays(q, aged)
+        q = np.asarray(flow_m3_s, dtype=np.float64)
+        aged_mask = np.asarray(aged, dtype=bool)
+        if aged_mask.shape != q.shape:
+            q, aged_mask = np.broadcast_arrays(q, aged_mask)
         flat = q.ravel()
-        aged_flat = aged.ravel()
+        aged_flat = aged_mask.ravel()
         n_aged = int(np.count_nonzero(aged_flat))
         q_abs_q = flat * np.abs(flat) * (0.5 / G)
         minor = q_abs_q * k.minor_sum
         if self.method == "hazen_williams":
+            per_flow: float | FloatArray
             if n_aged in (0, flat.size):
                 per_flow = k.hw_sum_aged if n_aged else k.hw_sum_new
             else:
@@ -166,16 +169,16 @@ class SystemHydraulics:
         return fric.reshape(q.shape), minor.reshape(q.shape)
 
     @cached_property
-    def _loss_constants(self) -> "_LossConstants":
+    def _loss_constants(self) -> _LossConstants:
         """Per-segment constants of :meth:`losses`, computed once per prepared system."""
         return self._constants_for(np.ones(self.n_segments, dtype=bool))
 
     @cached_property
-    def _suction_loss_constants(self) -> "_LossConstants":
+    def _suction_loss_constants(self) -> _LossConstants:
         """The same for the suction-side segments only (:meth:`suction_loss`)."""
         return self._constants_for(self.suction_mask)
 
-    def _constants_for(self, mask: np.ndarray) -> "_LossConstants":
+    def _constants_for(self, mask: np.ndarray) -> _LossConstants:
         d, n, length = self.diameter_m[mask], self.parallel_pipes[mask], self.length_m[mask]
         c = 1.0 / (n * (np.pi / 4.0) * d**2)
         if self.method == "hazen_williams":
@@ -196,12 +199,12 @@ class SystemHydraulics:
             hw_sum_aged=hw_sums[1],
         )
 
-    def head(self, flow_m3_s, static_m, aged) -> np.ndarray:
+    def head(self, flow_m3_s: ArrayLike, static_m: ArrayLike, aged: ArrayLike) -> FloatArray:
         """Total system head H = H_static + h_friction + h_minor, elementwise."""
         fric, minor = self.losses(flow_m3_s, aged)
-        return np.asarray(static_m, dtype=float) + fric + minor
+        return np.asarray(static_m, dtype=np.float64) + fric + minor
 
-    def suction_loss(self, flow_m3_s, aged) -> np.ndarray:
+    def suction_loss(self, flow_m3_s: ArrayLike, aged: ArrayLike) -> FloatArray:
         """Friction plus minor loss of the suction-side segments only (m).
 
         The same sums as :meth:`losses` over the suction segments (zero without any).
@@ -210,10 +213,11 @@ class SystemHydraulics:
         return fric + minor
 
 
-def _segment_arrays(project: Project):
+def _segment_arrays(project: Project) -> tuple[tuple[str, ...], tuple[str, ...], FloatArray]:
     """Catalogue look-ups per segment (materials, fittings); done once per solve."""
-    names, sides = [], []
-    rows = []
+    names: list[str] = []
+    sides: list[str] = []
+    rows: list[tuple[float, float, float, float, float, float, float, float]] = []
     for i, seg in enumerate(project.segments):
         path = f"segments[{i}]"
         try:
@@ -259,27 +263,34 @@ def prepare_system(project: Project, fluid: FluidProperties) -> SystemHydraulics
     )
 
 
-def flow_grid(max_flow_m3_s: float, n_points: int = 256) -> np.ndarray:
+def flow_grid(max_flow_m3_s: float, n_points: int = 256) -> FloatArray:
     """Evenly spaced flows from zero to ``max_flow_m3_s`` inclusive."""
     return np.linspace(0.0, max_flow_m3_s, n_points)
 
 
-def system_curves(system: SystemHydraulics, flow_m3_s: np.ndarray) -> tuple[SystemCurve, ...]:
+def system_curves(system: SystemHydraulics, flow_m3_s: ArrayLike) -> tuple[SystemCurve, ...]:
     """The four system curves (min/max static × new/aged pipe) over ``flow_m3_s``.
 
     Friction and minor losses do not depend on the static head, so they are computed once
     per pipe state and shared by both static extremes.
     """
-    flows = np.asarray(flow_m3_s, dtype=float)
+    flows = np.asarray(flow_m3_s, dtype=np.float64)
     curves = []
-    for pipe, aged in (("new", False), ("aged", True)):
+    pipe_states: tuple[tuple[PipeState, bool], ...] = (("new", False), ("aged", True))
+    static_cases: tuple[StaticCase, ...] = ("min", "max")
+    for pipe, aged in pipe_states:
         fric, minor = system.losses(flows, aged)
-        for static in ("min", "max"):
+        for static in static_cases:
             hs = np.full_like(flows, system.static_head_m[static])
             curves.append(SystemCurve(static=static, pipe=pipe, flow_m3_s=flows, head_m=hs + fric + minor,
                                       static_m=hs, friction_m=fric, minor_m=minor))
     order = {("min", "new"): 0, ("min", "aged"): 1, ("max", "new"): 2, ("max", "aged"): 3}
     return tuple(sorted(curves, key=lambda c: order[(c.static, c.pipe)]))
+
+
+_REGIMES: dict[str, Regime] = {"none": "none", "laminar": "laminar", "transition": "transition",
+                               "turbulent": "turbulent"}
+"""The regime names of :func:`hydraulics.friction.flow_regime` as their literal type."""
 
 
 def segment_results(system: SystemHydraulics, flow_m3_s: float, aged: bool = False) -> tuple[SegmentResult, ...]:
@@ -298,7 +309,7 @@ def segment_results(system: SystemHydraulics, flow_m3_s: float, aged: bool = Fal
             length_m=float(system.length_m[i]), internal_diameter_m=float(system.diameter_m[i]),
             roughness_m=float(eps[i]), parallel_pipes=int(system.parallel_pipes[i]),
             flow_m3_s=q, velocity_m_s=float(velocity[i]), reynolds=float(reynolds[i]),
-            friction_factor=float(f[i]), regime=str(regimes[i]),  # type: ignore[arg-type]
+            friction_factor=float(f[i]), regime=_REGIMES[str(regimes[i])],
             friction_loss_m=float(fric[i]), minor_k_total=float(system.k_total[i]),
             minor_loss_m=float(minor[i]),
         ))

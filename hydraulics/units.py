@@ -33,15 +33,17 @@ from __future__ import annotations
 
 import math
 import re
-from importlib import resources
 from dataclasses import dataclass
 from functools import cached_property, lru_cache
+from importlib import resources
 from typing import Final, overload
 
 import numpy as np
 import pint
+from numpy.typing import NDArray
 
 from hydraulics.number_format import significant_figures
+from hydraulics.results import FloatArray
 
 __all__ = [
     "ureg",
@@ -67,7 +69,7 @@ or accepts, each with its published definition.  pint's complete default set tak
 ten times longer to load, at every start."""
 
 
-def _build_registry() -> pint.UnitRegistry:
+def _build_registry() -> pint.UnitRegistry[float]:
     with resources.as_file(resources.files("hydraulics").joinpath(UNIT_DEFINITIONS)) as path:
         return pint.UnitRegistry(str(path))
 
@@ -75,7 +77,7 @@ def _build_registry() -> pint.UnitRegistry:
 ureg: Final = _build_registry()
 """The one unit registry of the application (never create another: pint#725)."""
 
-pint.set_application_registry(ureg)
+pint.set_application_registry(ureg)  # type: ignore[no-untyped-call]  # pint leaves this function unannotated
 
 Q_ = ureg.Quantity
 """Quantity constructor bound to :data:`ureg`."""
@@ -368,8 +370,8 @@ def unit_label(quantity: str, system: str) -> str:
 @overload
 def _apply(values: Scalar, scale: float, offset: float) -> float: ...
 @overload
-def _apply(values: np.ndarray, scale: float, offset: float) -> np.ndarray: ...
-def _apply(values, scale, offset):
+def _apply(values: NDArray[np.number], scale: float, offset: float) -> FloatArray: ...
+def _apply(values: Scalar | NDArray[np.number], scale: float, offset: float) -> float | FloatArray:
     if isinstance(values, np.ndarray):
         array = values.astype(np.float64, copy=False)
     elif isinstance(values, (float, int, np.floating, np.integer)) and not isinstance(values, bool):
@@ -379,7 +381,11 @@ def _apply(values, scale, offset):
     return array * scale + offset if offset else array * scale
 
 
-def to_display(value_si, quantity: str, system: str):
+@overload
+def to_display(value_si: Scalar, quantity: str, system: str) -> float: ...
+@overload
+def to_display(value_si: NDArray[np.number], quantity: str, system: str) -> FloatArray: ...
+def to_display(value_si: Scalar | NDArray[np.number], quantity: str, system: str) -> float | FloatArray:
     """Convert a stored value (float or numpy array) to the display unit of ``system``.
 
     Uses precomputed factors; no pint call.
@@ -395,7 +401,11 @@ def to_display(value_si, quantity: str, system: str):
     return _apply(value_si, linear.inverse_scale, linear.inverse_offset)
 
 
-def from_display(value, quantity: str, system: str):
+@overload
+def from_display(value: Scalar, quantity: str, system: str) -> float: ...
+@overload
+def from_display(value: NDArray[np.number], quantity: str, system: str) -> FloatArray: ...
+def from_display(value: Scalar | NDArray[np.number], quantity: str, system: str) -> float | FloatArray:
     """Convert a value (float or numpy array) in the display unit of ``system`` to the stored unit.
 
     >>> round(from_display(12.0, "diameter", "US"), 12)
@@ -416,7 +426,11 @@ def _cached_linear(unit_text: str, quantity: str) -> _Linear:
     return _linear_to_stored(unit, quantity)
 
 
-def convert_to_si(value, quantity: str, unit: str):
+@overload
+def convert_to_si(value: Scalar, quantity: str, unit: str) -> float: ...
+@overload
+def convert_to_si(value: NDArray[np.number], quantity: str, unit: str) -> FloatArray: ...
+def convert_to_si(value: Scalar | NDArray[np.number], quantity: str, unit: str) -> float | FloatArray:
     """Convert a float or array in any ``unit`` of ``quantity`` to the stored unit.
 
     The first call per unit asks pint; later calls reuse the cached factor.
@@ -429,7 +443,11 @@ def convert_to_si(value, quantity: str, unit: str):
     return _apply(value, linear.scale, linear.offset)
 
 
-def convert_from_si(value_si, quantity: str, unit: str):
+@overload
+def convert_from_si(value_si: Scalar, quantity: str, unit: str) -> float: ...
+@overload
+def convert_from_si(value_si: NDArray[np.number], quantity: str, unit: str) -> FloatArray: ...
+def convert_from_si(value_si: Scalar | NDArray[np.number], quantity: str, unit: str) -> float | FloatArray:
     """Convert a stored float or array of ``quantity`` to any ``unit`` of it.
 
     >>> convert_from_si(0.1, "flow", "m3/h")

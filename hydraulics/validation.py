@@ -320,8 +320,10 @@ def validate_arrangement(arrangement: Arrangement, project: Project, path: str =
 def validate_criteria(criteria: Criteria, path: str = "criteria") -> None:
     """Check the limits used by the checks, and that each lower bound is below its upper."""
     for side in ("suction", "delivery"):
-        low = check("criteria.velocity_m_s", getattr(criteria, f"{side}_velocity_min_m_s"), f"{path}.{side}_velocity_min")
-        high = check("criteria.velocity_m_s", getattr(criteria, f"{side}_velocity_max_m_s"), f"{path}.{side}_velocity_max")
+        low = check("criteria.velocity_m_s", getattr(criteria, f"{side}_velocity_min_m_s"),
+                    f"{path}.{side}_velocity_min")
+        high = check("criteria.velocity_m_s", getattr(criteria, f"{side}_velocity_max_m_s"),
+                     f"{path}.{side}_velocity_max")
         if low > high:
             raise ModelError(f"{path}.{side}_velocity_min", f"minimum {side} velocity is above the maximum")
     check("criteria.velocity_m_s", criteria.sewage_velocity_min_m_s, f"{path}.sewage_velocity_min")

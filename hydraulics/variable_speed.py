@@ -34,7 +34,8 @@ from hydraulics.number_format import percent_number
 from hydraulics.operating_points import PIPE_STATES, STATIC_CASES, operating_points
 from hydraulics.pump_arrangement import arrangement_head, rated_equivalent_flow
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import Finding, OperatingPoint, SpeedForFlow, VariableSpeedResult, finding
+from hydraulics.results import Finding, FloatArray, OperatingPoint, SpeedForFlow, VariableSpeedResult, finding
+from hydraulics.system_curve import SystemHydraulics
 
 __all__ = ["SpeedForFlow", "VariableSpeedResult", "SpeedSearch", "search_speeds", "variable_speed_points",
            "variable_speed", "variable_speed_findings",
@@ -86,7 +87,8 @@ class SpeedSearch:
         return tuple(dict.fromkeys(self.speeds_solved + (self.min_speed_ratio,)))
 
 
-def search_speeds(system, fitted: FittedPump, arrangement: Arrangement, target_flow_m3_s: float) -> SpeedSearch:
+def search_speeds(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrangement,
+                  target_flow_m3_s: float) -> SpeedSearch:
     """Speed ratios that deliver ``target_flow_m3_s`` with the duty pumps, per static extreme and pipe state.
 
     Solves S (s t)² H_rated(Q_t / (N s t)) = H_system(Q_t) for s in
@@ -107,9 +109,9 @@ def search_speeds(system, fitted: FittedPump, arrangement: Arrangement, target_f
     statics = np.array([system.static_head_m[static] for static, _ in labels], dtype=float)
     aged = np.array([pipe == "aged" for _, pipe in labels], dtype=bool)
     q = np.full(len(labels), float(target_flow_m3_s))
-    h_system = np.asarray(system.head(q, statics, aged), dtype=float)
+    h_system = np.asarray(system.head(q, statics, aged), dtype=np.float64)
 
-    def excess(s):
+    def excess(s: FloatArray) -> FloatArray:
         return arrangement_head(fitted, q, n, stages, s, trim) - h_system
 
     lo, hi = np.full(q.shape, s_lo), np.full(q.shape, s_hi)
@@ -174,7 +176,7 @@ def variable_speed_points(search: SpeedSearch, points: tuple[OperatingPoint, ...
     )
 
 
-def variable_speed(system, fitted: FittedPump, arrangement: Arrangement, target_flow_m3_s: float,
+def variable_speed(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrangement, target_flow_m3_s: float,
                    npsh_static_head_m: float | None = None, density_kg_m3: float | None = None) -> VariableSpeedResult:
     """Speed ratios that deliver ``target_flow_m3_s`` with the duty pumps, per static extreme and pipe state.
 
