@@ -23,7 +23,7 @@ SUBCOMMANDS = ("solve", "import-pump", "shot")
 BAD_INPUT = 2
 
 
-class BadInput(Exception):
+class BadInputError(Exception):
     """A problem with what the user gave: reported in one line, exit status 2."""
 
 
@@ -36,22 +36,22 @@ def _load_and_solve(path: str):
         project = load_project(path)
         return solve(project)
     except ProjectFileError as exc:
-        raise BadInput(str(exc)) from None
+        raise BadInputError(str(exc)) from None
     except ModelError as exc:
-        raise BadInput(f"{path}: {exc}") from None
+        raise BadInputError(f"{path}: {exc}") from None
 
 
 def _project_file(args) -> str:
     """The project file a sub-command works on: FILE, or the bundled sample ``--sample NAME``."""
     if (args.file is None) == (args.sample is None):
-        raise BadInput("give a project file or --sample NAME (one of the two)")
+        raise BadInputError("give a project file or --sample NAME (one of the two)")
     if args.sample is None:
         return args.file
     from app.samples import sample_names, sample_path
 
     path = sample_path(args.sample)
     if path is None:
-        raise BadInput(f"--sample: no sample called {args.sample!r}; the samples are {', '.join(sample_names())}")
+        raise BadInputError(f"--sample: no sample called {args.sample!r}; the samples are {', '.join(sample_names())}")
     return str(path)
 
 
@@ -80,9 +80,9 @@ def _cmd_import_pump(args) -> int:
                                                      rated_speed_rpm=args.speed)
         fitted = fit_pump(pump, args.density)
     except FileNotFoundError:
-        raise BadInput(f"{path}: file not found") from None
+        raise BadInputError(f"{path}: file not found") from None
     except (PumpCsvError, ModelError, ValueError) as exc:
-        raise BadInput(f"{path}: {exc}") from None
+        raise BadInputError(f"{path}: {exc}") from None
     from app.pump_report import pump_fit_text
 
     for message in messages:
@@ -98,7 +98,7 @@ def _cmd_shot(args) -> int:
     try:
         load_project(file)
     except ProjectFileError as exc:
-        raise BadInput(str(exc)) from None
+        raise BadInputError(str(exc)) from None
     from app.screenshot import render_window_png
 
     out = render_window_png(file, args.output, width=args.width, height=args.height)
@@ -172,12 +172,12 @@ def main(argv: list[str] | None = None) -> int:
         return 0
     try:
         return args.handler(args)
-    except BadInput as exc:
+    except BadInputError as exc:
         print(f"pumpsketch: {exc}", file=sys.stderr)
         return BAD_INPUT
     except BrokenPipeError:
         return 0
 
 
-if __name__ == "__main__":  # pragma: no cover
+if __name__ == "__main__":
     sys.exit(main())

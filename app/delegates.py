@@ -51,7 +51,7 @@ class ProjectTableDelegate(QStyledItemDelegate):
             editor.setCurrentIndex(max(position, 0))
         elif isinstance(editor, QLineEdit):
             editor.setText("" if value is None else str(value))
-        else:  # pragma: no cover - only the two editors above are created
+        else:  # only the two editors above are created
             super().setEditorData(editor, index)
 
     def setModelData(self, editor: QWidget, model, index: ModelIndex) -> None:
@@ -59,5 +59,5 @@ class ProjectTableDelegate(QStyledItemDelegate):
             model.setData(index, editor.currentText(), Qt.ItemDataRole.EditRole)
         elif isinstance(editor, QLineEdit):
             model.setData(index, editor.text(), Qt.ItemDataRole.EditRole)
-        else:  # pragma: no cover
+        else:
             super().setModelData(editor, model, index)

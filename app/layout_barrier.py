@@ -46,20 +46,20 @@ class LayoutBarrier(QWidget):
         self.setMaximumSize(self._child.maximumSize())
 
     # ---------------------------------------------------------------- size reporting
-    def sizeHint(self) -> QSize:  # noqa: N802 - Qt name
+    def sizeHint(self) -> QSize:
         return self._child.sizeHint()
 
-    def minimumSizeHint(self) -> QSize:  # noqa: N802 - Qt name
+    def minimumSizeHint(self) -> QSize:
         return self._child.minimumSizeHint().expandedTo(self._child.minimumSize())
 
-    def hasHeightForWidth(self) -> bool:  # noqa: N802 - Qt name
+    def hasHeightForWidth(self) -> bool:
         return self._child.hasHeightForWidth()
 
-    def heightForWidth(self, width: int) -> int:  # noqa: N802 - Qt name
+    def heightForWidth(self, width: int) -> int:
         return self._child.heightForWidth(width)
 
     # ---------------------------------------------------------------- events
-    def resizeEvent(self, event) -> None:  # noqa: N802 - Qt name
+    def resizeEvent(self, event) -> None:
         self._child.setGeometry(self.rect())
         super().resizeEvent(event)
 

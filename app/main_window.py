@@ -97,7 +97,7 @@ class MainWindow(QMainWindow):
         self.input_tabs = QTabWidget()
         self.input_tabs.setObjectName("input_tabs")
         for title, panel in zip(INPUT_TABS, (self.site_panel, self.pipework, self.pumps_panel,
-                                             self.criteria_panel)):
+                                             self.criteria_panel), strict=True):
             page = LayoutBarrier(panel) if panel is self.pipework else _scrolled(panel)
             self.input_tabs.addTab(page, title.replace("&", "&&"))
         self.input_tabs.setCurrentIndex(1)
@@ -379,7 +379,7 @@ class MainWindow(QMainWindow):
         return str(path.parent) if path is not None else str(Path.home())
 
     # ------------------------------------------------------------------ closing
-    def closeEvent(self, event: QCloseEvent) -> None:  # noqa: N802 - Qt name
+    def closeEvent(self, event: QCloseEvent) -> None:
         if self.files.maybe_save():
             if self._remember_layout:
                 settings.set_window_state(bytes(self.saveGeometry().data()),
@@ -395,6 +395,7 @@ class MainWindow(QMainWindow):
         geometry, splitters = settings.window_state()
         if geometry:
             self.restoreGeometry(QByteArray(geometry))
-        for splitter, state in zip(self._splitters(), splitters):
+        # Settings from an older layout may hold fewer (or more) splitter states than the window has now.
+        for splitter, state in zip(self._splitters(), splitters, strict=False):
             if state:
                 splitter.restoreState(QByteArray(bytes(state)))

@@ -127,7 +127,7 @@ class StepTooltip(QObject):
     def text_now(self) -> str:
         return f"{self._text} {self._describe()}".strip()
 
-    def eventFilter(self, watched: QObject, event: QEvent) -> bool:  # noqa: N802 - Qt name
+    def eventFilter(self, watched: QObject, event: QEvent) -> bool:
         if event.type() == QEvent.Type.ToolTip:
             QToolTip.showText(event.globalPos(), self.text_now(), watched)
             return True

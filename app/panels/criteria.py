@@ -8,9 +8,8 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from hydraulics.model import Project
-
 from app.panels.form import CheckField, ChoiceField, FormPanel, NumberField, Section, TextField
+from hydraulics.model import Project
 
 HOURS_PER_YEAR_DEFAULT = 4000.0
 """Operating hours offered when switching the energy basis back to hours (demo value)."""

@@ -12,8 +12,9 @@ Forms hold no data: :meth:`FormPanel.refresh` re-reads everything from the proje
 
 from __future__ import annotations
 
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
-from typing import Any, Callable, Sequence
+from typing import Any
 
 from PySide6.QtCore import QSignalBlocker
 from PySide6.QtWidgets import (
@@ -211,7 +212,7 @@ class FormPanel(QWidget):
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
         editor.setToolTip(spec.tooltip)
 
-    def showEvent(self, event) -> None:  # noqa: N802 - Qt name
+    def showEvent(self, event) -> None:
         if getattr(self, "_stale", False):
             self.refresh()
         super().showEvent(event)

@@ -27,8 +27,8 @@ from app.table_models.fittings import FittingsModel
 from app.table_models.segments import SegmentsModel
 from hydraulics import catalogue, fittings
 from hydraulics.model import ModelError
-from hydraulics.project_edits import stepped_segment, with_segment
 from hydraulics.number_format import general_number
+from hydraulics.project_edits import stepped_segment, with_segment
 
 
 class SizeStepper(QAbstractSpinBox):
@@ -57,7 +57,7 @@ class SizeStepper(QAbstractSpinBox):
         self._can_down = can_down
         self.update()
 
-    def stepEnabled(self) -> QAbstractSpinBox.StepEnabledFlag:  # noqa: N802 - Qt name
+    def stepEnabled(self) -> QAbstractSpinBox.StepEnabledFlag:
         flags = QAbstractSpinBox.StepEnabledFlag.StepNone
         if self._can_up:
             flags |= QAbstractSpinBox.StepEnabledFlag.StepUpEnabled
@@ -65,7 +65,7 @@ class SizeStepper(QAbstractSpinBox):
             flags |= QAbstractSpinBox.StepEnabledFlag.StepDownEnabled
         return flags
 
-    def stepBy(self, steps: int) -> None:  # noqa: N802 - Qt name
+    def stepBy(self, steps: int) -> None:
         if steps:
             self.stepRequested.emit(int(steps))
 

@@ -26,7 +26,7 @@ from app.panels.form import FormPanel, NumberField, Section, TextField
 from app.panels.table_view import SpreadsheetView
 from app.table_models.pump_points import PumpPointsModel
 from hydraulics import project_edits
-from hydraulics.model import Project, PumpModel
+from hydraulics.model import Project
 from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
 
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
+from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
 from hydraulics.model import PressurisedDelivery, Project, TankDelivery, UserFluid, WaterFluid
 from hydraulics.project_edits import (
     with_atmosphere_mode,
@@ -19,8 +20,6 @@ from hydraulics.project_edits import (
     with_site_changes,
 )
 from hydraulics.units import format_quantity
-
-from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
 
 
 def _is_tank(project: Project) -> bool:
@@ -98,7 +97,8 @@ SECTIONS = (
                     lambda p: p.site.altitude_m, lambda p, v: with_site_changes(p, altitude_m=v),
                     tooltip="Altitude above sea level, for the standard atmosphere."),
         NumberField("atmospheric_pressure", "Atmospheric pressure", "pressure", "site.atmospheric_pressure_pa",
-                    lambda p: p.site.atmospheric_pressure_pa, lambda p, v: with_site_changes(p, atmospheric_pressure_pa=v),
+                    lambda p: p.site.atmospheric_pressure_pa,
+                    lambda p, v: with_site_changes(p, atmospheric_pressure_pa=v),
                     visible=_pressure_given, placeholder=_atmosphere_placeholder),
     )),
     Section("Fluid", (
@@ -111,7 +111,8 @@ SECTIONS = (
         TextField("fluid_name", "Fluid name", lambda p: getattr(p.fluid, "name", ""),
                   lambda p, v: with_fluid_changes(p, name=v), visible=_is_user_fluid),
         NumberField("density", "Density", "density", "fluid.density_kg_m3",
-                    lambda p: getattr(p.fluid, "density_kg_m3", None), lambda p, v: with_fluid_changes(p, density_kg_m3=v),
+                    lambda p: getattr(p.fluid, "density_kg_m3", None),
+                    lambda p, v: with_fluid_changes(p, density_kg_m3=v),
                     visible=_is_user_fluid),
         NumberField("kinematic_viscosity", "Kinematic viscosity", "kinematic_viscosity",
                     "fluid.kinematic_viscosity_m2_s",

@@ -19,7 +19,6 @@ from PySide6.QtWidgets import QAbstractItemDelegate, QAbstractItemView, QHeaderV
 from app import clipboard
 from app.delegates import ProjectTableDelegate
 
-
 MAX_COLUMN_WIDTH = 230
 """Widest a column grows when sized to its contents (px); long names show in full as tooltips."""
 
@@ -52,7 +51,7 @@ class SpreadsheetView(QTableView):
         self._last_row = -1
         self._refused = False
 
-    def setModel(self, model) -> None:  # noqa: N802 - Qt name
+    def setModel(self, model) -> None:
         super().setModel(model)
         self.selectionModel().currentRowChanged.connect(self._on_current_row)
         model.modelReset.connect(self._after_reset)
@@ -111,13 +110,13 @@ class SpreadsheetView(QTableView):
         column = min(max(current.column() + columns, 0), model.columnCount() - 1)
         self.setCurrentIndex(model.index(row, column))
 
-    def commitData(self, editor: QWidget) -> None:  # noqa: N802 - Qt name
+    def commitData(self, editor: QWidget) -> None:
         document = getattr(self.model(), "document", None)
         before = document.refusal_count if document is not None else 0
         super().commitData(editor)
         self._refused = document is not None and document.refusal_count != before
 
-    def closeEditor(self, editor: QWidget, hint: QAbstractItemDelegate.EndEditHint) -> None:  # noqa: N802
+    def closeEditor(self, editor: QWidget, hint: QAbstractItemDelegate.EndEditHint) -> None:
         moves = {
             QAbstractItemDelegate.EndEditHint.SubmitModelCache: (1, 0),
             QAbstractItemDelegate.EndEditHint.EditNextItem: (0, 1),
@@ -129,7 +128,7 @@ class SpreadsheetView(QTableView):
             self._move(*move)
         self._refused = False
 
-    def keyPressEvent(self, event: QKeyEvent) -> None:  # noqa: N802
+    def keyPressEvent(self, event: QKeyEvent) -> None:
         if self.state() != QAbstractItemView.State.EditingState:
             key = event.key()
             if key in (Qt.Key.Key_Return, Qt.Key.Key_Enter) and event.modifiers() in (
@@ -184,7 +183,7 @@ class SpreadsheetView(QTableView):
         if self.model().move_row(row, offset):
             self.select_row(row + offset)
 
-    def contextMenuEvent(self, event: QContextMenuEvent) -> None:  # noqa: N802 - Qt name
+    def contextMenuEvent(self, event: QContextMenuEvent) -> None:
         menu = QMenu(self)
         for action in self.row_actions():
             if action is None:

@@ -3,7 +3,8 @@ that lists only what is shown, and a placer that keeps point labels from overlap
 
 from __future__ import annotations
 
-from typing import Any, Callable, Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
+from typing import Any
 
 import numpy as np
 import pyqtgraph as pg
@@ -33,7 +34,7 @@ class PlotCanvas(pg.GraphicsLayoutWidget):
 
     painted = Signal()
 
-    def paintEvent(self, event) -> None:  # noqa: N802 - Qt name
+    def paintEvent(self, event) -> None:
         super().paintEvent(event)
         self.painted.emit()
 
@@ -194,7 +195,7 @@ class BandItem(pg.GraphicsObject):
         """Copies of the (x, low, high) arrays filled."""
         return tuple(v.copy() for v in self._edges)
 
-    def boundingRect(self) -> QRectF:  # noqa: N802 - Qt name
+    def boundingRect(self) -> QRectF:
         return self._path.boundingRect()
 
     def paint(self, painter, *_args) -> None:
@@ -366,7 +367,7 @@ class HoverReadout(QObject):
     def show_at(self, index: int, x: float, y: float) -> None:
         """Put the crosshair at (x, y) of plot ``index`` and describe that point."""
         self._last = (index, x, y)
-        for i, (vertical, horizontal) in enumerate(zip(self.verticals, self.horizontals)):
+        for i, (vertical, horizontal) in enumerate(zip(self.verticals, self.horizontals, strict=True)):
             vertical.setPos(x)
             vertical.setVisible(True)
             horizontal.setPos(y)

@@ -13,8 +13,9 @@ block paste live here once.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any, Sequence
+from typing import Any
 
 from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt
 from PySide6.QtGui import QBrush, QColor
@@ -34,6 +35,8 @@ from hydraulics.model import Project
 from hydraulics.validation import LIMITS
 
 ModelIndex = QModelIndex | QPersistentModelIndex
+_TOP_LEVEL = QModelIndex()
+"""The invalid index Qt passes as the parent of a flat table's rows."""
 
 CALCULATED_DIGITS = 3
 """Significant digits of calculated (read-only) values."""
@@ -261,10 +264,10 @@ class ProjectTableModel(QAbstractTableModel):
             self.dataChanged.emit(self.index(0, 0), self.index(self._row_count - 1, len(self._columns) - 1))
 
     # ------------------------------------------------------------------ Qt interface
-    def rowCount(self, parent: ModelIndex = QModelIndex()) -> int:
+    def rowCount(self, parent: ModelIndex = _TOP_LEVEL) -> int:
         return 0 if parent.isValid() else self._row_count
 
-    def columnCount(self, parent: ModelIndex = QModelIndex()) -> int:
+    def columnCount(self, parent: ModelIndex = _TOP_LEVEL) -> int:
         return 0 if parent.isValid() else len(self._columns)
 
     def headerData(self, section: int, orientation: Qt.Orientation, role: int = Qt.ItemDataRole.DisplayRole):

@@ -7,8 +7,9 @@ a K override replaces it for that row, clearing the override returns to the cata
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import replace
-from typing import Any, Sequence
+from typing import Any
 
 from app.table_models import choices
 from app.table_models.base import Column, ProjectTableModel

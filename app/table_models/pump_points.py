@@ -11,8 +11,9 @@ Clearing every cell of an optional column removes it.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import replace
-from typing import Any, Sequence
+from typing import Any
 
 from app.table_models.base import Column, ProjectTableModel
 from hydraulics.model import Project, PumpModel
@@ -44,7 +45,7 @@ def pump_points(pump: PumpModel) -> tuple[Point, ...]:
     for key in _ATTRIBUTES:
         values = getattr(pump, key)
         columns.append(tuple(values) if len(values) == n else (math.nan,) * n)
-    return tuple(zip(*columns)) if n else ()
+    return tuple(zip(*columns, strict=True)) if n else ()
 
 
 def pump_with_points(pump: PumpModel, points: Sequence[Point]) -> PumpModel:
@@ -138,7 +139,7 @@ class PumpPointsModel(ProjectTableModel):
             return (0.0, 10.0) + (math.nan,) * len(_OPTIONAL)
         if 0 < row < len(points):
             before, after = points[row - 1], points[row]
-            return tuple((a + b) / 2.0 for a, b in zip(before, after))
+            return tuple((a + b) / 2.0 for a, b in zip(before, after, strict=True))
         if row >= len(points):
             last = points[-1]
             return (last[0] * 1.1 if last[0] > 0 else 0.001, last[1] * 0.9) + tuple(last[2:])

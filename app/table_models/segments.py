@@ -15,14 +15,15 @@ the catalogue.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import replace
-from typing import Any, Sequence
+from typing import Any
 
 from PySide6.QtCore import Qt
 
+from app.table_models import choices
 from app.table_models.base import Column, ProjectTableModel
 from app.table_models.cells import CellError, display_text
-from app.table_models import choices
 from hydraulics import catalogue
 from hydraulics.model import ModelError, Project, Segment
 from hydraulics.validation import MIN_SEGMENTS

@@ -11,11 +11,11 @@ from PySide6.QtGui import QHelpEvent, QKeySequence
 from PySide6.QtWidgets import QApplication, QToolTip
 
 from app import settings
-from benchmarks.redraw_timing import measure_edit_to_redraw
-from hydraulics.cautions import CAUTIONS_TEXT
 from app.panels.table_view import MAX_COLUMN_WIDTH
 from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable
+from benchmarks.redraw_timing import measure_edit_to_redraw
+from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.results import Finding
 from hydraulics.units import to_display
 
@@ -241,8 +241,8 @@ def test_measure_edit_to_redraw_times_real_edits_and_leaves_the_project(window):
     window.show()
     timings = measure_edit_to_redraw(window, n=4)
     assert len(timings.plot_ms) == len(timings.window_ms) == 4
-    assert all(0 < plot <= whole for plot, whole in zip(timings.plot_ms, timings.window_ms))
-    assert all(0 < solve < plot for solve, plot in zip(timings.solve_ms, timings.plot_ms))
+    assert all(0 < plot <= whole for plot, whole in zip(timings.plot_ms, timings.window_ms, strict=True))
+    assert all(0 < solve < plot for solve, plot in zip(timings.solve_ms, timings.plot_ms, strict=True))
     assert window.document.project == before
 
 
