@@ -17,7 +17,12 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+from collections.abc import Callable
 from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # the engine is imported by each sub-command only, to keep start-up short
+    from hydraulics.results import Solution
 
 SUBCOMMANDS = ("solve", "import-pump", "shot")
 BAD_INPUT = 2
@@ -27,7 +32,7 @@ class BadInputError(Exception):
     """A problem with what the user gave: reported in one line, exit status 2."""
 
 
-def _load_and_solve(path: str):
+def _load_and_solve(path: str) -> Solution:
     from hydraulics.model import ModelError
     from hydraulics.project_io import ProjectFileError, load_project
     from hydraulics.solve import solve
@@ -41,12 +46,12 @@ def _load_and_solve(path: str):
         raise BadInputError(f"{path}: {exc}") from None
 
 
-def _project_file(args) -> str:
+def _project_file(args: argparse.Namespace) -> str:
     """The project file a sub-command works on: FILE, or the bundled sample ``--sample NAME``."""
     if (args.file is None) == (args.sample is None):
         raise BadInputError("give a project file or --sample NAME (one of the two)")
     if args.sample is None:
-        return args.file
+        return str(args.file)
     from app.samples import sample_names, sample_path
 
     path = sample_path(args.sample)
@@ -55,7 +60,7 @@ def _project_file(args) -> str:
     return str(path)
 
 
-def _cmd_solve(args) -> int:
+def _cmd_solve(args: argparse.Namespace) -> int:
     from hydraulics.results_json import solution_to_json_dict
 
     solution = _load_and_solve(_project_file(args))
@@ -69,7 +74,7 @@ def _cmd_solve(args) -> int:
     return 0
 
 
-def _cmd_import_pump(args) -> int:
+def _cmd_import_pump(args: argparse.Namespace) -> int:
     from hydraulics.model import ModelError
     from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
     from hydraulics.pump_fit import fit_pump
@@ -91,7 +96,7 @@ def _cmd_import_pump(args) -> int:
     return 0
 
 
-def _cmd_shot(args) -> int:
+def _cmd_shot(args: argparse.Namespace) -> int:
     from hydraulics.project_io import ProjectFileError, load_project
 
     file = _project_file(args)
@@ -170,8 +175,9 @@ def main(argv: list[str] | None = None) -> int:
     if args.command is None:
         parser.print_help()
         return 0
+    handler: Callable[[argparse.Namespace], int] = args.handler
     try:
-        return args.handler(args)
+        return handler(args)
     except BadInputError as exc:
         print(f"pumpsketch: {exc}", file=sys.stderr)
         return BAD_INPUT

@@ -16,6 +16,7 @@ the label alone.
 from __future__ import annotations
 
 from PySide6.QtCore import QEvent, QSize
+from PySide6.QtGui import QResizeEvent
 from PySide6.QtWidgets import QWidget
 
 
@@ -33,7 +34,7 @@ class LayoutBarrier(QWidget):
         """The widget the barrier holds."""
         return self._child
 
-    def _child_hints(self) -> tuple:
+    def _child_hints(self) -> tuple[object, ...]:
         child = self._child
         policy = child.sizePolicy()
         return (child.sizeHint(), child.minimumSizeHint(), child.minimumSize(), child.maximumSize(),
@@ -59,7 +60,7 @@ class LayoutBarrier(QWidget):
         return self._child.heightForWidth(width)
 
     # ---------------------------------------------------------------- events
-    def resizeEvent(self, event) -> None:
+    def resizeEvent(self, event: QResizeEvent) -> None:
         self._child.setGeometry(self.rect())
         super().resizeEvent(event)
 

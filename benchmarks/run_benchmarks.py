@@ -26,6 +26,7 @@ import os
 import statistics
 import sys
 import time
+from collections.abc import Callable
 from dataclasses import replace
 from functools import partial
 from pathlib import Path
@@ -44,7 +45,7 @@ from hydraulics.system_curve import prepare_system, system_curves  # noqa: E402
 SAMPLES = sorted((ROOT / "sample_projects").glob("*.pumpsketch.json"))
 
 
-def median_ms(func, repeats: int = 51, warmup: int = 3) -> float:
+def median_ms(func: Callable[[], object], repeats: int = 51, warmup: int = 3) -> float:
     """Median wall time of ``func()`` in milliseconds."""
     for _ in range(warmup):
         func()
@@ -97,7 +98,7 @@ def bench_system_curves() -> None:
     seg = [(float(system.diameter_m[i]), float(system.length_m[i]), float(system.roughness_new_m[i]),
             float(system.roughness_aged_m[i]), float(system.k_total[i])) for i in range(system.n_segments)]
 
-    def scalar_family():
+    def scalar_family() -> list[list[float]]:
         out = []
         for aged in (False, True):
             for static in (system.static_head_m["min"], system.static_head_m["max"]):

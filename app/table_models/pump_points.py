@@ -15,6 +15,9 @@ from collections.abc import Sequence
 from dataclasses import replace
 from typing import Any
 
+from PySide6.QtCore import QObject
+
+from app.document import ProjectDocument
 from app.table_models.base import Column, ProjectTableModel
 from hydraulics.model import Project, PumpModel
 from hydraulics.validation import MIN_PUMP_POINTS
@@ -50,19 +53,20 @@ def pump_points(pump: PumpModel) -> tuple[Point, ...]:
 
 def pump_with_points(pump: PumpModel, points: Sequence[Point]) -> PumpModel:
     """``pump`` with its point columns rebuilt from rows; an all-missing optional column is dropped."""
-    changes: dict[str, tuple[float, ...]] = {}
+    columns: dict[str, tuple[float, ...]] = {}
     for j, key in enumerate(_ATTRIBUTES):
         values = tuple(float(p[j]) if not _missing(p[j]) else math.nan for p in points)
         if key in _OPTIONAL and all(math.isnan(v) for v in values):
             values = ()
-        changes[key] = values
-    return replace(pump, **changes)
+        columns[key] = values
+    return replace(pump, flow_m3_s=columns["flow_m3_s"], head_m=columns["head_m"], efficiency=columns["efficiency"],
+                   npsh_required_m=columns["npsh_required_m"], shaft_power_w=columns["shaft_power_w"])
 
 
 class PumpPointsModel(ProjectTableModel):
     """Curve points of one pump of the project; :meth:`set_pump` chooses which."""
 
-    def __init__(self, document, parent=None):
+    def __init__(self, document: ProjectDocument, parent: QObject | None = None) -> None:
         self._pump_id: str | None = None
         super().__init__(document, parent)
 
