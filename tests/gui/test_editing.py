@@ -377,8 +377,8 @@ def test_the_stepper_buttons_and_the_mouse_wheel_step_the_size(window, document,
 
 
 def test_the_shortcuts_step_the_selected_segment(window, document, qtbot):
-    assert window.actions["larger_pipe"].shortcut().toString() == "Ctrl+Up"
-    assert window.actions["smaller_pipe"].shortcut().toString() == "Ctrl+Down"
+    assert window.named_actions["larger_pipe"].shortcut().toString() == "Ctrl+Up"
+    assert window.named_actions["smaller_pipe"].shortcut().toString() == "Ctrl+Down"
     window.show()
     window.activateWindow()
     qtbot.waitUntil(window.isActiveWindow, timeout=2000)
