@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from PySide6.QtCore import Qt, Signal
+from PySide6.QtGui import QResizeEvent, QShowEvent
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QSizePolicy, QWidget
 
 from app import style
@@ -24,8 +25,8 @@ class CautionsBanner(QWidget):
         self.setObjectName("cautionsBanner")
         self.setAttribute(Qt.WidgetAttribute.WA_StyledBackground, True)
         self.setStyleSheet(
-            "#cautionsBanner { background: #FFF6DB; border-top: 1px solid %s; }"
-            "#cautionsBanner QLabel { color: #3A2E00; }" % style.ORANGE)
+            f"#cautionsBanner {{ background: #FFF6DB; border-top: 1px solid {style.ORANGE}; }}"
+            "#cautionsBanner QLabel { color: #3A2E00; }")
         self.setToolTip(CAUTIONS_TEXT)
         self.title = QLabel("Caution.", self)
         font = self.title.font()
@@ -55,11 +56,11 @@ class CautionsBanner(QWidget):
         """The full cautions paragraph this banner stands for."""
         return CAUTIONS_TEXT
 
-    def resizeEvent(self, event) -> None:  # noqa: N802 - Qt override
+    def resizeEvent(self, event: QResizeEvent) -> None:
         super().resizeEvent(event)
         self._fit_text()
 
-    def showEvent(self, event) -> None:  # noqa: N802 - Qt override
+    def showEvent(self, event: QShowEvent) -> None:
         super().showEvent(event)
         self._fit_text()
 

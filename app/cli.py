@@ -17,17 +17,22 @@ from __future__ import annotations
 import argparse
 import json
 import sys
+from collections.abc import Callable
 from pathlib import Path
+from typing import TYPE_CHECKING
+
+if TYPE_CHECKING:  # the engine is imported by each sub-command only, to keep start-up short
+    from hydraulics.results import Solution
 
 SUBCOMMANDS = ("solve", "import-pump", "shot")
 BAD_INPUT = 2
 
 
-class BadInput(Exception):
+class BadInputError(Exception):
     """A problem with what the user gave: reported in one line, exit status 2."""
 
 
-def _load_and_solve(path: str):
+def _load_and_solve(path: str) -> Solution:
     from hydraulics.model import ModelError
     from hydraulics.project_io import ProjectFileError, load_project
     from hydraulics.solve import solve
@@ -36,26 +41,26 @@ def _load_and_solve(path: str):
         project = load_project(path)
         return solve(project)
     except ProjectFileError as exc:
-        raise BadInput(str(exc)) from None
+        raise BadInputError(str(exc)) from None
     except ModelError as exc:
-        raise BadInput(f"{path}: {exc}") from None
+        raise BadInputError(f"{path}: {exc}") from None
 
 
-def _project_file(args) -> str:
+def _project_file(args: argparse.Namespace) -> str:
     """The project file a sub-command works on: FILE, or the bundled sample ``--sample NAME``."""
     if (args.file is None) == (args.sample is None):
-        raise BadInput("give a project file or --sample NAME (one of the two)")
+        raise BadInputError("give a project file or --sample NAME (one of the two)")
     if args.sample is None:
-        return args.file
+        return str(args.file)
     from app.samples import sample_names, sample_path
 
     path = sample_path(args.sample)
     if path is None:
-        raise BadInput(f"--sample: no sample called {args.sample!r}; the samples are {', '.join(sample_names())}")
+        raise BadInputError(f"--sample: no sample called {args.sample!r}; the samples are {', '.join(sample_names())}")
     return str(path)
 
 
-def _cmd_solve(args) -> int:
+def _cmd_solve(args: argparse.Namespace) -> int:
     from hydraulics.results_json import solution_to_json_dict
 
     solution = _load_and_solve(_project_file(args))
@@ -69,7 +74,7 @@ def _cmd_solve(args) -> int:
     return 0
 
 
-def _cmd_import_pump(args) -> int:
+def _cmd_import_pump(args: argparse.Namespace) -> int:
     from hydraulics.model import ModelError
     from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
     from hydraulics.pump_fit import fit_pump
@@ -80,9 +85,9 @@ def _cmd_import_pump(args) -> int:
                                                      rated_speed_rpm=args.speed)
         fitted = fit_pump(pump, args.density)
     except FileNotFoundError:
-        raise BadInput(f"{path}: file not found") from None
+        raise BadInputError(f"{path}: file not found") from None
     except (PumpCsvError, ModelError, ValueError) as exc:
-        raise BadInput(f"{path}: {exc}") from None
+        raise BadInputError(f"{path}: {exc}") from None
     from app.pump_report import pump_fit_text
 
     for message in messages:
@@ -91,14 +96,14 @@ def _cmd_import_pump(args) -> int:
     return 0
 
 
-def _cmd_shot(args) -> int:
+def _cmd_shot(args: argparse.Namespace) -> int:
     from hydraulics.project_io import ProjectFileError, load_project
 
     file = _project_file(args)
     try:
         load_project(file)
     except ProjectFileError as exc:
-        raise BadInput(str(exc)) from None
+        raise BadInputError(str(exc)) from None
     from app.screenshot import render_window_png
 
     out = render_window_png(file, args.output, width=args.width, height=args.height)
@@ -170,14 +175,15 @@ def main(argv: list[str] | None = None) -> int:
     if args.command is None:
         parser.print_help()
         return 0
+    handler: Callable[[argparse.Namespace], int] = args.handler
     try:
-        return args.handler(args)
-    except BadInput as exc:
+        return handler(args)
+    except BadInputError as exc:
         print(f"pumpsketch: {exc}", file=sys.stderr)
         return BAD_INPUT
     except BrokenPipeError:
         return 0
 
 
-if __name__ == "__main__":  # pragma: no cover
+if __name__ == "__main__":
     sys.exit(main())

@@ -12,7 +12,17 @@ from __future__ import annotations
 
 from PySide6.QtWidgets import QAbstractItemView, QApplication
 
+from app.table_models.base import ProjectTableModel
+
 Block = list[list[str]]
+
+
+def _table_model(view: QAbstractItemView) -> ProjectTableModel:
+    """The project table shown by ``view`` (copy and paste work on those only)."""
+    model = view.model()
+    if not isinstance(model, ProjectTableModel):
+        raise TypeError(f"copy and paste need a project table, not {type(model).__name__}")
+    return model
 
 
 def block_to_text(block: Block) -> str:
@@ -99,7 +109,7 @@ def selected_block(view: QAbstractItemView) -> Block:
     if rectangle is None:
         return []
     top, left, bottom, right = rectangle
-    model = view.model()
+    model = _table_model(view)
     selection = view.selectionModel()
     block: Block = []
     for r in range(top, bottom + 1):
@@ -127,7 +137,7 @@ def paste_text(view: QAbstractItemView, text: str) -> bool:
     if not block:
         return False
     rectangle = _selected_rectangle(view)
-    model = view.model()
+    model = _table_model(view)
     if rectangle is None:
         top, left, bottom, right = 0, 0, 0, 0
     else:
@@ -157,9 +167,9 @@ def clear_selection(view: QAbstractItemView) -> bool:
     if rectangle is None:
         return False
     top, left, bottom, right = rectangle
-    model = view.model()
+    model = _table_model(view)
     columns = model.table_columns
-    block = []
+    block: Block = []
     for r in range(top, bottom + 1):
         row = []
         for c in range(left, right + 1):

@@ -13,7 +13,7 @@ by :func:`hydraulics.validation.validate_project`.
 
 from __future__ import annotations
 
-from typing import Callable
+from collections.abc import Callable
 
 from PySide6.QtGui import QUndoCommand
 

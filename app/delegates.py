@@ -9,24 +9,30 @@ no validator, so "300 mm" or "12 in" can be typed in any column of that kind.
 
 from __future__ import annotations
 
-from PySide6.QtCore import QModelIndex, QPersistentModelIndex, Qt
+from PySide6.QtCore import QAbstractItemModel, QModelIndex, QPersistentModelIndex, Qt
 from PySide6.QtWidgets import QComboBox, QLineEdit, QStyledItemDelegate, QStyleOptionViewItem, QWidget
+
+from app.table_models.base import Column, ProjectTableModel
 
 ModelIndex = QModelIndex | QPersistentModelIndex
 
 
-def _column(index: ModelIndex):
+def _choice_column(index: ModelIndex) -> tuple[ProjectTableModel, Column] | None:
+    """The project table and column of ``index`` when that column is a drop-down."""
     model = index.model()
-    columns = getattr(model, "table_columns", ())
-    return model, (columns[index.column()] if 0 <= index.column() < len(columns) else None)
+    if not isinstance(model, ProjectTableModel) or not 0 <= index.column() < len(model.table_columns):
+        return None
+    column = model.table_columns[index.column()]
+    return (model, column) if column.kind == "choice" else None
 
 
 class ProjectTableDelegate(QStyledItemDelegate):
     """Editors for :class:`~app.table_models.base.ProjectTableModel` cells."""
 
     def createEditor(self, parent: QWidget, option: QStyleOptionViewItem, index: ModelIndex) -> QWidget:
-        model, column = _column(index)
-        if column is not None and column.kind == "choice":
+        choice = _choice_column(index)
+        if choice is not None:
+            model, column = choice
             combo = QComboBox(parent)
             combo.setFrame(False)
             combo.setMaxVisibleItems(20)
@@ -51,13 +57,13 @@ class ProjectTableDelegate(QStyledItemDelegate):
             editor.setCurrentIndex(max(position, 0))
         elif isinstance(editor, QLineEdit):
             editor.setText("" if value is None else str(value))
-        else:  # pragma: no cover - only the two editors above are created
+        else:  # only the two editors above are created
             super().setEditorData(editor, index)
 
-    def setModelData(self, editor: QWidget, model, index: ModelIndex) -> None:
+    def setModelData(self, editor: QWidget, model: QAbstractItemModel, index: ModelIndex) -> None:
         if isinstance(editor, QComboBox):
             model.setData(index, editor.currentText(), Qt.ItemDataRole.EditRole)
         elif isinstance(editor, QLineEdit):
             model.setData(index, editor.text(), Qt.ItemDataRole.EditRole)
-        else:  # pragma: no cover
+        else:
             super().setModelData(editor, model, index)

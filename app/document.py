@@ -248,7 +248,7 @@ class ProjectDocument(QObject):
         self._solve_posted = True
         QCoreApplication.postEvent(self, QEvent(_SOLVE_EVENT), Qt.EventPriority.HighEventPriority.value)
 
-    def event(self, event: QEvent) -> bool:  # noqa: D102 - Qt override
+    def event(self, event: QEvent) -> bool:
         if event.type() == _SOLVE_EVENT:
             if self._solve_posted:  # not already solved by an explicit recompute_now()
                 self.recompute_now()

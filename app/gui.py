@@ -15,7 +15,7 @@ from app.main_window import APP_TITLE, MainWindow
 def application() -> QApplication:
     """The running QApplication, created (with PumpSketch's names) if there is none."""
     existing = QApplication.instance()
-    if existing is not None:
+    if isinstance(existing, QApplication):
         return existing
     created = QApplication(sys.argv[:1])
     created.setApplicationName(APP_TITLE)

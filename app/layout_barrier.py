@@ -16,6 +16,7 @@ the label alone.
 from __future__ import annotations
 
 from PySide6.QtCore import QEvent, QSize
+from PySide6.QtGui import QResizeEvent
 from PySide6.QtWidgets import QWidget
 
 
@@ -33,7 +34,7 @@ class LayoutBarrier(QWidget):
         """The widget the barrier holds."""
         return self._child
 
-    def _child_hints(self) -> tuple:
+    def _child_hints(self) -> tuple[object, ...]:
         child = self._child
         policy = child.sizePolicy()
         return (child.sizeHint(), child.minimumSizeHint(), child.minimumSize(), child.maximumSize(),
@@ -46,20 +47,20 @@ class LayoutBarrier(QWidget):
         self.setMaximumSize(self._child.maximumSize())
 
     # ---------------------------------------------------------------- size reporting
-    def sizeHint(self) -> QSize:  # noqa: N802 - Qt name
+    def sizeHint(self) -> QSize:
         return self._child.sizeHint()
 
-    def minimumSizeHint(self) -> QSize:  # noqa: N802 - Qt name
+    def minimumSizeHint(self) -> QSize:
         return self._child.minimumSizeHint().expandedTo(self._child.minimumSize())
 
-    def hasHeightForWidth(self) -> bool:  # noqa: N802 - Qt name
+    def hasHeightForWidth(self) -> bool:
         return self._child.hasHeightForWidth()
 
-    def heightForWidth(self, width: int) -> int:  # noqa: N802 - Qt name
+    def heightForWidth(self, width: int) -> int:
         return self._child.heightForWidth(width)
 
     # ---------------------------------------------------------------- events
-    def resizeEvent(self, event) -> None:  # noqa: N802 - Qt name
+    def resizeEvent(self, event: QResizeEvent) -> None:
         self._child.setGeometry(self.rect())
         super().resizeEvent(event)
 

@@ -97,7 +97,7 @@ class MainWindow(QMainWindow):
         self.input_tabs = QTabWidget()
         self.input_tabs.setObjectName("input_tabs")
         for title, panel in zip(INPUT_TABS, (self.site_panel, self.pipework, self.pumps_panel,
-                                             self.criteria_panel)):
+                                             self.criteria_panel), strict=True):
             page = LayoutBarrier(panel) if panel is self.pipework else _scrolled(panel)
             self.input_tabs.addTab(page, title.replace("&", "&&"))
         self.input_tabs.setCurrentIndex(1)
@@ -150,7 +150,7 @@ class MainWindow(QMainWindow):
         self.setCentralWidget(central)
 
     def _build_actions(self) -> None:
-        self.actions = action_table.build_actions(self)
+        self.named_actions = action_table.build_actions(self, self.document.undo_stack)
         self.units_group = QActionGroup(self)
         units_menu = QMenu("&Units", self)
         for system, label in UNIT_SYSTEM_LABELS.items():
@@ -161,9 +161,9 @@ class MainWindow(QMainWindow):
             units_menu.addAction(action)
         self.samples_menu = self.files.samples_menu()
         self.recent_menu = self.files.recent_menu()
-        action_table.build_menus(self, self.actions,
+        action_table.build_menus(self, self.named_actions,
                                  {"units": units_menu, "samples": self.samples_menu, "recent": self.recent_menu})
-        self.toolbar = action_table.build_toolbar(self, self.actions, {"units": self.units_combo})
+        self.toolbar = action_table.build_toolbar(self, self.named_actions, {"units": self.units_combo})
         self._show_unit_system(self.document.unit_system)
 
     def _connect(self) -> None:
@@ -244,7 +244,7 @@ class MainWindow(QMainWindow):
             action.setChecked(action.data() == system)
 
     # ------------------------------------------------------------------ focus
-    def focus_target(self, target) -> None:
+    def focus_target(self, target: tuple[object, ...] | None) -> None:
         """Bring what a finding or an undone edit is about into view.
 
         ``("segment", i)`` selects the row in Pipework; ``("pump", …)`` and
@@ -346,7 +346,7 @@ class MainWindow(QMainWindow):
             self._help_dialog.show()
 
     def show_shortcuts(self) -> None:
-        self.show_information("Keyboard shortcuts", action_table.shortcuts_html(self.actions))
+        self.show_information("Keyboard shortcuts", action_table.shortcuts_html(self.named_actions))
 
     def show_about(self) -> None:
         self.show_information(f"About {APP_TITLE}", action_table.about_html(APP_TITLE, CAUTIONS_TEXT))
@@ -379,7 +379,7 @@ class MainWindow(QMainWindow):
         return str(path.parent) if path is not None else str(Path.home())
 
     # ------------------------------------------------------------------ closing
-    def closeEvent(self, event: QCloseEvent) -> None:  # noqa: N802 - Qt name
+    def closeEvent(self, event: QCloseEvent) -> None:
         if self.files.maybe_save():
             if self._remember_layout:
                 settings.set_window_state(bytes(self.saveGeometry().data()),
@@ -395,6 +395,7 @@ class MainWindow(QMainWindow):
         geometry, splitters = settings.window_state()
         if geometry:
             self.restoreGeometry(QByteArray(geometry))
-        for splitter, state in zip(self._splitters(), splitters):
+        # Settings from an older layout may hold fewer (or more) splitter states than the window has now.
+        for splitter, state in zip(self._splitters(), splitters, strict=False):
             if state:
                 splitter.restoreState(QByteArray(bytes(state)))

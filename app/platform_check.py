@@ -222,7 +222,7 @@ def apt_lists_empty(lists_dir: Path = Path("/var/lib/apt/lists")) -> bool:
         return True
 
 
-def apt_install(packages: Sequence[str], run: Callable[..., subprocess.CompletedProcess] = subprocess.run,
+def apt_install(packages: Sequence[str], run: Callable[..., subprocess.CompletedProcess[bytes]] = subprocess.run,
                 lists_empty: Callable[[], bool] = apt_lists_empty) -> bool:
     """Install ``packages`` with apt-get (updating the lists first if needed, or on a failure)."""
     env = {**os.environ, "DEBIAN_FRONTEND": "noninteractive"}
@@ -260,5 +260,5 @@ def main(argv: Sequence[str] | None = None) -> int:
     return 0
 
 
-if __name__ == "__main__":  # pragma: no cover
+if __name__ == "__main__":
     sys.exit(main())

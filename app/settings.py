@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from PySide6.QtCore import QSettings
+from PySide6.QtCore import QByteArray, QSettings
 
 from hydraulics.units import UNIT_SYSTEMS
 
@@ -45,7 +45,7 @@ def set_unit_system(system: str) -> None:
 def recent_files() -> list[str]:
     """Recently opened or saved project files, newest first, only those that still exist."""
     value = _store().value(_RECENT_KEY, [], type=list)
-    paths = [str(v) for v in (value or []) if isinstance(v, str) and v]
+    paths = [v for v in value if isinstance(v, str) and v] if isinstance(value, list) else []
     return [p for p in paths if Path(p).is_file()][:MAX_RECENT_FILES]
 
 
@@ -77,15 +77,25 @@ def last_project() -> str | None:
     return None
 
 
-def window_state() -> tuple[bytes | None, list]:
-    """Saved window geometry and splitter states (``None``/empty when never saved)."""
+def window_state() -> tuple[bytes | None, list[bytes]]:
+    """Saved window geometry and splitter states (``None``/empty when never saved).
+
+    A stored splitter state that is not a byte string reads as empty (that splitter keeps its layout).
+    """
     store = _store()
     geometry = store.value(_GEOMETRY_KEY)
-    splitters = store.value(_SPLITTER_KEY, [], type=list) or []
-    return (bytes(geometry) if geometry is not None else None), list(splitters)
+    splitters = store.value(_SPLITTER_KEY, [], type=list)
+    states = [_state_bytes(s) for s in splitters] if isinstance(splitters, list) else []
+    return (bytes(geometry) if geometry is not None else None), states
 
 
-def set_window_state(geometry: bytes, splitters: list) -> None:
+def _state_bytes(value: object) -> bytes:
+    if isinstance(value, QByteArray):
+        return bytes(value.data())
+    return value if isinstance(value, bytes) else b""
+
+
+def set_window_state(geometry: bytes, splitters: list[bytes]) -> None:
     """Remember the window geometry and the splitter positions."""
     store = _store()
     store.setValue(_GEOMETRY_KEY, geometry)

@@ -68,7 +68,7 @@ NPSH_AVAILABLE_COLOUR = BLUE
 NPSH_REQUIRED_COLOUR = VERMILLION
 
 
-def _cycle(values: tuple, pumps_running: int):
+def _cycle(values: tuple[str, ...], pumps_running: int) -> str:
     return values[(max(int(pumps_running), 1) - 1) % len(values)]
 
 

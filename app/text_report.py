@@ -19,9 +19,9 @@ from hydraulics.units import to_display, unit_label
 
 def _table(headers: list[str], rows: list[list[str]]) -> list[str]:
     widths = [max(len(h), *(len(r[i]) for r in rows)) if rows else len(h) for i, h in enumerate(headers)]
-    line = "  ".join(h.rjust(w) for h, w in zip(headers, widths))
+    line = "  ".join(h.rjust(w) for h, w in zip(headers, widths, strict=True))
     out = [line, "  ".join("-" * w for w in widths)]
-    out += ["  ".join(c.rjust(w) for c, w in zip(r, widths)) for r in rows]
+    out += ["  ".join(c.rjust(w) for c, w in zip(r, widths, strict=True)) for r in rows]
     return out
 
 
@@ -69,7 +69,8 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         f"Static head: minimum {d(solution.static_head_min_m, 'head')} {hd}, "
         f"maximum {d(solution.static_head_max_m, 'head')} {hd}",
         f"Design flow: {d(solution.design_flow_m3_s, 'flow')} {fl}",
-        f"Friction method: {'Hazen–Williams' if p.friction_method == 'hazen_williams' else 'Darcy–Weisbach with Colebrook–White'}",
+        "Friction method: "
+        + ("Hazen–Williams" if p.friction_method == "hazen_williams" else "Darcy–Weisbach with Colebrook–White"),
         "",
         "Segments at design flow (new pipe):",
     ]
@@ -106,8 +107,9 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
                          d(op.npsh_margin_m, "head", 1), percent_number(op.bep_flow_ratio),
                          "extrapolated" if op.extrapolated else ""])
         out += ["  " + line for line in _table(
-            ["scenario", "pumps", "speed %", f"flow {fl}", f"head {hd}", "eff %", f"input {unit_label('power', system)}",
-             unit_label("specific_energy", system), f"NPSH margin {hd}", "% BEP", "note"], rows)]
+            ["scenario", "pumps", "speed %", f"flow {fl}", f"head {hd}", "eff %",
+             f"input {unit_label('power', system)}", unit_label("specific_energy", system), f"NPSH margin {hd}",
+             "% BEP", "note"], rows)]
     vs = solution.variable_speed
     if vs is not None:
         out += ["", f"Variable speed (design flow {d(vs.target_flow_m3_s, 'flow', 1)} {fl} "
@@ -133,7 +135,8 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
                        f"(min static {grouped_whole_number(low)}, max static {grouped_whole_number(high)})")
             out.append(f"  annual cost {grouped_whole_number(e.annual_cost_mean)} {e.currency} at "
                        f"{general_number(e.tariff_per_kwh, 6)} {e.currency}/kWh; "
-                       f"specific energy {specific(e.specific_energy_mean_kwh_m3)} {unit_label('specific_energy', system)}")
+                       f"specific energy {specific(e.specific_energy_mean_kwh_m3)} "
+                       f"{unit_label('specific_energy', system)}")
         for note in e.notes or ():
             out.append(f"  note: {note}")
     out += ["", f"Checks ({len(solution.findings)}):"]

@@ -18,7 +18,7 @@ from PySide6.QtWidgets import QApplication
 from app.document import RECOMPUTE_DELAY_MS
 from hydraulics.project_edits import stepped_segment, with_segment
 
-if TYPE_CHECKING:  # pragma: no cover - for the annotation only
+if TYPE_CHECKING:  # for the annotation only
     from app.main_window import MainWindow
 
 

@@ -75,12 +75,14 @@ def run_once(args: list[str], env: dict[str, str], ready_line: str | None = None
                                stdout=subprocess.PIPE, stderr=subprocess.PIPE)
     ready_at = None
     if ready_line is not None:
+        stdout = process.stdout
+        assert stdout is not None  # opened as a pipe above
         with selectors.DefaultSelector() as selector:
-            selector.register(process.stdout, selectors.EVENT_READ)
+            selector.register(stdout, selectors.EVENT_READ)
             while ready_at is None and time.perf_counter() - start < PROBE_TIMEOUT_S:
                 if not selector.select(timeout=1.0):
                     continue
-                line = process.stdout.readline()
+                line = stdout.readline()
                 if line == "":
                     break  # ended without painting
                 if line.strip() == ready_line:

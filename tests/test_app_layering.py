@@ -20,16 +20,16 @@ Layer  Name            Modules
 =====  ==============  ==========================================================================
 
 The foundation holds what every layer may use and that knows nothing of the window:
-styles, remembered settings, the bundled samples, the Qt system-library check, the cautions, number formatting and the plain-text reports
-of the command line.  A new module must be given a layer here before it is accepted.
+styles, remembered settings, the bundled samples, the Qt system-library check, the cautions, number formatting and
+the plain-text reports of the command line.  A new module must be given a layer here before it is accepted.
 """
 
 from __future__ import annotations
 
 import ast
+from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Mapping
 
 import pytest
 

@@ -47,7 +47,7 @@ def test_vectorised_and_equal_to_scalar_calls():
     altitudes = np.array([[0.0, 500.0], [2500.0, 10000.0]])
     pressures = standard_atmosphere_pressure(altitudes)
     assert isinstance(pressures, np.ndarray) and pressures.shape == (2, 2)
-    for z, p in zip(altitudes.ravel(), pressures.ravel()):
+    for z, p in zip(altitudes.ravel(), pressures.ravel(), strict=True):
         assert p == standard_atmosphere_pressure(float(z))
     assert isinstance(standard_atmosphere_pressure(100.0), float)
 

@@ -145,9 +145,11 @@ def test_solve_names_a_bundled_sample_as_the_same_file(tmp_path):
     assert by_name.stdout == by_file.stdout
 
 
-@pytest.mark.parametrize("args, needle", [(("solve", "--sample", "no_such_sample"), "no sample called 'no_such_sample'"),
-                                          (("solve", "--sample", "../README"), "no sample called"),
-                                          (("shot", "--sample", "no_such_sample", "-o", "x.png"), "no sample called")])
+@pytest.mark.parametrize("args, needle", [
+    (("solve", "--sample", "no_such_sample"), "no sample called 'no_such_sample'"),
+    (("solve", "--sample", "../README"), "no sample called"),
+    (("shot", "--sample", "no_such_sample", "-o", "x.png"), "no sample called"),
+])
 def test_solve_and_shot_refuse_an_unknown_sample_naming_the_samples(args, needle):
     result = run(*args)
     assert result.returncode == 2 and len(result.stderr.strip().splitlines()) == 1

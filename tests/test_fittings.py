@@ -113,7 +113,8 @@ def test_catalogue_holds_the_common_fittings_with_their_crane_multipliers():
     # have no independent implementation to check against): standard 90° elbow 30 f_T,
     # standard 45° elbow 16 f_T, standard tee through run 20 f_T and through branch 60 f_T.
     catalogue = fitting_catalogue()
-    expected = {"elbow_90_standard": 30.0, "elbow_45_standard": 16.0, "tee_through_run": 20.0, "tee_through_branch": 60.0}
+    expected = {"elbow_90_standard": 30.0, "elbow_45_standard": 16.0,
+                "tee_through_run": 20.0, "tee_through_branch": 60.0}
     for fid, n in expected.items():
         assert catalogue[fid].method == "crane" and catalogue[fid].n == n
 

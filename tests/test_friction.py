@@ -48,7 +48,7 @@ def _grid() -> tuple[np.ndarray, np.ndarray]:
 
 def _reference(function, re: np.ndarray, rr: np.ndarray) -> np.ndarray:
     """``function(Re, eD)`` of a reference library at each grid point, on plain floats."""
-    values = [function(float(r), float(e)) for r, e in zip(re.ravel(), rr.ravel())]
+    values = [function(float(r), float(e)) for r, e in zip(re.ravel(), rr.ravel(), strict=True)]
     return np.array(values).reshape(re.shape)
 
 
@@ -241,7 +241,7 @@ def test_darcy_weisbach_matches_fluids_head_loss():
     d, length, eps, nu = 0.15, 350.0, 0.26e-3, 1.3e-6
     q = np.linspace(0.001, 0.08, 9)
     r = darcy_weisbach(q, d, length, eps, nu)
-    for qi, hi, vi in zip(q, r.head_loss_m, r.velocity_m_s):
+    for qi, hi, vi in zip(q, r.head_loss_m, r.velocity_m_s, strict=True):
         v = qi / (math.pi * d * d / 4.0)
         # fluids.friction.Colebrook (test-only) with Darcy–Weisbach written out.
         f = fluids.friction.Colebrook(v * d / nu, eps / d)

@@ -48,7 +48,8 @@ def test_grid_order_and_count(system, fitted):
     points = operating_points(system, fitted, ARR, NPSH_STATIC, RHO, speed_ratios=(1.0, 0.9))
     assert len(points) == 2 * 2 * 3 * 2
     keys = [(p.static, p.pipe, p.pumps_running, p.speed_ratio) for p in points]
-    expected = [(st, pi, n, s) for st in ("min", "max") for pi in ("new", "aged") for n in (1, 2, 3) for s in (1.0, 0.9)]
+    expected = [(st, pi, n, s)
+                for st in ("min", "max") for pi in ("new", "aged") for n in (1, 2, 3) for s in (1.0, 0.9)]
     assert keys == expected
 
 

@@ -7,7 +7,16 @@ from pathlib import Path
 
 import pytest
 
-from hydraulics.model import Fitting, Project, PressurisedDelivery, Segment, Site, TankDelivery, UserFluid
+from hydraulics.model import (
+    Fitting,
+    ModelError,
+    PressurisedDelivery,
+    Project,
+    Segment,
+    Site,
+    TankDelivery,
+    UserFluid,
+)
 from hydraulics.project_io import (
     FORMAT_VERSION,
     ProjectFileError,
@@ -72,7 +81,8 @@ def test_quantities_in_other_units_are_converted():
     project = project_from_dict(data)
     assert project.segments[1].length_m == pytest.approx(1234.5, rel=1e-12)
     assert project.site.design_flow_m3_s == pytest.approx(0.0351, rel=1e-12)
-    assert project.segments[0].internal_diameter_m == pytest.approx(0.2032, rel=1e-12)  # 1 in = 25.4 mm exactly (NIST SP 811)
+    # 1 in = 25.4 mm exactly (NIST SP 811)
+    assert project.segments[0].internal_diameter_m == pytest.approx(0.2032, rel=1e-12)
 
 
 @pytest.mark.parametrize("mutate, field", [
@@ -128,7 +138,7 @@ def test_atomic_save_keeps_old_file_when_writing_fails(tmp_path, monkeypatch):
 def test_invalid_project_is_not_saved(tmp_path):
     path = tmp_path / "p.pumpsketch.json"
     bad = replace(typed_project(), segments=())
-    with pytest.raises(Exception):
+    with pytest.raises(ModelError, match="segments"):
         save_project(bad, path)
     assert not path.exists()
 

@@ -69,7 +69,8 @@ def test_power_in_kw_and_flow_in_m3_per_hour():
 
 
 def test_semicolon_with_decimal_comma():
-    text = "# rated_speed [rpm] = 1480,0\nflow [L/s]; head [m]; efficiency [%]\n0; 40,5; 0\n12,5; 38,25; 50,5\n25; 33; 70\n"
+    text = ("# rated_speed [rpm] = 1480,0\nflow [L/s]; head [m]; efficiency [%]\n"
+            "0; 40,5; 0\n12,5; 38,25; 50,5\n25; 33; 70\n")
     pump = read_pump_csv(text, "P", "test")
     assert pump.flow_m3_s == pytest.approx((0.0, 0.0125, 0.025), rel=1e-15)
     assert pump.head_m == (40.5, 38.25, 33.0)
@@ -96,7 +97,8 @@ def test_impeller_diameter_metadata():
 
 
 def test_unsorted_rows_are_sorted_with_a_message():
-    text = "# rated_speed [rpm] = 1450\nflow [L/s], head [m], efficiency [%]\n20, 42, 75\n0, 50, 0\n10, 48, 55\n30, 32, 70\n"
+    text = ("# rated_speed [rpm] = 1450\nflow [L/s], head [m], efficiency [%]\n"
+            "20, 42, 75\n0, 50, 0\n10, 48, 55\n30, 32, 70\n")
     pump, messages = read_pump_csv_with_messages(text, "P", "test")
     assert pump.flow_m3_s == pytest.approx((0.0, 0.01, 0.02, 0.03))
     assert pump.head_m == (50.0, 48.0, 42.0, 32.0)

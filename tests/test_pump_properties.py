@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import json
 from dataclasses import replace
-from functools import lru_cache
+from functools import cache
 from pathlib import Path
 
 import numpy as np
@@ -101,7 +101,7 @@ def test_duty_points_lie_on_both_curves(case):
             q_ext = 1.2 * scale * fitted.flow_max_m3_s
             right = arrangement_head(fitted, q_ext, n, arr.series_stages, arr.speed_ratio, arr.trim_ratio)
             assert np.all(right[beyond] > system.head(q_ext, hs, aged)[beyond])
-            assert all((r is None) == (s == 0) for r, s in zip(duty.reasons, duty.status.tolist()))
+            assert all((r is None) == (s == 0) for r, s in zip(duty.reasons, duty.status.tolist(), strict=True))
 
 
 @settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
@@ -119,7 +119,7 @@ def test_operating_points_never_raise_and_are_json_safe(case, speeds):
             assert p.flow_m3_s is None and p.reason
 
 
-@lru_cache(maxsize=None)
+@cache
 def _sample_system():
     from hydraulics.fluid import fluid_properties
     from hydraulics.project_io import load_project

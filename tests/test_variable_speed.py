@@ -19,8 +19,13 @@ import pytest
 from hydraulics.model import Arrangement, ModelError
 from hydraulics.operating_points import operating_points
 from hydraulics.pump_fit import fit_pump
-from hydraulics.variable_speed import (minimum_lift_speed_ratio, search_speeds, variable_speed, variable_speed_findings,
-                                       variable_speed_points)
+from hydraulics.variable_speed import (
+    minimum_lift_speed_ratio,
+    search_speeds,
+    variable_speed,
+    variable_speed_findings,
+    variable_speed_points,
+)
 from tests.pump_fakes import QuadraticSystem, parabolic_efficiency, quadratic_pump
 
 A, B = 60.0, 20000.0
@@ -176,7 +181,9 @@ def test_points_from_a_shared_batch_equal_the_own_solve(fitted):
     shared = variable_speed_points(search, batch)
     alone = variable_speed(SYSTEM, fitted, ARR, 0.06, npsh_static_head_m=9.0, density_kg_m3=RHO)
     assert shared.speeds_solved == alone.speeds_solved and len(shared.points) == len(alone.points) > 0
-    for a, b in zip(shared.points + shared.points_at_minimum_speed, alone.points + alone.points_at_minimum_speed):
+    shared_points = shared.points + shared.points_at_minimum_speed
+    alone_points = alone.points + alone.points_at_minimum_speed
+    for a, b in zip(shared_points, alone_points, strict=True):
         assert (a.static, a.pipe, a.pumps_running, a.speed_ratio) == (b.static, b.pipe, b.pumps_running, b.speed_ratio)
         assert a.found == b.found
         if a.found:

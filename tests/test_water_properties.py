@@ -88,13 +88,14 @@ def test_saturation_pressure_matches_iapws_0_to_100c():
 
 def test_density_matches_iapws_region1_0_to_100c_at_1_atm():
     pressure = _liquid_pressure_pa(KELVIN)
-    expected = np.array([1.0 / _Region1(t, p / 1e6)["v"] for t, p in zip(KELVIN, pressure)])
+    expected = np.array([1.0 / _Region1(t, p / 1e6)["v"] for t, p in zip(KELVIN, pressure, strict=True)])
     np.testing.assert_allclose(density_liquid(KELVIN, pressure), expected, rtol=1e-7)
 
 
 def test_viscosity_matches_iapws_0_to_100c_at_1_atm():
     density = density_liquid(KELVIN, _liquid_pressure_pa(KELVIN))
-    expected = np.array([_Viscosity(rho, t) for rho, t in zip(density, KELVIN)])  # mu2 = 1 without phase data
+    # mu2 = 1 without phase data
+    expected = np.array([_Viscosity(rho, t) for rho, t in zip(density, KELVIN, strict=True)])
     np.testing.assert_allclose(dynamic_viscosity(KELVIN, density), expected, rtol=1e-7)
 
 
@@ -129,7 +130,7 @@ def test_scalar_in_float_out_array_in_array_out():
 def test_array_results_equal_scalar_results():
     temperatures = np.array([275.0, 310.0, 360.0])
     densities = density_liquid(temperatures, 2e5)
-    for t, rho in zip(temperatures, densities):
+    for t, rho in zip(temperatures, densities, strict=True):
         assert rho == density_liquid(float(t), 2e5)
         assert dynamic_viscosity(temperatures, densities)[list(temperatures).index(t)] == pytest.approx(
             dynamic_viscosity(float(t), float(rho)), rel=1e-15

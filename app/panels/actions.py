@@ -7,11 +7,12 @@ the tool bar only arrange them.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
-from PySide6.QtCore import QEvent, QObject, Qt
-from PySide6.QtGui import QAction, QKeySequence
-from PySide6.QtWidgets import QMenu, QToolBar, QToolTip
+from PySide6.QtCore import QEvent, QObject, Qt, SignalInstance
+from PySide6.QtGui import QAction, QHelpEvent, QKeySequence, QUndoStack
+from PySide6.QtWidgets import QMainWindow, QMenu, QToolBar, QToolTip, QWidget
 
 Shortcut = QKeySequence.StandardKey | str | None
 
@@ -70,8 +71,8 @@ TOOLBAR: tuple[str | None, ...] = ("new", "open", "save", None, "undo_button", "
                                   "smaller_pipe", "larger_pipe", None, "pin", "clear_pin", None, "@units")
 
 
-def build_actions(window) -> dict[str, QAction]:
-    """Make the window's actions from :data:`ACTIONS` plus undo/redo from its undo stack."""
+def build_actions(window: QMainWindow, stack: QUndoStack) -> dict[str, QAction]:
+    """Make the window's actions from :data:`ACTIONS` plus undo/redo from its undo ``stack``."""
     actions: dict[str, QAction] = {}
     for spec in ACTIONS:
         action = QAction(spec.text.replace("&&", "&"), window)
@@ -85,7 +86,6 @@ def build_actions(window) -> dict[str, QAction]:
                               if spec.shortcut is not None else spec.tip)
         action.triggered.connect(getattr(window, spec.slot))
         actions[spec.key] = action
-    stack = window.document.undo_stack
     undo = stack.createUndoAction(window, "&Undo")
     undo.setShortcut(QKeySequence(QKeySequence.StandardKey.Undo))
     redo = stack.createRedoAction(window, "&Redo")
@@ -100,26 +100,34 @@ def build_actions(window) -> dict[str, QAction]:
     return actions
 
 
-def _stack_button(window, text: str, slot, can_signal, describe, enabled: bool) -> QAction:
+def _stack_button(window: QObject, text: str, slot: Callable[[], None], can_signal: SignalInstance,
+                  describe: Callable[[], str], enabled: bool) -> QAction:
     """A tool-bar twin of the undo (redo) action with a fixed label; the step is in its tooltip.
 
     The action itself never changes per edit (any change of a tool-bar action re-lays out
     the tool bar and with it the window); the tooltip is composed when it is asked for.
     """
-    action = QAction(text, window)
+    action = StepButtonAction(text, describe, window)
     action.setObjectName(f"action_{text.lower()}_button")
     action.setEnabled(enabled)
     action.setToolTip(text)
     action.triggered.connect(slot)
     can_signal.connect(action.setEnabled)
-    action.step_tooltip = StepTooltip(text, describe, action)
     return action
+
+
+class StepButtonAction(QAction):
+    """A tool-bar action whose button's tooltip names the step now on the undo stack."""
+
+    def __init__(self, text: str, describe: Callable[[], str], parent: QObject) -> None:
+        super().__init__(text, parent)
+        self.step_tooltip = StepTooltip(text, describe, self)
 
 
 class StepTooltip(QObject):
     """Answers tooltip requests on a tool-bar button with "Undo <step>" as it is now."""
 
-    def __init__(self, text: str, describe, parent: QObject):
+    def __init__(self, text: str, describe: Callable[[], str], parent: QObject) -> None:
         super().__init__(parent)
         self._text = text
         self._describe = describe
@@ -127,14 +135,14 @@ class StepTooltip(QObject):
     def text_now(self) -> str:
         return f"{self._text} {self._describe()}".strip()
 
-    def eventFilter(self, watched: QObject, event: QEvent) -> bool:  # noqa: N802 - Qt name
-        if event.type() == QEvent.Type.ToolTip:
-            QToolTip.showText(event.globalPos(), self.text_now(), watched)
+    def eventFilter(self, watched: QObject, event: QEvent) -> bool:
+        if event.type() == QEvent.Type.ToolTip and isinstance(event, QHelpEvent):
+            QToolTip.showText(event.globalPos(), self.text_now(), watched if isinstance(watched, QWidget) else None)
             return True
         return False
 
 
-def build_menus(window, actions: dict[str, QAction], submenus: dict[str, QMenu]) -> None:
+def build_menus(window: QMainWindow, actions: dict[str, QAction], submenus: dict[str, QMenu]) -> None:
     """Fill the window's menu bar from :data:`MENUS`."""
     bar = window.menuBar()
     for title, entries in MENUS:
@@ -148,7 +156,7 @@ def build_menus(window, actions: dict[str, QAction], submenus: dict[str, QMenu])
                 menu.addAction(actions[entry])
 
 
-def build_toolbar(window, actions: dict[str, QAction], widgets: dict) -> QToolBar:
+def build_toolbar(window: QMainWindow, actions: dict[str, QAction], widgets: dict[str, QWidget]) -> QToolBar:
     """The main tool bar from :data:`TOOLBAR` (``@name`` entries are widgets)."""
     toolbar = QToolBar("Main", window)
     toolbar.setObjectName("main_toolbar")
@@ -162,9 +170,8 @@ def build_toolbar(window, actions: dict[str, QAction], widgets: dict) -> QToolBa
         else:
             action = actions[entry]
             toolbar.addAction(action)
-            tooltip = getattr(action, "step_tooltip", None)
-            if tooltip is not None:
-                toolbar.widgetForAction(action).installEventFilter(tooltip)
+            if isinstance(action, StepButtonAction):
+                toolbar.widgetForAction(action).installEventFilter(action.step_tooltip)
     window.addToolBar(toolbar)
     return toolbar
 

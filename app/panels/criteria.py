@@ -7,20 +7,23 @@ sources); every one can be changed per project.
 from __future__ import annotations
 
 from dataclasses import replace
+from typing import Any
 
-from hydraulics.model import Project
+from PySide6.QtWidgets import QWidget
 
+from app.document import ProjectDocument
 from app.panels.form import CheckField, ChoiceField, FormPanel, NumberField, Section, TextField
+from hydraulics.model import Project
 
 HOURS_PER_YEAR_DEFAULT = 4000.0
 """Operating hours offered when switching the energy basis back to hours (demo value)."""
 
 
-def _criteria(project: Project, **changes) -> Project:
+def _criteria(project: Project, **changes: Any) -> Project:
     return replace(project, criteria=replace(project.criteria, **changes))
 
 
-def _energy(project: Project, **changes) -> Project:
+def _energy(project: Project, **changes: Any) -> Project:
     return replace(project, energy=replace(project.energy, **changes))
 
 
@@ -122,5 +125,5 @@ SECTIONS = (
 class CriteriaPanel(FormPanel):
     """The "Criteria" input panel."""
 
-    def __init__(self, document, parent=None):
+    def __init__(self, document: ProjectDocument, parent: QWidget | None = None) -> None:
         super().__init__(document, "criteria", SECTIONS, parent)

@@ -9,11 +9,13 @@ sample itself is never overwritten.
 from __future__ import annotations
 
 from pathlib import Path
+from typing import Protocol
 
 from PySide6.QtCore import QObject
-from PySide6.QtWidgets import QMenu
+from PySide6.QtWidgets import QMenu, QWidget
 
 from app import settings
+from app.document import ProjectDocument
 from app.samples import sample_projects
 from hydraulics.model import ModelError
 from hydraulics.project_io import FILE_SUFFIX, ProjectFileError, load_project
@@ -29,18 +31,36 @@ def with_suffix(path: str | Path) -> Path:
     return path.with_name(path.name + FILE_SUFFIX)
 
 
+class FileWindow(Protocol):
+    """What the file commands need of the window: its document, its questions and its notes."""
+
+    @property
+    def document(self) -> ProjectDocument: ...
+
+    def ask_save_changes(self) -> str: ...
+
+    def ask_open_path(self) -> str: ...
+
+    def ask_save_path(self) -> str: ...
+
+    def show_error(self, title: str, text: str) -> None: ...
+
+    def show_status(self, message: str) -> None: ...
+
+
 class FileController(QObject):
     """Carries out the File menu for a main window (see the module docstring)."""
 
-    def __init__(self, window):
-        super().__init__(window)
+    def __init__(self, window: FileWindow) -> None:
+        self._menu_parent = window if isinstance(window, QWidget) else None
+        super().__init__(self._menu_parent)
         self._window = window
         self._document = window.document
 
     # ------------------------------------------------------------------ menus
     def samples_menu(self) -> QMenu:
         """File ▸ Open sample: one entry per sample project."""
-        menu = QMenu("Open &sample", self._window)
+        menu = QMenu("Open &sample", self._menu_parent)
         for title, path in sample_projects():
             menu.addAction(title, lambda p=path: self.open_sample(p)).setToolTip(str(path))
         menu.setEnabled(not menu.isEmpty())
@@ -48,7 +68,7 @@ class FileController(QObject):
 
     def recent_menu(self) -> QMenu:
         """File ▸ Open recent, filled from the settings each time it opens."""
-        menu = QMenu("Open &recent", self._window)
+        menu = QMenu("Open &recent", self._menu_parent)
         menu.aboutToShow.connect(lambda: self._fill_recent(menu))
         return menu
 

@@ -12,10 +12,12 @@ Forms hold no data: :meth:`FormPanel.refresh` re-reads everything from the proje
 
 from __future__ import annotations
 
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
-from typing import Any, Callable, Sequence
+from typing import Any
 
 from PySide6.QtCore import QSignalBlocker
+from PySide6.QtGui import QShowEvent
 from PySide6.QtWidgets import (
     QCheckBox,
     QComboBox,
@@ -28,7 +30,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app.document import describe_model_error
+from app.document import ProjectDocument, describe_model_error
 from app.table_models.cells import CellError, display_text, parse_value, range_text, same_value, unit_suffix
 from hydraulics.model import ModelError, Project
 from hydraulics.validation import LIMITS
@@ -74,7 +76,7 @@ class NumberField:
     tooltip: str = ""
     visible: Condition = _always
     enabled: Condition = _always
-    placeholder: Callable[[Any], str] | None = None
+    placeholder: Callable[[ProjectDocument], str] | None = None
     """Grey text shown when an optional value is blank; receives the document."""
 
 
@@ -139,7 +141,25 @@ class _Bound:
     row_widget: QWidget
     form: QFormLayout
     unit_label: QLabel | None = None
-    choice_values: list = field(default_factory=list)
+    choice_values: list[Any] = field(default_factory=list)
+
+    def line_edit(self) -> QLineEdit:
+        """The editor of a number or text field."""
+        if not isinstance(self.editor, QLineEdit):
+            raise TypeError(f"field {self.spec.key!r} is not typed into")
+        return self.editor
+
+    def combo_box(self) -> QComboBox:
+        """The editor of a choice field."""
+        if not isinstance(self.editor, QComboBox):
+            raise TypeError(f"field {self.spec.key!r} is not a drop-down")
+        return self.editor
+
+    def check_box(self) -> QCheckBox:
+        """The editor of a yes/no field."""
+        if not isinstance(self.editor, QCheckBox):
+            raise TypeError(f"field {self.spec.key!r} is not a yes/no box")
+        return self.editor
 
 
 class FormPanel(QWidget):
@@ -149,7 +169,8 @@ class FormPanel(QWidget):
     focus ``(area, k)`` so the window can bring the field back into view.
     """
 
-    def __init__(self, document, area: str, sections: Sequence[Section], parent: QWidget | None = None):
+    def __init__(self, document: ProjectDocument, area: str, sections: Sequence[Section],
+                 parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._document = document
         self._area = area
@@ -178,40 +199,42 @@ class FormPanel(QWidget):
 
     # ------------------------------------------------------------------ building
     def _add_field(self, form: QFormLayout, spec: Field) -> None:
+        editor: QWidget
         if isinstance(spec, NumberField):
-            editor = QLineEdit()
-            editor.setObjectName(f"field_{spec.key}")
-            editor.editingFinished.connect(lambda s=spec: self._commit_number(s))
+            number_editor = QLineEdit()
+            number_editor.editingFinished.connect(lambda s=spec: self._commit_number(s))
             unit = QLabel()
             unit.setMinimumWidth(42)
             row = QWidget()
             box = QHBoxLayout(row)
             box.setContentsMargins(0, 0, 0, 0)
-            box.addWidget(editor, 1)
+            box.addWidget(number_editor, 1)
             box.addWidget(unit)
             form.addRow(_label(spec.label), row)
+            editor = number_editor
             self._bound[spec.key] = _Bound(spec, editor, row, form, unit)
         elif isinstance(spec, ChoiceField):
-            editor = QComboBox()
-            editor.setObjectName(f"field_{spec.key}")
-            editor.activated.connect(lambda i, s=spec: self._commit_choice(s, i))
-            form.addRow(_label(spec.label), editor)
+            combo = QComboBox()
+            combo.activated.connect(lambda i, s=spec: self._commit_choice(s, i))
+            form.addRow(_label(spec.label), combo)
+            editor = combo
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
         elif isinstance(spec, CheckField):
-            editor = QCheckBox(spec.label)
-            editor.setObjectName(f"field_{spec.key}")
-            editor.clicked.connect(lambda checked, s=spec: self._commit(s, bool(checked)))
-            form.addRow(_label(""), editor)
+            check = QCheckBox(spec.label)
+            check.clicked.connect(lambda checked, s=spec: self._commit(s, bool(checked)))
+            form.addRow(_label(""), check)
+            editor = check
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
         else:
-            editor = QLineEdit()
-            editor.setObjectName(f"field_{spec.key}")
-            editor.editingFinished.connect(lambda s=spec: self._commit_text(s))
-            form.addRow(_label(spec.label), editor)
+            text_editor = QLineEdit()
+            text_editor.editingFinished.connect(lambda s=spec: self._commit_text(s))
+            form.addRow(_label(spec.label), text_editor)
+            editor = text_editor
             self._bound[spec.key] = _Bound(spec, editor, editor, form)
+        editor.setObjectName(f"field_{spec.key}")
         editor.setToolTip(spec.tooltip)
 
-    def showEvent(self, event) -> None:  # noqa: N802 - Qt name
+    def showEvent(self, event: QShowEvent) -> None:
         if getattr(self, "_stale", False):
             self.refresh()
         super().showEvent(event)
@@ -224,7 +247,7 @@ class FormPanel(QWidget):
     def keys(self) -> list[str]:
         return list(self._bound)
 
-    def refresh(self, *_args) -> None:
+    def refresh(self, *_args: object) -> None:
         """Show the project's current values (and hide fields that do not apply).
 
         A form on a hidden tab only notes that it is stale and refreshes when shown, so
@@ -248,32 +271,35 @@ class FormPanel(QWidget):
             typing = isinstance(bound.editor, QLineEdit) and bound.editor.hasFocus() and bound.editor.isModified()
             if isinstance(spec, NumberField):
                 if not typing:  # an edit elsewhere (Ctrl+Up, undo) must not wipe what is being typed
-                    _show_text(bound.editor, display_text(spec.get(project), spec.quantity, system))
-                bound.unit_label.setText(unit_suffix(spec.quantity, system).replace("–", ""))
+                    _show_text(bound.line_edit(), display_text(spec.get(project), spec.quantity, system))
+                if bound.unit_label is not None:
+                    bound.unit_label.setText(unit_suffix(spec.quantity, system).replace("–", ""))
                 help_text = f"Allowed: {range_text(LIMITS[spec.limit], spec.quantity, system)}."
                 bound.editor.setToolTip(f"{spec.tooltip} {help_text}".strip())
             elif isinstance(spec, ChoiceField):
-                with QSignalBlocker(bound.editor):
-                    bound.editor.clear()
+                combo = bound.combo_box()
+                with QSignalBlocker(combo):
+                    combo.clear()
                     bound.choice_values = []
                     for value, label in spec.choices(project):
-                        bound.editor.addItem(label)
+                        combo.addItem(label)
                         bound.choice_values.append(value)
                     current = spec.get(project)
-                    bound.editor.setCurrentIndex(
+                    combo.setCurrentIndex(
                         bound.choice_values.index(current) if current in bound.choice_values else -1)
             elif isinstance(spec, CheckField):
-                with QSignalBlocker(bound.editor):
-                    bound.editor.setChecked(bool(spec.get(project)))
+                check = bound.check_box()
+                with QSignalBlocker(check):
+                    check.setChecked(bool(spec.get(project)))
             elif not typing:
-                _show_text(bound.editor, str(spec.get(project) or ""))
+                _show_text(bound.line_edit(), str(spec.get(project) or ""))
         self._refresh_placeholders()
 
-    def _refresh_placeholders(self, *_args) -> None:
+    def _refresh_placeholders(self, *_args: object) -> None:
         for bound in self._bound.values():
             spec = bound.spec
             if isinstance(spec, NumberField) and spec.placeholder is not None:
-                bound.editor.setPlaceholderText(spec.placeholder(self._document))
+                bound.line_edit().setPlaceholderText(spec.placeholder(self._document))
 
     # ------------------------------------------------------------------ writing
     def _commit(self, spec: Field, value: Any) -> bool:
@@ -294,13 +320,13 @@ class FormPanel(QWidget):
         return applied
 
     def _commit_number(self, spec: NumberField) -> None:
-        bound = self._bound[spec.key]
-        if not bound.editor.isModified():
+        editor = self._bound[spec.key].line_edit()
+        if not editor.isModified():
             return  # the shown (rounded) value was not edited: keep the stored one exactly
-        bound.editor.setModified(False)
+        editor.setModified(False)
         project = self._document.project
         try:
-            value = parse_value(bound.editor.text(), label=spec.label, quantity=spec.quantity,
+            value = parse_value(editor.text(), label=spec.label, quantity=spec.quantity,
                                 limit_key=spec.limit, system=self._document.unit_system,
                                 field_path=f"{self._area}.{spec.key}", optional=spec.optional)
         except CellError as exc:
@@ -312,7 +338,7 @@ class FormPanel(QWidget):
         self._commit(spec, value)
 
     def _commit_text(self, spec: TextField) -> None:
-        editor = self._bound[spec.key].editor
+        editor = self._bound[spec.key].line_edit()
         if not editor.isModified():
             return
         editor.setModified(False)
@@ -335,14 +361,16 @@ class FormPanel(QWidget):
 
     def set_text(self, key: str, text: str) -> None:
         """Type ``text`` into a number or text field and commit it (as Enter would)."""
-        bound = self._bound[key]
-        bound.editor.setText(text)
-        bound.editor.setModified(True)
-        bound.editor.editingFinished.emit()
+        editor = self._bound[key].line_edit()
+        editor.setText(text)
+        editor.setModified(True)
+        editor.editingFinished.emit()
 
     def choose(self, key: str, value: Any) -> None:
         """Pick the choice ``value`` of a drop-down field (as a user would)."""
         bound = self._bound[key]
+        if not isinstance(bound.spec, ChoiceField):
+            raise TypeError(f"field {key!r} is not a drop-down")
         self._commit_choice(bound.spec, bound.choice_values.index(value))
 
     def focus_field(self, key: str) -> bool:

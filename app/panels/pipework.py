@@ -21,14 +21,15 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from app.document import ProjectDocument
 from app.panels.table_view import SpreadsheetView
 from app.table_models.cells import display_text, unit_suffix
 from app.table_models.fittings import FittingsModel
 from app.table_models.segments import SegmentsModel
 from hydraulics import catalogue, fittings
-from hydraulics.model import ModelError
-from hydraulics.project_edits import stepped_segment, with_segment
+from hydraulics.model import ModelError, Segment
 from hydraulics.number_format import general_number
+from hydraulics.project_edits import stepped_segment, with_segment
 
 
 class SizeStepper(QAbstractSpinBox):
@@ -57,7 +58,7 @@ class SizeStepper(QAbstractSpinBox):
         self._can_down = can_down
         self.update()
 
-    def stepEnabled(self) -> QAbstractSpinBox.StepEnabledFlag:  # noqa: N802 - Qt name
+    def stepEnabled(self) -> QAbstractSpinBox.StepEnabledFlag:
         flags = QAbstractSpinBox.StepEnabledFlag.StepNone
         if self._can_up:
             flags |= QAbstractSpinBox.StepEnabledFlag.StepUpEnabled
@@ -65,7 +66,7 @@ class SizeStepper(QAbstractSpinBox):
             flags |= QAbstractSpinBox.StepEnabledFlag.StepDownEnabled
         return flags
 
-    def stepBy(self, steps: int) -> None:  # noqa: N802 - Qt name
+    def stepBy(self, steps: int) -> None:
         if steps:
             self.stepRequested.emit(int(steps))
 
@@ -73,7 +74,7 @@ class SizeStepper(QAbstractSpinBox):
 class PipeworkPanel(QWidget):
     """The "Pipework" input panel."""
 
-    def __init__(self, document, parent: QWidget | None = None):
+    def __init__(self, document: ProjectDocument, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._document = document
         layout = QVBoxLayout(self)
@@ -169,7 +170,7 @@ class PipeworkPanel(QWidget):
         self.fittings_model.set_segment(row if row >= 0 else None)
         self._refresh_selected()
 
-    def _refresh_selected(self, *_args) -> None:
+    def _refresh_selected(self, *_args: object) -> None:
         project = self._document.project
         index = self.current_segment()
         if self.fittings_model.segment_index != index:
@@ -194,7 +195,7 @@ class PipeworkPanel(QWidget):
         except ModelError as exc:
             self.k_total_label.setText(f"Total K: — ({exc.problem})")
 
-    def _refresh_size_label(self, *_args) -> None:
+    def _refresh_size_label(self, *_args: object) -> None:
         """The selected segment's bore, series and (once solved) velocity at design flow.
 
         The only part of this panel a new solution changes, so a solve updates just this.
@@ -220,7 +221,7 @@ class PipeworkPanel(QWidget):
             self.size_label.setText(text)
 
     @staticmethod
-    def _can_step(segment, steps: int) -> bool:
+    def _can_step(segment: Segment, steps: int) -> bool:
         try:
             return stepped_segment(segment, steps) != segment
         except ModelError:
@@ -263,8 +264,9 @@ class PipeworkPanel(QWidget):
 
     def _remove_segments(self) -> None:
         rows = sorted({i.row() for i in self.segments_view.selectionModel().selectedIndexes()})
-        if not rows and self.current_segment() is not None:
-            rows = [self.current_segment()]
+        current = self.current_segment()
+        if not rows and current is not None:
+            rows = [current]
         if self.segments_model.remove_rows(rows):
             self.select_segment(min(rows[0], self.segments_model.rowCount() - 1))
 

@@ -8,6 +8,7 @@ parallel (duty), how many stand by, series stages, speed and impeller trim.
 from __future__ import annotations
 
 from pathlib import Path
+from typing import Any
 
 from PySide6.QtCore import QSignalBlocker, Signal
 from PySide6.QtWidgets import (
@@ -22,11 +23,12 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from app.document import ProjectDocument
 from app.panels.form import FormPanel, NumberField, Section, TextField
 from app.panels.table_view import SpreadsheetView
 from app.table_models.pump_points import PumpPointsModel
 from hydraulics import project_edits
-from hydraulics.model import Project, PumpModel
+from hydraulics.model import ModelError, Project, PumpModel
 from hydraulics.pump_csv import PumpCsvError, read_pump_csv_with_messages
 
 
@@ -34,26 +36,40 @@ def _has_pump(project: Project) -> bool:
     return project.duty_pump is not None
 
 
-def _pump_field(key: str, label: str, quantity: str, limit: str, attribute: str, **extra) -> NumberField:
+def _duty_pump(project: Project) -> PumpModel:
+    """The pump the fields edit (they are shown only when there is one)."""
+    pump = project.duty_pump
+    if pump is None:
+        raise ModelError("pumps", "the project has no pump yet; import or add a pump first")
+    return pump
+
+
+def _with_duty_pump_changes(project: Project, **changes: Any) -> Project:
+    return project_edits.with_pump_changes(project, _duty_pump(project).pump_id, **changes)
+
+
+def _pump_field(key: str, label: str, quantity: str, limit: str, attribute: str, optional: bool = False,
+                tooltip: str = "") -> NumberField:
     return NumberField(
         key, label, quantity, limit,
         lambda p: getattr(p.duty_pump, attribute) if p.duty_pump is not None else None,
-        lambda p, v: project_edits.with_pump_changes(p, p.duty_pump.pump_id, **{attribute: v}),
-        visible=_has_pump, **extra)
+        lambda p, v: _with_duty_pump_changes(p, **{attribute: v}),
+        visible=_has_pump, optional=optional, tooltip=tooltip)
 
 
-def _arrangement_field(key: str, label: str, quantity: str, limit: str, attribute: str, **extra) -> NumberField:
+def _arrangement_field(key: str, label: str, quantity: str, limit: str, attribute: str,
+                       tooltip: str = "") -> NumberField:
     return NumberField(
         key, label, quantity, limit,
         lambda p: getattr(p.arrangement, attribute) if p.arrangement is not None else None,
         lambda p, v: project_edits.with_arrangement_changes(p, **{attribute: v}),
-        visible=_has_pump, **extra)
+        visible=_has_pump, tooltip=tooltip)
 
 
 PUMP_SECTIONS = (
     Section("Pump data", (
         TextField("pump_name", "Name", lambda p: p.duty_pump.name if p.duty_pump else "",
-                  lambda p, v: project_edits.with_pump_changes(p, p.duty_pump.pump_id, name=v), visible=_has_pump),
+                  lambda p, v: _with_duty_pump_changes(p, name=v), visible=_has_pump),
         _pump_field("rated_speed", "Rated (test) speed", "speed", "pump.rated_speed_rpm", "rated_speed_rpm",
                     tooltip="Speed at which the curve points were measured."),
         _pump_field("impeller_diameter", "Impeller diameter", "diameter", "pump.impeller_diameter_m",
@@ -99,7 +115,7 @@ class PumpsPanel(QWidget):
 
     message = Signal(str)
 
-    def __init__(self, document, parent: QWidget | None = None):
+    def __init__(self, document: ProjectDocument, parent: QWidget | None = None) -> None:
         super().__init__(parent)
         self._document = document
         layout = QVBoxLayout(self)
@@ -161,7 +177,7 @@ class PumpsPanel(QWidget):
         layout.addWidget(self.arrangement_form)
         layout.addStretch(1)
 
-        self._shown: tuple | None = None
+        self._shown: tuple[tuple[PumpModel, ...], str | None] | None = None
         document.projectChanged.connect(self.refresh)
         self.refresh()
 

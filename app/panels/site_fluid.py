@@ -9,6 +9,10 @@ from __future__ import annotations
 
 from dataclasses import replace
 
+from PySide6.QtWidgets import QWidget
+
+from app.document import ProjectDocument
+from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
 from hydraulics.model import PressurisedDelivery, Project, TankDelivery, UserFluid, WaterFluid
 from hydraulics.project_edits import (
     with_atmosphere_mode,
@@ -19,8 +23,6 @@ from hydraulics.project_edits import (
     with_site_changes,
 )
 from hydraulics.units import format_quantity
-
-from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
 
 
 def _is_tank(project: Project) -> bool:
@@ -39,11 +41,32 @@ def _is_user_fluid(project: Project) -> bool:
     return isinstance(project.fluid, UserFluid)
 
 
+# The delivery fields are shown for their kind of delivery only; for the other kind they read as blank.
+def _tank_level_low(project: Project) -> float | None:
+    delivery = project.site.delivery
+    return delivery.level_low_m if isinstance(delivery, TankDelivery) else None
+
+
+def _tank_level_high(project: Project) -> float | None:
+    delivery = project.site.delivery
+    return delivery.level_high_m if isinstance(delivery, TankDelivery) else None
+
+
+def _point_elevation(project: Project) -> float | None:
+    delivery = project.site.delivery
+    return delivery.elevation_m if isinstance(delivery, PressurisedDelivery) else None
+
+
+def _point_pressure(project: Project) -> float | None:
+    delivery = project.site.delivery
+    return delivery.pressure_pa if isinstance(delivery, PressurisedDelivery) else None
+
+
 def _pressure_given(project: Project) -> bool:
     return project.site.atmospheric_pressure_pa is not None
 
 
-def _atmosphere_placeholder(document) -> str:
+def _atmosphere_placeholder(document: ProjectDocument) -> str:
     solution = document.solution
     if solution is None:
         return ""
@@ -68,16 +91,16 @@ SECTIONS = (
                                ("pressurised", "a pressurised point")],
                     lambda p: p.site.delivery.kind, with_delivery_kind),
         NumberField("delivery_level_low", "Lowest level", "elevation", "site.level_m",
-                    lambda p: p.site.delivery.level_low_m, lambda p, v: with_delivery_changes(p, level_low_m=v),
+                    _tank_level_low, lambda p, v: with_delivery_changes(p, level_low_m=v),
                     visible=_is_tank, tooltip="Lowest water level in the receiving tank."),
         NumberField("delivery_level_high", "Highest level", "elevation", "site.level_m",
-                    lambda p: p.site.delivery.level_high_m, lambda p, v: with_delivery_changes(p, level_high_m=v),
+                    _tank_level_high, lambda p, v: with_delivery_changes(p, level_high_m=v),
                     visible=_is_tank, tooltip="Highest (overflow) level in the receiving tank."),
         NumberField("delivery_elevation", "Point elevation", "elevation", "site.level_m",
-                    lambda p: p.site.delivery.elevation_m, lambda p, v: with_delivery_changes(p, elevation_m=v),
+                    _point_elevation, lambda p, v: with_delivery_changes(p, elevation_m=v),
                     visible=_is_pressurised),
         NumberField("delivery_pressure", "Required pressure (gauge)", "pressure", "site.delivery_pressure_pa",
-                    lambda p: p.site.delivery.pressure_pa, lambda p, v: with_delivery_changes(p, pressure_pa=v),
+                    _point_pressure, lambda p, v: with_delivery_changes(p, pressure_pa=v),
                     visible=_is_pressurised, tooltip="Gauge pressure needed at the delivery point."),
     )),
     Section("Pump and duty", (
@@ -98,7 +121,8 @@ SECTIONS = (
                     lambda p: p.site.altitude_m, lambda p, v: with_site_changes(p, altitude_m=v),
                     tooltip="Altitude above sea level, for the standard atmosphere."),
         NumberField("atmospheric_pressure", "Atmospheric pressure", "pressure", "site.atmospheric_pressure_pa",
-                    lambda p: p.site.atmospheric_pressure_pa, lambda p, v: with_site_changes(p, atmospheric_pressure_pa=v),
+                    lambda p: p.site.atmospheric_pressure_pa,
+                    lambda p, v: with_site_changes(p, atmospheric_pressure_pa=v),
                     visible=_pressure_given, placeholder=_atmosphere_placeholder),
     )),
     Section("Fluid", (
@@ -111,7 +135,8 @@ SECTIONS = (
         TextField("fluid_name", "Fluid name", lambda p: getattr(p.fluid, "name", ""),
                   lambda p, v: with_fluid_changes(p, name=v), visible=_is_user_fluid),
         NumberField("density", "Density", "density", "fluid.density_kg_m3",
-                    lambda p: getattr(p.fluid, "density_kg_m3", None), lambda p, v: with_fluid_changes(p, density_kg_m3=v),
+                    lambda p: getattr(p.fluid, "density_kg_m3", None),
+                    lambda p, v: with_fluid_changes(p, density_kg_m3=v),
                     visible=_is_user_fluid),
         NumberField("kinematic_viscosity", "Kinematic viscosity", "kinematic_viscosity",
                     "fluid.kinematic_viscosity_m2_s",
@@ -134,7 +159,7 @@ SECTIONS = (
 class SiteFluidPanel(FormPanel):
     """The "Site & fluid" input panel."""
 
-    def __init__(self, document, parent=None):
+    def __init__(self, document: ProjectDocument, parent: QWidget | None = None) -> None:
         super().__init__(document, "site", SECTIONS, parent)
 
 

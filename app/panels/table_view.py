@@ -12,13 +12,13 @@
 
 from __future__ import annotations
 
-from PySide6.QtCore import QItemSelectionModel, QModelIndex, Qt, Signal
+from PySide6.QtCore import QAbstractItemModel, QItemSelectionModel, QModelIndex, Qt, Signal
 from PySide6.QtGui import QAction, QContextMenuEvent, QKeyEvent
 from PySide6.QtWidgets import QAbstractItemDelegate, QAbstractItemView, QHeaderView, QMenu, QTableView, QWidget
 
 from app import clipboard
 from app.delegates import ProjectTableDelegate
-
+from app.table_models.base import ProjectTableModel
 
 MAX_COLUMN_WIDTH = 230
 """Widest a column grows when sized to its contents (px); long names show in full as tooltips."""
@@ -52,8 +52,10 @@ class SpreadsheetView(QTableView):
         self._last_row = -1
         self._refused = False
 
-    def setModel(self, model) -> None:  # noqa: N802 - Qt name
+    def setModel(self, model: QAbstractItemModel | None) -> None:
         super().setModel(model)
+        if model is None:
+            return
         self.selectionModel().currentRowChanged.connect(self._on_current_row)
         model.modelReset.connect(self._after_reset)
         model.rowsInserted.connect(self._after_insert)
@@ -98,6 +100,11 @@ class SpreadsheetView(QTableView):
             index, QItemSelectionModel.SelectionFlag.ClearAndSelect | QItemSelectionModel.SelectionFlag.Rows)
         self.scrollTo(index)
 
+    def table_model(self) -> ProjectTableModel | None:
+        """The project table shown, if the model is one."""
+        model = self.model()
+        return model if isinstance(model, ProjectTableModel) else None
+
     def current_row(self) -> int:
         index = self.currentIndex()
         return index.row() if index.isValid() else -1
@@ -111,13 +118,14 @@ class SpreadsheetView(QTableView):
         column = min(max(current.column() + columns, 0), model.columnCount() - 1)
         self.setCurrentIndex(model.index(row, column))
 
-    def commitData(self, editor: QWidget) -> None:  # noqa: N802 - Qt name
-        document = getattr(self.model(), "document", None)
+    def commitData(self, editor: QWidget) -> None:
+        model = self.table_model()
+        document = model.document if model is not None else None
         before = document.refusal_count if document is not None else 0
         super().commitData(editor)
         self._refused = document is not None and document.refusal_count != before
 
-    def closeEditor(self, editor: QWidget, hint: QAbstractItemDelegate.EndEditHint) -> None:  # noqa: N802
+    def closeEditor(self, editor: QWidget, hint: QAbstractItemDelegate.EndEditHint) -> None:
         moves = {
             QAbstractItemDelegate.EndEditHint.SubmitModelCache: (1, 0),
             QAbstractItemDelegate.EndEditHint.EditNextItem: (0, 1),
@@ -129,7 +137,7 @@ class SpreadsheetView(QTableView):
             self._move(*move)
         self._refused = False
 
-    def keyPressEvent(self, event: QKeyEvent) -> None:  # noqa: N802
+    def keyPressEvent(self, event: QKeyEvent) -> None:
         if self.state() != QAbstractItemView.State.EditingState:
             key = event.key()
             if key in (Qt.Key.Key_Return, Qt.Key.Key_Enter) and event.modifiers() in (
@@ -146,16 +154,16 @@ class SpreadsheetView(QTableView):
     # ------------------------------------------------------------------ context menu
     def row_actions(self) -> list[QAction | None]:
         """The context-menu actions for the current row (``None`` is a separator)."""
-        model = self.model()
+        model = self.table_model()
         row = self.current_row()
         rows = sorted({i.row() for i in self.selectionModel().selectedIndexes()} or ({row} if row >= 0 else set()))
         available = model is not None and model.available()
         word = model.item_word() if model is not None else "row"
         entries = [
             (f"Insert {word} above", available, lambda: self._insert(max(row, 0))),
-            (f"Insert {word} below", available, lambda: self._insert(row + 1 if row >= 0 else model.rowCount())),
+            (f"Insert {word} below", available, lambda: self._insert(row + 1 if row >= 0 else self._row_total())),
             (f"Remove selected {word}s" if len(rows) > 1 else f"Remove {word}", bool(rows),
-             lambda: model.remove_rows(rows)),
+             lambda: self._remove_rows(rows)),
             None,
             (f"Move {word} up", row > 0, lambda: self._move_row(row, -1)),
             (f"Move {word} down", 0 <= row < (model.rowCount() - 1 if model else 0), lambda: self._move_row(row, 1)),
@@ -176,15 +184,26 @@ class SpreadsheetView(QTableView):
             actions.append(action)
         return actions
 
+    def _row_total(self) -> int:
+        model = self.model()
+        return model.rowCount() if model is not None else 0
+
+    def _remove_rows(self, rows: list[int]) -> None:
+        model = self.table_model()
+        if model is not None:
+            model.remove_rows(rows)
+
     def _insert(self, row: int) -> None:
-        if self.model().insert_row(row):
+        model = self.table_model()
+        if model is not None and model.insert_row(row):
             self.select_row(row)
 
     def _move_row(self, row: int, offset: int) -> None:
-        if self.model().move_row(row, offset):
+        model = self.table_model()
+        if model is not None and model.move_row(row, offset):
             self.select_row(row + offset)
 
-    def contextMenuEvent(self, event: QContextMenuEvent) -> None:  # noqa: N802 - Qt name
+    def contextMenuEvent(self, event: QContextMenuEvent) -> None:
         menu = QMenu(self)
         for action in self.row_actions():
             if action is None:

@@ -225,7 +225,7 @@ class EfficiencyPowerPlot(QWidget):
         if self.power_curve.isVisible() and py is not None and len(py):
             power_values.append(float(np.nanmax(py)))
         top_power = 1.1 * max(power_values) if power_values else 1.0
-        for band, top in zip(self._preferred, (top_eff, top_power)):
+        for band, top in zip(self._preferred, (top_eff, top_power), strict=True):
             x, _ = band.getData()
             if band.isVisible() and x is not None and len(x) == 2:
                 band.setData(x, np.array([top, top]))

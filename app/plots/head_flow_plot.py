@@ -230,10 +230,10 @@ class HeadFlowPlot(QWidget):
 
     # ------------------------------------------------------------------ drawing
     def _flow(self, values: FloatArray) -> FloatArray:
-        return to_display(values, "flow", self._unit_system)
+        return np.asarray(to_display(values, "flow", self._unit_system), dtype=float)
 
     def _head(self, values: FloatArray) -> FloatArray:
-        return to_display(values, "head", self._unit_system)
+        return np.asarray(to_display(values, "head", self._unit_system), dtype=float)
 
     def _system_curves(self) -> tuple[SystemCurve, ...]:
         return () if self._solution is None else self._solution.curves
@@ -321,7 +321,8 @@ class HeadFlowPlot(QWidget):
         self._set_region_legend_name(region_name_holder)
 
     @staticmethod
-    def _region_stroke(flow: np.ndarray, head: np.ndarray, bounds: tuple[float, float]):
+    def _region_stroke(flow: np.ndarray, head: np.ndarray,
+                       bounds: tuple[float, float]) -> tuple[np.ndarray, np.ndarray]:
         """The part of a pump curve between the preferred-region flows, ends interpolated."""
         xs, ys = _sorted_xy(flow, head)
         low, high = max(bounds[0], xs[0]), min(bounds[1], xs[-1])
@@ -356,7 +357,7 @@ class HeadFlowPlot(QWidget):
         update_label_pool(self.plot_item, self._point_labels, self._marked, fill_alpha=150)
         self._place_point_labels()
 
-    def _place_point_labels(self, *_args) -> None:
+    def _place_point_labels(self, *_args: object) -> None:
         """Place the pump-curve end labels, then the point labels, clear of each other and the markers."""
         labels = []
         for pumps in sorted(self._pump_items):
@@ -448,7 +449,7 @@ class HeadFlowPlot(QWidget):
         return f"Pointer: flow {readout_number(x)} {flow_unit}   ·   head {readout_number(y)} {head_unit}"
 
 
-def _set_visible(item, visible: bool) -> None:
+def _set_visible(item: pg.GraphicsObject, visible: bool) -> None:
     if item.isVisible() != visible:
         item.setVisible(visible)
 
@@ -458,5 +459,5 @@ def _sorted_xy(x: np.ndarray, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return x[order], y[order]
 
 
-def _copy_or_empty(values) -> np.ndarray:
+def _copy_or_empty(values: np.ndarray | None) -> np.ndarray:
     return empty_array() if values is None else np.array(values, dtype=float)

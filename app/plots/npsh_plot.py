@@ -137,16 +137,16 @@ class NpshPlot(QWidget):
 
     # ------------------------------------------------------------------ drawing
     def _flow(self, values: FloatArray) -> FloatArray:
-        return to_display(values, "flow", self._unit_system)
+        return np.asarray(to_display(values, "flow", self._unit_system), dtype=float)
 
     def _head(self, values: FloatArray) -> FloatArray:
-        return to_display(values, "head", self._unit_system)
+        return np.asarray(to_display(values, "head", self._unit_system), dtype=float)
 
     def _flow_at(self, point: OperatingPoint) -> float:
-        return to_display(float(point.flow_m3_s or 0.0), "flow", self._unit_system)
+        return float(to_display(float(point.flow_m3_s or 0.0), "flow", self._unit_system))
 
     def _head_at(self, value_m: float | None) -> float:
-        return to_display(float(value_m or 0.0), "head", self._unit_system)
+        return float(to_display(float(value_m or 0.0), "head", self._unit_system))
 
     def _set_curve(self, item: pg.PlotDataItem, flow: FloatArray | None, values: FloatArray | None) -> None:
         if flow is None or values is None or not flow.size or flow.size != values.size:
@@ -221,7 +221,7 @@ class NpshPlot(QWidget):
         update_label_pool(self.plot_item, self._margin_labels, self._margin_marks, fill_alpha=170)
         self._place_margin_labels()
 
-    def _place_margin_labels(self, *_args) -> None:
+    def _place_margin_labels(self, *_args: object) -> None:
         labels = [(self._margin_labels[i], x, y) for i, (x, y, _) in enumerate(self._margin_marks)]
         if labels:
             obstacles = [(s.pos().x(), s.pos().y()) for s in self.available_points.points()]

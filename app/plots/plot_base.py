@@ -3,16 +3,20 @@ that lists only what is shown, and a placer that keeps point labels from overlap
 
 from __future__ import annotations
 
-from typing import Any, Callable, Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import QObject, QPointF, QRectF, Qt, Signal
-from PySide6.QtGui import QPainterPath
+from PySide6.QtGui import QBrush, QColor, QPainter, QPainterPath, QPaintEvent
 from PySide6.QtWidgets import QLabel, QSizePolicy, QWidget
 
 from app import style
 from hydraulics.results import OperatingPoint, Solution
+
+if TYPE_CHECKING:
+    from pyqtgraph.GraphicsScene.mouseEvents import MouseClickEvent
 
 
 def make_readout_label(parent: QWidget) -> QLabel:
@@ -28,12 +32,12 @@ def make_readout_label(parent: QWidget) -> QLabel:
     return label
 
 
-class PlotCanvas(pg.GraphicsLayoutWidget):
+class PlotCanvas(pg.GraphicsLayoutWidget):  # type: ignore[misc]  # pyqtgraph ships no types
     """A GraphicsLayoutWidget that says when it has painted (``painted``), for timing redraws."""
 
     painted = Signal()
 
-    def paintEvent(self, event) -> None:  # noqa: N802 - Qt name
+    def paintEvent(self, event: QPaintEvent) -> None:
         super().paintEvent(event)
         self.painted.emit()
 
@@ -54,14 +58,14 @@ def add_plot(canvas: pg.GraphicsLayoutWidget, row: int) -> pg.PlotItem:
     return plot_item
 
 
-class FixedItemSample(pg.ItemSample):
+class FixedItemSample(pg.ItemSample):  # type: ignore[misc]  # pyqtgraph ships no types
     """A legend sample that does not hide its curve when clicked.
 
     The plots decide what is shown (an unused pump curve is hidden and leaves the
     legend); a click that hid a curve behind the plot's back would lose it from view.
     """
 
-    def mouseClickEvent(self, event) -> None:
+    def mouseClickEvent(self, event: MouseClickEvent) -> None:
         event.ignore()
 
 
@@ -87,7 +91,7 @@ def style_plot_item(plot_item: pg.PlotItem) -> None:
     plot_item.hideButtons()
 
 
-class GridLines(pg.PlotCurveItem):
+class GridLines(pg.PlotCurveItem):  # type: ignore[misc]  # pyqtgraph ships no types
     """Light grid lines at the axes' major and minor ticks, one path behind the data.
 
     The axes' own grid (``showGrid``) and ``pg.GridItem`` are replayed from large
@@ -96,7 +100,7 @@ class GridLines(pg.PlotCurveItem):
     almost nothing.
     """
 
-    def __init__(self, plot_item: pg.PlotItem):
+    def __init__(self, plot_item: pg.PlotItem) -> None:
         super().__init__(pen=pg.mkPen(style.GRID_COLOUR, width=1), connect="pairs", antialias=False)
         self._plot_item = plot_item
         self.setZValue(-100)
@@ -111,7 +115,7 @@ class GridLines(pg.PlotCurveItem):
         # major and minor levels: a line at every labelled value
         return [float(v) for _spacing, values in levels[:2] for v in values]
 
-    def _rebuild(self, *_args) -> None:
+    def _rebuild(self, *_args: object) -> None:
         (x0, x1), (y0, y1) = self._plot_item.getViewBox().viewRange()
         xs, ys = [], []
         for x in self._ticks("bottom", x0, x1):
@@ -149,7 +153,7 @@ def update_label_pool(plot_item: pg.PlotItem, pool: list[pg.TextItem],
             item.setVisible(False)
 
 
-def set_curve_data(item, x: np.ndarray, y: np.ndarray) -> bool:
+def set_curve_data(item: pg.PlotDataItem | pg.PlotCurveItem, x: np.ndarray, y: np.ndarray) -> bool:
     """``item.setData(x, y)`` unless it already shows exactly these values; True if it changed.
 
     Most edits move the system curves only; the pump curves, their regions and the
@@ -163,7 +167,7 @@ def set_curve_data(item, x: np.ndarray, y: np.ndarray) -> bool:
     return True
 
 
-class BandItem(pg.GraphicsObject):
+class BandItem(pg.GraphicsObject):  # type: ignore[misc]  # pyqtgraph ships no types
     """The area between a lower and an upper edge over one x grid, filled without outline.
 
     One closed path is built from the edge arrays with numpy (``pg.arrayToQPath``);
@@ -171,7 +175,7 @@ class BandItem(pg.GraphicsObject):
     Python on every change.
     """
 
-    def __init__(self, brush):
+    def __init__(self, brush: QColor | QBrush) -> None:
         super().__init__()
         self._brush = pg.mkBrush(brush)
         self._path = QPainterPath()
@@ -192,12 +196,13 @@ class BandItem(pg.GraphicsObject):
 
     def edges(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """Copies of the (x, low, high) arrays filled."""
-        return tuple(v.copy() for v in self._edges)
+        x, low, high = self._edges
+        return x.copy(), low.copy(), high.copy()
 
-    def boundingRect(self) -> QRectF:  # noqa: N802 - Qt name
+    def boundingRect(self) -> QRectF:
         return self._path.boundingRect()
 
-    def paint(self, painter, *_args) -> None:
+    def paint(self, painter: QPainter, *_args: object) -> None:
         painter.setPen(Qt.PenStyle.NoPen)
         painter.setBrush(self._brush)
         painter.drawPath(self._path)
@@ -260,7 +265,7 @@ class ViewFollower(QObject):
         self.user_moved = False
         self._view_box.sigRangeChangedManually.connect(self._on_manual)
 
-    def _on_manual(self, *_args) -> None:
+    def _on_manual(self, *_args: object) -> None:
         self.user_moved = True
 
     def follow(self, x_range: tuple[float, float] | None, y_range: tuple[float, float] | None) -> None:
@@ -366,7 +371,7 @@ class HoverReadout(QObject):
     def show_at(self, index: int, x: float, y: float) -> None:
         """Put the crosshair at (x, y) of plot ``index`` and describe that point."""
         self._last = (index, x, y)
-        for i, (vertical, horizontal) in enumerate(zip(self.verticals, self.horizontals)):
+        for i, (vertical, horizontal) in enumerate(zip(self.verticals, self.horizontals, strict=True)):
             vertical.setPos(x)
             vertical.setVisible(True)
             horizontal.setPos(y)
@@ -380,7 +385,7 @@ class HoverReadout(QObject):
             line.setVisible(False)
         self._label.setText(self._idle_text)
 
-    def _on_moved(self, event: tuple) -> None:
+    def _on_moved(self, event: tuple[QPointF]) -> None:
         scene_pos = event[0]
         for index, plot_item in enumerate(self._plot_items):
             view_box = plot_item.getViewBox()
@@ -470,7 +475,7 @@ class PointKey:
     The sample items are never drawn in a plot; they only lend their look to the legend.
     """
 
-    def __init__(self):
+    def __init__(self) -> None:
         self.scenario_items: list[pg.PlotDataItem] = []
         for static in ("max", "min"):
             for pipe in ("new", "aged"):

@@ -8,7 +8,10 @@ from PySide6.QtWidgets import QTabWidget, QWidget
 from app.plots.efficiency_power_plot import EfficiencyPowerPlot
 from app.plots.head_flow_plot import HeadFlowPlot
 from app.plots.npsh_plot import NpshPlot
+from app.plots.plot_base import PlotCanvas
 from hydraulics.results import Solution
+
+Plot = HeadFlowPlot | EfficiencyPowerPlot | NpshPlot
 
 
 class PlotTabs(QTabWidget):
@@ -29,7 +32,7 @@ class PlotTabs(QTabWidget):
         self._pending: dict[int, tuple[Solution | None, str]] = {}
         self.currentChanged.connect(self._draw_pending)
 
-    def plots(self) -> tuple[HeadFlowPlot, EfficiencyPowerPlot, NpshPlot]:
+    def plots(self) -> tuple[Plot, ...]:
         """The three plot widgets, in tab order."""
         return self.head_flow, self.efficiency_power, self.npsh
 
@@ -51,7 +54,7 @@ class PlotTabs(QTabWidget):
         """The solution the visible plot has drawn."""
         return self.plots()[self.currentIndex()].drawn_solution
 
-    def current_canvas(self):
+    def current_canvas(self) -> PlotCanvas:
         """The plot canvas of the visible tab."""
         return self.plots()[self.currentIndex()].canvas
 

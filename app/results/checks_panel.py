@@ -3,13 +3,13 @@
 The panel only shows :class:`~hydraulics.results.Finding` objects from the solution; it
 never judges a value itself.  Clicking (or activating with the keyboard) a finding emits
 :attr:`ChecksPanel.findingActivated` with the finding's ``target`` — ``("segment", 2)``,
-``("pump", "P1")``, ``("site", "suction")``, ``("scenario", (static, pipe, pumps_running, speed_ratio))`` — so the window can
-select the row or panel concerned.
+``("pump", "P1")``, ``("site", "suction")``, ``("scenario", (static, pipe, pumps_running, speed_ratio))`` — so the
+window can select the row or panel concerned.
 """
 
 from __future__ import annotations
 
-from typing import Iterable
+from collections.abc import Iterable
 
 from PySide6.QtCore import QModelIndex, Qt, Signal
 from PySide6.QtGui import QBrush, QColor, QFont, QStandardItem, QStandardItemModel

@@ -9,8 +9,9 @@ columns.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable, Iterable
 from dataclasses import dataclass
-from typing import Callable, Iterable
+from typing import Any
 
 from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt
 from PySide6.QtWidgets import QAbstractItemView, QHeaderView, QTableView, QWidget
@@ -124,7 +125,7 @@ class OperatingPointsModel(QAbstractTableModel):
             return Qt.ItemFlag.NoItemFlags
         return Qt.ItemFlag.ItemIsEnabled | Qt.ItemFlag.ItemIsSelectable
 
-    def headerData(self, section: int, orientation: Qt.Orientation, role: int = Qt.ItemDataRole.DisplayRole):
+    def headerData(self, section: int, orientation: Qt.Orientation, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
         if orientation == Qt.Orientation.Horizontal and 0 <= section < len(COLUMNS):
             column = COLUMNS[section]
             if role == Qt.ItemDataRole.DisplayRole:
@@ -138,7 +139,7 @@ class OperatingPointsModel(QAbstractTableModel):
             return str(section + 1)
         return None
 
-    def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole):
+    def data(self, index: Index, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
         if int(role) not in _ROLES_ANSWERED:  # the view asks for many roles per cell; most have no answer
             return None
         if not index.isValid() or not (0 <= index.row() < len(self._points)) \

@@ -13,12 +13,14 @@ block paste live here once.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any, Sequence
+from typing import Any
 
-from PySide6.QtCore import QAbstractTableModel, QModelIndex, QPersistentModelIndex, Qt
+from PySide6.QtCore import QAbstractTableModel, QModelIndex, QObject, QPersistentModelIndex, Qt
 from PySide6.QtGui import QBrush, QColor
 
+from app.document import ProjectDocument
 from app.table_models.cells import (
     DISPLAY_DIGITS,
     CellError,
@@ -34,6 +36,8 @@ from hydraulics.model import Project
 from hydraulics.validation import LIMITS
 
 ModelIndex = QModelIndex | QPersistentModelIndex
+_TOP_LEVEL = QModelIndex()
+"""The invalid index Qt passes as the parent of a flat table's rows."""
 
 CALCULATED_DIGITS = 3
 """Significant digits of calculated (read-only) values."""
@@ -78,7 +82,7 @@ _EDITABLE_FLAGS = _READ_ONLY_FLAGS | Qt.ItemFlag.ItemIsEditable
 class ProjectTableModel(QAbstractTableModel):
     """A table over one list of the document's project (see module docstring)."""
 
-    def __init__(self, document, parent=None):
+    def __init__(self, document: ProjectDocument, parent: QObject | None = None) -> None:
         super().__init__(parent)
         self._document = document
         self._project: Project = document.project
@@ -164,7 +168,7 @@ class ProjectTableModel(QAbstractTableModel):
 
     # ------------------------------------------------------------------ public helpers
     @property
-    def document(self):
+    def document(self) -> ProjectDocument:
         return self._document
 
     @property
@@ -261,13 +265,13 @@ class ProjectTableModel(QAbstractTableModel):
             self.dataChanged.emit(self.index(0, 0), self.index(self._row_count - 1, len(self._columns) - 1))
 
     # ------------------------------------------------------------------ Qt interface
-    def rowCount(self, parent: ModelIndex = QModelIndex()) -> int:
+    def rowCount(self, parent: ModelIndex = _TOP_LEVEL) -> int:
         return 0 if parent.isValid() else self._row_count
 
-    def columnCount(self, parent: ModelIndex = QModelIndex()) -> int:
+    def columnCount(self, parent: ModelIndex = _TOP_LEVEL) -> int:
         return 0 if parent.isValid() else len(self._columns)
 
-    def headerData(self, section: int, orientation: Qt.Orientation, role: int = Qt.ItemDataRole.DisplayRole):
+    def headerData(self, section: int, orientation: Qt.Orientation, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
         if orientation == Qt.Orientation.Vertical:
             if role == Qt.ItemDataRole.DisplayRole and 0 <= section < self._row_count:
                 return str(section + 1)
@@ -303,7 +307,7 @@ class ProjectTableModel(QAbstractTableModel):
         return (index.isValid() and 0 <= index.row() < self._row_count
                 and 0 <= index.column() < len(self._columns))
 
-    def data(self, index: ModelIndex, role: int = Qt.ItemDataRole.DisplayRole):
+    def data(self, index: ModelIndex, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
         if int(role) not in _ROLES_ANSWERED:  # the view asks for many roles per cell; most have no answer
             return None
         if not self._valid(index):
@@ -344,11 +348,12 @@ class ProjectTableModel(QAbstractTableModel):
             return display_text(value, column.quantity, self.unit_system, digits)
         return "" if value is None else str(value)
 
-    def edit_value(self, project: Project, row: int, column: Column) -> str:
-        """The text (or choice value) an editor starts from."""
+    def edit_value(self, project: Project, row: int, column: Column) -> str | None:
+        """The text (or choice value, ``None`` for none chosen) an editor starts from."""
         value = self.value(project, row, column)
         if column.kind == "choice":
-            return value
+            choice: str | None = value
+            return choice
         if column.quantity is not None and (isinstance(value, (int, float)) or value is None):
             return edit_text(value, column.quantity, self.unit_system)
         return "" if value is None else str(value)
@@ -408,13 +413,12 @@ class ProjectTableModel(QAbstractTableModel):
                 return project
             return self.with_value(project, row, column, value)
         assert column.quantity is not None and column.limit is not None
-        value = parse_value(text, label=column.title, quantity=column.quantity, limit_key=column.limit,
-                            system=self.unit_system, field_path=self.field_path(row, column),
-                            optional=column.optional)
-        current = self.value(project, row, column)
-        if same_value(value, current):
+        number = parse_value(text, label=column.title, quantity=column.quantity, limit_key=column.limit,
+                             system=self.unit_system, field_path=self.field_path(row, column),
+                             optional=column.optional)
+        if same_value(number, self.value(project, row, column)):
             return project
-        return self.with_value(project, row, column, value)
+        return self.with_value(project, row, column, number)
 
     # ------------------------------------------------------------------ row operations
     def insert_row(self, row: int) -> bool:
@@ -453,7 +457,7 @@ class ProjectTableModel(QAbstractTableModel):
         direction = "up" if offset < 0 else "down"
         return self._apply_items(items, f"Move {self.item_word()} {row + 1} {direction}", target)
 
-    def _apply_items(self, items: list, description: str, focus_row: int) -> bool:
+    def _apply_items(self, items: list[Any], description: str, focus_row: int) -> bool:
         try:
             candidate = self.with_items(self._project, tuple(items))
         except CellError as exc:

@@ -7,9 +7,13 @@ a K override replaces it for that row, clearing the override returns to the cata
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import replace
-from typing import Any, Sequence
+from typing import Any
 
+from PySide6.QtCore import QObject
+
+from app.document import ProjectDocument
 from app.table_models import choices
 from app.table_models.base import Column, ProjectTableModel
 from hydraulics.model import Fitting, Project
@@ -32,7 +36,7 @@ DEFAULT_FITTING_ID = "elbow_90_long_radius"
 class FittingsModel(ProjectTableModel):
     """The fittings of one segment; :meth:`set_segment` chooses which."""
 
-    def __init__(self, document, parent=None):
+    def __init__(self, document: ProjectDocument, parent: QObject | None = None) -> None:
         self._segment: int | None = None
         super().__init__(document, parent)
 
@@ -114,6 +118,7 @@ class FittingsModel(ProjectTableModel):
     def value(self, project: Project, row: int, column: Column) -> Any:
         fitting = self.items(project)[row]
         if column.key == "catalogue_k":
+            assert self._segment is not None  # a fitting row exists only with a segment shown
             segment = project.segments[self._segment]
             return choices.catalogue_k(fitting.fitting_id, segment.internal_diameter_m)
         return getattr(fitting, column.key)

@@ -11,9 +11,13 @@ Clearing every cell of an optional column removes it.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import replace
-from typing import Any, Sequence
+from typing import Any
 
+from PySide6.QtCore import QObject
+
+from app.document import ProjectDocument
 from app.table_models.base import Column, ProjectTableModel
 from hydraulics.model import Project, PumpModel
 from hydraulics.validation import MIN_PUMP_POINTS
@@ -44,24 +48,25 @@ def pump_points(pump: PumpModel) -> tuple[Point, ...]:
     for key in _ATTRIBUTES:
         values = getattr(pump, key)
         columns.append(tuple(values) if len(values) == n else (math.nan,) * n)
-    return tuple(zip(*columns)) if n else ()
+    return tuple(zip(*columns, strict=True)) if n else ()
 
 
 def pump_with_points(pump: PumpModel, points: Sequence[Point]) -> PumpModel:
     """``pump`` with its point columns rebuilt from rows; an all-missing optional column is dropped."""
-    changes: dict[str, tuple[float, ...]] = {}
+    columns: dict[str, tuple[float, ...]] = {}
     for j, key in enumerate(_ATTRIBUTES):
         values = tuple(float(p[j]) if not _missing(p[j]) else math.nan for p in points)
         if key in _OPTIONAL and all(math.isnan(v) for v in values):
             values = ()
-        changes[key] = values
-    return replace(pump, **changes)
+        columns[key] = values
+    return replace(pump, flow_m3_s=columns["flow_m3_s"], head_m=columns["head_m"], efficiency=columns["efficiency"],
+                   npsh_required_m=columns["npsh_required_m"], shaft_power_w=columns["shaft_power_w"])
 
 
 class PumpPointsModel(ProjectTableModel):
     """Curve points of one pump of the project; :meth:`set_pump` chooses which."""
 
-    def __init__(self, document, parent=None):
+    def __init__(self, document: ProjectDocument, parent: QObject | None = None) -> None:
         self._pump_id: str | None = None
         super().__init__(document, parent)
 
@@ -138,7 +143,7 @@ class PumpPointsModel(ProjectTableModel):
             return (0.0, 10.0) + (math.nan,) * len(_OPTIONAL)
         if 0 < row < len(points):
             before, after = points[row - 1], points[row]
-            return tuple((a + b) / 2.0 for a, b in zip(before, after))
+            return tuple((a + b) / 2.0 for a, b in zip(before, after, strict=True))
         if row >= len(points):
             last = points[-1]
             return (last[0] * 1.1 if last[0] > 0 else 0.001, last[1] * 0.9) + tuple(last[2:])

@@ -15,14 +15,16 @@ the catalogue.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import replace
-from typing import Any, Sequence
+from typing import Any
 
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QObject, Qt
 
+from app.document import ProjectDocument
+from app.table_models import choices
 from app.table_models.base import Column, ProjectTableModel
 from app.table_models.cells import CellError, display_text
-from app.table_models import choices
 from hydraulics import catalogue
 from hydraulics.model import ModelError, Project, Segment
 from hydraulics.validation import MIN_SEGMENTS
@@ -79,7 +81,7 @@ _MATERIAL_FIELDS = {
 class SegmentsModel(ProjectTableModel):
     """The project's pipe segments (see the module docstring for the diameter rules)."""
 
-    def __init__(self, document, parent=None):
+    def __init__(self, document: ProjectDocument, parent: QObject | None = None) -> None:
         super().__init__(document, parent)
         document.solutionChanged.connect(self._on_solution)
 
@@ -211,7 +213,7 @@ class SegmentsModel(ProjectTableModel):
             column = len(self.table_columns) - 1
             self.dataChanged.emit(self.index(0, column), self.index(self.rowCount() - 1, column))
 
-    def _on_solution(self, _solution) -> None:
+    def _on_solution(self, _solution: object) -> None:
         if self.rowCount() == 0:
             return
         column = len(self.table_columns) - 1

@@ -15,7 +15,7 @@ from tests.bad_pump_files import BAD_FIELD, BAD_PROBLEM, write_bad_pump_project
 
 try:
     from conftest import SAMPLE_PATHS
-except ImportError:  # pragma: no cover - collected as a package
+except ImportError:  # collected as a package
     from .conftest import SAMPLE_PATHS
 
 EDIT = Qt.ItemDataRole.EditRole

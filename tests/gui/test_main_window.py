@@ -11,11 +11,11 @@ from PySide6.QtGui import QHelpEvent, QKeySequence
 from PySide6.QtWidgets import QApplication, QToolTip
 
 from app import settings
-from benchmarks.redraw_timing import measure_edit_to_redraw
-from hydraulics.cautions import CAUTIONS_TEXT
 from app.panels.table_view import MAX_COLUMN_WIDTH
 from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable
+from benchmarks.redraw_timing import measure_edit_to_redraw
+from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.results import Finding
 from hydraulics.units import to_display
 
@@ -57,12 +57,12 @@ def test_menus_offer_the_commands_with_standard_shortcuts(window):
                           ("undo", QKeySequence.StandardKey.Undo), ("redo", QKeySequence.StandardKey.Redo),
                           ("copy", QKeySequence.StandardKey.Copy), ("paste", QKeySequence.StandardKey.Paste),
                           ("quit", QKeySequence.StandardKey.Quit)):
-        assert window.actions[key].shortcut() == QKeySequence(standard), key
+        assert window.named_actions[key].shortcut() == QKeySequence(standard), key
 
 
 def test_no_two_actions_share_a_shortcut(window):
     seen = {}
-    for key, action in window.actions.items():
+    for key, action in window.named_actions.items():
         shortcut = action.shortcut().toString()
         if shortcut:
             assert shortcut not in seen, (key, seen.get(shortcut))
@@ -71,28 +71,28 @@ def test_no_two_actions_share_a_shortcut(window):
 
 def test_undo_and_redo_actions_follow_the_stack(window):
     model = window.pipework.segments_model
-    assert not window.actions["undo"].isEnabled()
+    assert not window.named_actions["undo"].isEnabled()
     assert model.setData(model.index(0, model.column_index("length")), "10", EDIT)
-    assert window.actions["undo"].isEnabled()
-    assert window.actions["undo"].text().replace("&", "") == \
+    assert window.named_actions["undo"].isEnabled()
+    assert window.named_actions["undo"].text().replace("&", "") == \
         "Undo Edit length of segment 1 'Tank outlet and suction header'"
-    window.actions["undo"].trigger()
+    window.named_actions["undo"].trigger()
     assert window.document.project.segments[0].length_m == 9.0
-    window.actions["redo"].trigger()
+    window.named_actions["redo"].trigger()
     assert window.document.project.segments[0].length_m == 10.0
 
 
 @pytest.mark.qt_log_ignore(r"This plugin does not support raise\(\)")  # the offscreen tooltip window
 def test_tool_bar_undo_button_names_the_step_in_its_tooltip(window):
     model = window.pipework.segments_model
-    button = window.toolbar.widgetForAction(window.actions["undo_button"])
+    button = window.toolbar.widgetForAction(window.named_actions["undo_button"])
     assert model.setData(model.index(0, model.column_index("length")), "10", EDIT)
     window.show()
     center = button.rect().center()
     event = QHelpEvent(QEvent.Type.ToolTip, center, button.mapToGlobal(center))
     QApplication.sendEvent(button, event)
     assert QToolTip.text() == "Undo Edit length of segment 1 'Tank outlet and suction header'"
-    assert window.actions["undo_button"].text() == "Undo"  # the button's label never changes per edit
+    assert window.named_actions["undo_button"].text() == "Undo"  # the button's label never changes per edit
 
 
 def test_help_lists_the_shortcuts_and_about_carries_the_cautions(window, dialogs):
@@ -109,9 +109,9 @@ def test_help_lists_the_shortcuts_and_about_carries_the_cautions(window, dialogs
 
 
 def test_pin_and_clear_pinned_curves(window):
-    window.actions["pin"].trigger()
+    window.named_actions["pin"].trigger()
     assert window.plot_tabs.has_snapshot
-    window.actions["clear_pin"].trigger()
+    window.named_actions["clear_pin"].trigger()
     assert not window.plot_tabs.has_snapshot
 
 
@@ -241,8 +241,8 @@ def test_measure_edit_to_redraw_times_real_edits_and_leaves_the_project(window):
     window.show()
     timings = measure_edit_to_redraw(window, n=4)
     assert len(timings.plot_ms) == len(timings.window_ms) == 4
-    assert all(0 < plot <= whole for plot, whole in zip(timings.plot_ms, timings.window_ms))
-    assert all(0 < solve < plot for solve, plot in zip(timings.solve_ms, timings.plot_ms))
+    assert all(0 < plot <= whole for plot, whole in zip(timings.plot_ms, timings.window_ms, strict=True))
+    assert all(0 < solve < plot for solve, plot in zip(timings.solve_ms, timings.plot_ms, strict=True))
     assert window.document.project == before
 
 

@@ -7,7 +7,6 @@ from PySide6.QtCore import QModelIndex, Qt
 from PySide6.QtGui import QImage
 
 from app.results.checks_panel import ChecksPanel
-from hydraulics.number_format import readout_number
 from app.results.operating_points_table import (
     COLUMNS,
     FIRST_VALUE_COLUMN,
@@ -15,6 +14,7 @@ from app.results.operating_points_table import (
     OperatingPointsModel,
     OperatingPointsTable,
 )
+from hydraulics.number_format import readout_number
 
 try:
     from .display_fakes import make_solution, sample_findings
@@ -210,9 +210,8 @@ def test_panels_render_to_png(qtbot, tmp_path):
 
 
 def test_checks_panel_states_quoted_values_in_the_unit_system(qtbot):
-    from hydraulics.results import finding
-
     from app.results.checks_panel import ChecksPanel
+    from hydraulics.results import finding
 
     panel = ChecksPanel()
     qtbot.addWidget(panel)
