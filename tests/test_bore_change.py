@@ -188,14 +188,14 @@ def test_bores_contradicting_the_kind_are_refused(kind, segment, other, message)
 @pytest.mark.parametrize("other", [None, 0.0, -0.1, float("nan"), 6.0, "0.2"])
 def test_bad_other_bore_is_refused(other):
     with pytest.raises(ModelError) as info:
-        bore_change_k("reducer", 0.1, other, None, "segments[0].fittings[2]")  # type: ignore[arg-type]
+        bore_change_k("reducer", 0.1, other, None, "segments[0].fittings[2]")  # deliberately the wrong type
     assert info.value.field_path == "segments[0].fittings[2].other_diameter"
 
 
 @pytest.mark.parametrize("angle", [0.0, -10.0, 180.5, float("nan"), float("inf"), True, "30"])
 def test_bad_cone_angle_is_refused(angle):
     with pytest.raises(ModelError, match="cone angle") as info:
-        bore_change_k("expander", 0.2, 0.1, angle, "segments[0].fittings[0]")  # type: ignore[arg-type]
+        bore_change_k("expander", 0.2, 0.1, angle, "segments[0].fittings[0]")  # deliberately the wrong type
     assert info.value.field_path == "segments[0].fittings[0].angle_deg"
 
 

@@ -52,9 +52,9 @@ def test_catalogues_are_cached_and_read_only():
     assert materials() is materials()
     assert pipe_series() is pipe_series()
     with pytest.raises(TypeError):
-        materials()["x"] = materials()["pe100"]  # type: ignore[index]
+        materials()["x"] = materials()["pe100"]  # deliberately the wrong type
     with pytest.raises(AttributeError):
-        series("pe100_sdr11").sizes[0].outside_diameter_m = 1.0  # type: ignore[misc]
+        series("pe100_sdr11").sizes[0].outside_diameter_m = 1.0  # deliberately the wrong type
 
 
 def test_project_samples_ids_resolve():
@@ -100,7 +100,7 @@ def test_materials_are_plausible_and_converted_to_si():
     # Plastics are far smoother than unlined old cast iron (order of magnitude; Moody 1944 table)
     assert material("pe100").roughness_new_m * 100 < material("cast_iron_unlined_old").roughness_new_m
     with pytest.raises(ModelError, match="pipe_state"):
-        material("pe100").roughness_m("old")  # type: ignore[arg-type]
+        material("pe100").roughness_m("old")  # deliberately the wrong type
 
 
 # --------------------------------------------------------------------------- plastics
@@ -293,7 +293,7 @@ def test_unknown_size_names_the_series_and_nearby_sizes():
     with pytest.raises(ModelError, match="valid sizes: DN 80, DN 100"):
         series("ductile_iron_k9").size("huge")
     with pytest.raises(ModelError, match="nominal_size"):
-        series("ductile_iron_k9").size(100)  # type: ignore[arg-type]
+        series("ductile_iron_k9").size(100)  # deliberately the wrong type
 
 
 def test_unknown_material_and_series_list_the_valid_ids():
@@ -316,7 +316,7 @@ def test_step_moves_through_the_series_and_clamps():
     assert s.step("DN 100", -5).nominal == "DN 80"
     assert s.step("DN 80", -1).nominal == "DN 80"
     with pytest.raises(ModelError, match="steps"):
-        s.step("DN 200", 1.5)  # type: ignore[arg-type]
+        s.step("DN 200", 1.5)  # deliberately the wrong type
     with pytest.raises(ModelError, match="nominal_size"):
         s.step("DN 220", 1)
 
@@ -338,7 +338,7 @@ def test_nearest_picks_the_closest_bore():
     assert exact.nearest(0.7499).nominal == "small"
     for bad in (0.0, -0.1, math.nan, math.inf, "0.1", True):
         with pytest.raises(ModelError, match="internal_diameter_m"):
-            s.nearest(bad)  # type: ignore[arg-type]
+            s.nearest(bad)  # deliberately the wrong type
 
 
 @settings(max_examples=50, deadline=None)

@@ -122,7 +122,7 @@ def test_catalogue_holds_the_common_fittings_with_their_crane_multipliers():
 def test_catalogue_is_cached_and_read_only():
     assert fitting_catalogue() is fitting_catalogue()
     with pytest.raises(TypeError):
-        fitting_catalogue()["exit"] = None  # type: ignore[index]
+        fitting_catalogue()["exit"] = None  # deliberately the wrong type
 
 
 # --------------------------------------------------------------------------- f_T
@@ -282,14 +282,14 @@ def test_unknown_fitting_id_is_refused_by_name():
 @pytest.mark.parametrize("count", [-1, 1.5, 2.0, True, "2"])
 def test_bad_count_is_refused(count):
     with pytest.raises(ModelError) as info:
-        segment_k_total([Fitting("exit", count)], 0.1)  # type: ignore[arg-type]
+        segment_k_total([Fitting("exit", count)], 0.1)  # deliberately the wrong type
     assert info.value.field_path == "fittings[0].count"
 
 
 @pytest.mark.parametrize("override", [-0.1, 1000.5, float("nan"), float("inf"), "3"])
 def test_bad_override_is_refused(override):
     with pytest.raises(ModelError) as info:
-        segment_k_total([Fitting("exit", 1, k_override=override)], 0.1)  # type: ignore[arg-type]
+        segment_k_total([Fitting("exit", 1, k_override=override)], 0.1)  # deliberately the wrong type
     assert info.value.field_path == "fittings[0].k_override"
 
 
