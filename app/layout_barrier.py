@@ -30,10 +30,6 @@ class LayoutBarrier(QWidget):
         self._hints = self._child_hints()
         self._adopt_limits()
 
-    def child_widget(self) -> QWidget:
-        """The widget the barrier holds."""
-        return self._child
-
     def _child_hints(self) -> tuple[object, ...]:
         child = self._child
         policy = child.sizePolicy()

@@ -13,7 +13,7 @@ from PySide6.QtWidgets import QWidget
 
 from app.document import ProjectDocument
 from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
-from hydraulics.model import PressurisedDelivery, Project, TankDelivery, UserFluid, WaterFluid
+from hydraulics.model import PressurisedDelivery, Project, TankDelivery, UserFluid
 from hydraulics.project_edits import (
     with_atmosphere_mode,
     with_delivery_changes,
@@ -31,10 +31,6 @@ def _is_tank(project: Project) -> bool:
 
 def _is_pressurised(project: Project) -> bool:
     return isinstance(project.site.delivery, PressurisedDelivery)
-
-
-def _is_water(project: Project) -> bool:
-    return isinstance(project.fluid, WaterFluid)
 
 
 def _is_user_fluid(project: Project) -> bool:
