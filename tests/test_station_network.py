@@ -300,3 +300,14 @@ def test_json_lists_the_branches_per_pump(solved):
     assert by_name["manifold and main"]["flow_m3_s"] == pytest.approx(DESIGN_FLOW, rel=1e-15)
     curves = [c.to_json_dict() for c in solved.pump_curves]
     assert all(len(c["head_at_manifold_m"]) == len(c["head_m"]) for c in curves)
+
+
+def test_text_summary_marks_the_branch_rows_per_pump(solved):
+    from app.text_report import summary_text
+
+    lines = summary_text(solved).splitlines()
+    assert any("'per pump' rows carry one of 2 duty pumps, 30.0 L/s" in line for line in lines)  # 60 L/s / 2
+    rows = {name: next(line for line in lines if line.strip().startswith(name)) for name in
+            ("pump suction branch", "pump discharge branch", "manifold and main")}
+    assert "suction per pump" in rows["pump suction branch"] and "delivery per pump" in rows["pump discharge branch"]
+    assert "per pump" not in rows["manifold and main"]
