@@ -74,7 +74,12 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         "",
         "Segments at design flow (new pipe):",
     ]
-    rows = [[s.name, s.side, d(s.internal_diameter_m, "diameter", 1), d(s.length_m, "length", 1),
+    branch = next((s for s in solution.segments if s.carries == "pump"), None)
+    if branch is not None:
+        out[-1] = (f"Segments at design flow (new pipe; 'per pump' rows carry one of {branch.pumps_running} "
+                   f"duty pumps, {d(branch.flow_m3_s, 'flow', 1)} {fl}):")
+    rows = [[s.name, s.side + (" per pump" if s.carries == "pump" else ""),
+             d(s.internal_diameter_m, "diameter", 1), d(s.length_m, "length", 1),
              str(s.parallel_pipes), d(s.velocity_m_s, "velocity"), general_number(s.reynolds, 3),
              fixed_decimals(s.friction_factor, 5), d(s.friction_loss_m, "head", 3), fixed_decimals(s.minor_k_total, 2),
              d(s.minor_loss_m, "head", 3)] for s in solution.segments]

@@ -65,7 +65,9 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
 
     The minimum is checked at the lowest expected flow (design flow when no pump) and the
     maximum at the highest expected flow, because a main is sized for both.  For a sewage
-    project the delivery-side minimum is raised to the self-cleansing velocity.
+    project the delivery-side minimum is raised to the self-cleansing velocity.  A segment
+    of each pump's own branch is checked at the flow of one running pump, and the message
+    says that the flow quoted is per pump.
     """
     c = project.criteria
     out: list[Finding] = []
@@ -80,16 +82,18 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
                 v_min = max(v_min, c.sewage_velocity_min_m_s)
         where = f"segment '{seg_low.name}' ({seg_low.side})"
         target = ("segment", seg_low.index)
+        per_pump = " per pump" if seg_low.carries == "pump" else ""
         if seg_low.velocity_m_s < v_min:
             why = " (self-cleansing minimum for sewage)" if c.sewage and seg_low.side == "delivery" else ""
             out.append(finding(
-                "warning", "velocity_low", "Velocity {v} at {q} is below the minimum {limit}" + why + ".",
+                "warning", "velocity_low",
+                "Velocity {v} at {q}" + per_pump + " is below the minimum {limit}" + why + ".",
                 {"v": (seg_low.velocity_m_s, "velocity"), "q": (seg_low.flow_m3_s, "flow"),
                  "limit": (v_min, "velocity")},
                 where, "Try a smaller diameter, or plan flushing flows.", target))
         if seg_high.velocity_m_s > v_max:
             out.append(finding(
-                "warning", "velocity_high", "Velocity {v} at {q} is above the maximum {limit}.",
+                "warning", "velocity_high", "Velocity {v} at {q}" + per_pump + " is above the maximum {limit}.",
                 {"v": (seg_high.velocity_m_s, "velocity"), "q": (seg_high.flow_m3_s, "flow"),
                  "limit": (v_max, "velocity")},
                 where, "Try a larger diameter; high velocity costs energy and raises surge.", target))

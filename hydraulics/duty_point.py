@@ -80,7 +80,8 @@ ReasonTemplate = tuple[str, tuple[QuotedValue, ...]]
 class SystemHeads(Protocol):
     """What the duty-point solver needs of a system: its head, elementwise, non-decreasing in flow."""
 
-    def head(self, flow_m3_s: ArrayLike, static_m: ArrayLike, aged: ArrayLike) -> FloatArray: ...
+    def head(self, flow_m3_s: ArrayLike, static_m: ArrayLike, aged: ArrayLike,
+             pumps_running: ArrayLike = 1) -> FloatArray: ...
 
 
 @dataclass(frozen=True, eq=False)
@@ -256,8 +257,10 @@ def solve_duty_points(system: SystemHeads, fitted: FittedPump, pumps_running: Ar
     Parameters
     ----------
     system
-        Any object with ``head(flow_m3_s, static_m, aged)`` (elementwise, non-decreasing
-        in flow), e.g. :class:`hydraulics.system_curve.SystemHydraulics`.
+        Any object with ``head(flow_m3_s, static_m, aged, pumps_running)`` (elementwise,
+        non-decreasing in flow), e.g. :class:`hydraulics.system_curve.SystemHydraulics`:
+        the head the running pumps must produce at station flow Q, their own branches at
+        Q/N included, so each scenario is solved with the pipework of its own N pumps.
     fitted : FittedPump
     pumps_running, series_stages, speed_ratio, trim_ratio, static_m, aged
         Per-scenario values (scalars or arrays broadcasting to one shape).
@@ -273,7 +276,7 @@ def solve_duty_points(system: SystemHeads, fitted: FittedPump, pumps_running: Ar
     >>> from hydraulics.model import PumpModel
     >>> from hydraulics.pump_fit import fit_pump
     >>> class Quadratic:
-    ...     def head(self, q, static, aged):
+    ...     def head(self, q, static, aged, pumps_running):
     ...         return np.asarray(static) + 30000.0 * np.asarray(q) ** 2
     >>> q = (0.0, 0.01, 0.02, 0.03, 0.04)
     >>> fitted = fit_pump(PumpModel("P", "demo", 2900.0, q, tuple(60 - 20000 * x * x for x in q)), 1000.0)
@@ -294,7 +297,8 @@ def solve_duty_points(system: SystemHeads, fitted: FittedPump, pumps_running: Ar
     q_data_min = scale * fitted.flow_min_m3_s
 
     def residual(q: FloatArray) -> FloatArray:
-        return arrangement_head(fitted, q, n, stages, s, t) - np.asarray(system.head(q, hs, aged_arr), dtype=np.float64)
+        system_head = np.asarray(system.head(q, hs, aged_arr, n), dtype=np.float64)
+        return arrangement_head(fitted, q, n, stages, s, t) - system_head
 
     ends = np.stack([q_left, q_end, q_ext])
     r_ends = residual(ends)

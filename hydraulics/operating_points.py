@@ -151,7 +151,8 @@ def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: 
     ----------
     system
         A :class:`hydraulics.system_curve.SystemHydraulics` (or any object with its
-        ``static_head_m``, ``head``, ``suction_loss`` and ``segment_velocities``).
+        ``static_head_m``, ``head``, ``suction_loss`` and ``segment_velocities``, each
+        taking the pumps running as last argument).
     fitted : FittedPump
     arrangement : Arrangement
         Duty pumps (1..``duty_count`` are solved), series stages, trim, motor and drive
@@ -198,13 +199,14 @@ def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: 
             bep_ratio = np.full(q.shape, np.nan)
         npsha: FloatArray
         if npsh_static_head_m is not None:
-            npsha = float(npsh_static_head_m) - np.asarray(system.suction_loss(q, grid.aged), dtype=float)
+            # the common suction at Q and the running pump's own suction branch at Q/N
+            npsha = float(npsh_static_head_m) - np.asarray(system.suction_loss(q, grid.aged, n), dtype=float)
         else:
             npsha = np.full(q.shape, np.nan)
         npshr = perf.npsh_required_m
         margin = npsha - npshr
         margin_ratio = np.where(npshr > 0.0, npsha / npshr, np.nan)
-    velocities = np.asarray(system.segment_velocities(q), dtype=float).reshape(q.size, -1).tolist()
+    velocities = np.asarray(system.segment_velocities(q, n), dtype=float).reshape(q.size, -1).tolist()
 
     cols = {
         "flow_m3_s": _optional(q, found),

@@ -20,7 +20,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from hydraulics.main_profile import ProfileLine, ProfileResult
-from hydraulics.model import PipeState, Project, StaticCase
+from hydraulics.model import Carries, PipeState, Project, StaticCase
 
 if TYPE_CHECKING:  # re-exported lazily (see __getattr__): fitting imports the optimiser
     from hydraulics.pump_fit import FitQuality, FittedPump
@@ -79,7 +79,12 @@ class SystemCurve:
 
 @dataclass(frozen=True)
 class SegmentResult:
-    """Hydraulics of one segment at one flow (per pipe where pipes run in parallel)."""
+    """Hydraulics of one segment at one flow (per pipe where pipes run in parallel).
+
+    ``carries`` is ``"pump"`` for a segment of each pump's own branch: ``flow_m3_s`` and
+    everything else are then those of ONE of the ``pumps_running`` pumps (the per-pump
+    flow); ``"station"`` for the common pipework, at the station flow.
+    """
 
     index: int
     name: str
@@ -96,6 +101,8 @@ class SegmentResult:
     friction_loss_m: float
     minor_k_total: float
     minor_loss_m: float
+    carries: Carries = "station"
+    pumps_running: int = 1
 
 
 @dataclass(frozen=True)
@@ -166,9 +173,13 @@ class PumpCurve:
     ``shaft_power_w`` is per pump; ``efficiency``, ``shaft_power_w``, ``npsh_required_m``
     are ``None`` without data.  The preferred-region bounds and the best-efficiency flow
     are station flows (per-pump value × pumps running) so they plot on the same axis;
-    ``None`` without efficiency data.  ``head_at_manifold_m`` is the set's head as it acts
-    at the manifold, net of each pump's own suction and discharge branch losses at the
-    per-pump flow; ``None`` when the pipework has no pump branches.
+    ``None`` without efficiency data.
+
+    ``head_at_manifold_m`` is the curve as it acts at the manifold, on the same station-flow
+    axis: ``head_m`` less the loss through one pump's own suction and discharge branch at
+    the per-pump flow, new pipe; ``head_at_manifold_aged_m`` the same with aged pipe.  Both
+    are ``None`` when the project has no pump-branch segments (the plain curve then acts
+    at the manifold unchanged).
     """
 
     pumps_running: int
@@ -185,6 +196,7 @@ class PumpCurve:
     preferred_flow_min_m3_s: float | None
     preferred_flow_max_m3_s: float | None
     head_at_manifold_m: FloatArray | None = None
+    head_at_manifold_aged_m: FloatArray | None = None
 
     def to_json_dict(self) -> dict[str, Any]:
         def listed(a: FloatArray | None) -> list[float | None] | None:
@@ -200,6 +212,8 @@ class PumpCurve:
             "bep_flow_m3_s": self.bep_flow_m3_s,
             "preferred_flow_min_m3_s": self.preferred_flow_min_m3_s,
             "preferred_flow_max_m3_s": self.preferred_flow_max_m3_s,
+            "head_at_manifold_m": listed(self.head_at_manifold_m),
+            "head_at_manifold_aged_m": listed(self.head_at_manifold_aged_m),
         }
 
 
@@ -261,8 +275,11 @@ class OperatingPoint:
 class NpshCurve:
     """NPSH available against station flow (new and aged pipe), and NPSH required.
 
-    ``required_flow_m3_s``/``required_m`` are those of one pump at the current speed
-    (the first pump curve), for comparison per pump.
+    ``available_*`` are on the station-flow axis ``flow_m3_s`` with ``pumps_running`` pumps
+    running (the duty count): the common suction losses at the station flow Q and one
+    pump's own suction branch at Q/N are subtracted.  ``required_flow_m3_s``/``required_m``
+    are those of one pump at the current speed (the first pump curve), for comparison per
+    pump.
     """
 
     flow_m3_s: FloatArray
@@ -270,6 +287,7 @@ class NpshCurve:
     available_aged_m: FloatArray
     required_flow_m3_s: FloatArray
     required_m: FloatArray | None
+    pumps_running: int = 1
 
 
 @dataclass(frozen=True)

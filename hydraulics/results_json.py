@@ -4,7 +4,13 @@ Top-level keys (a contract: later versions add keys, never rename these):
 ``format`` ("pumpsketch-results"), ``version``, ``project``, ``cautions``, ``fluid``,
 ``atmospheric_pressure_pa``, ``static_head_m`` (``min``, ``max``), ``design_flow_m3_s``,
 ``system_curves``, ``segments``, ``findings``, ``pumps``, ``operating_points``,
-``variable_speed``, ``energy``.
+``variable_speed``, ``energy``; since the station pipework roles: ``branches``.
+
+``segments`` lists every segment at the design flow with the duty pumps running (each entry
+also says what it ``carries`` and its ``flow_m3_s``); ``branches`` lists the segments of
+each pump's own branch again, per pump: ``flow_m3_s`` is the flow of one of
+``pumps_running`` pumps sharing the design flow (empty without pump branches).  Each pump
+curve gives ``head_at_manifold_m``/``head_at_manifold_aged_m`` (``None`` without branches).
 """
 
 from __future__ import annotations
@@ -15,7 +21,7 @@ from typing import Protocol
 import numpy as np
 
 from hydraulics.cautions import CAUTIONS_TEXT
-from hydraulics.results import Solution
+from hydraulics.results import SegmentResult, Solution
 
 
 class SupportsJsonDict(Protocol):
@@ -50,6 +56,16 @@ def _to_dict(obj: SupportsJsonDict | None) -> object:
     return None if obj is None else obj.to_json_dict()
 
 
+def _segment_dict(s: SegmentResult) -> dict[str, object]:
+    """One row of the segment table (a branch row at the flow of one pump)."""
+    return {"name": s.name, "side": s.side, "length_m": s.length_m,
+            "internal_diameter_m": s.internal_diameter_m, "roughness_m": s.roughness_m,
+            "parallel_pipes": s.parallel_pipes, "velocity_m_s": s.velocity_m_s,
+            "reynolds": s.reynolds, "friction_factor": s.friction_factor, "regime": s.regime,
+            "friction_loss_m": s.friction_loss_m, "minor_k_total": s.minor_k_total,
+            "minor_loss_m": s.minor_loss_m, "carries": s.carries, "flow_m3_s": s.flow_m3_s}
+
+
 def solution_to_json_dict(solution: Solution) -> dict[str, object]:
     """The results dictionary of one solved project."""
     fluid = solution.fluid
@@ -74,15 +90,7 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
              "static_m": c.static_m, "friction_m": c.friction_m, "minor_m": c.minor_m}
             for c in solution.curves
         ],
-        "segments": [
-            {"name": s.name, "side": s.side, "length_m": s.length_m,
-             "internal_diameter_m": s.internal_diameter_m, "roughness_m": s.roughness_m,
-             "parallel_pipes": s.parallel_pipes, "velocity_m_s": s.velocity_m_s,
-             "reynolds": s.reynolds, "friction_factor": s.friction_factor, "regime": s.regime,
-             "friction_loss_m": s.friction_loss_m, "minor_k_total": s.minor_k_total,
-             "minor_loss_m": s.minor_loss_m}
-            for s in solution.segments
-        ],
+        "segments": [_segment_dict(s) for s in solution.segments],
         "findings": [
             {"severity": f.severity, "code": f.code, "message": f.message, "where": f.where,
              "remedy": f.remedy}
@@ -92,5 +100,7 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
         "operating_points": [_to_dict(p) for p in solution.operating_points],
         "variable_speed": _to_dict(solution.variable_speed),
         "energy": _to_dict(solution.energy),
+        "branches": [{**_segment_dict(s), "pumps_running": s.pumps_running}
+                     for s in solution.segments if s.carries == "pump"],
     }
     return {key: _clean(value) for key, value in data.items()}

@@ -23,7 +23,15 @@ from hydraulics.atmosphere import standard_atmosphere_pressure
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.fluid import fluid_properties
 from hydraulics.model import Project, PumpModel
-from hydraulics.results import FloatArray, FluidProperties, NpshCurve, PumpCurve, Solution
+from hydraulics.results import (
+    FloatArray,
+    FluidProperties,
+    NpshCurve,
+    OperatingPoint,
+    PumpCurve,
+    SegmentResult,
+    Solution,
+)
 from hydraulics.system_curve import SystemHydraulics, flow_grid, prepare_system, segment_results, system_curves
 from hydraulics.validation import validate_project
 
@@ -89,7 +97,8 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     p_atm = atmospheric_pressure(project)
     system = prepare_system(project, fluid)
     design_flow = project.site.design_flow_m3_s
-    at_design = segment_results(system, design_flow)
+    design_pumps = design_pumps_running(project)
+    at_design = segment_results(system, design_flow, pumps_running=design_pumps)
     max_flow = project.flow_grid_max_factor * design_flow
     base = Solution(
         project=project, fluid=fluid, atmospheric_pressure_pa=p_atm,
@@ -107,15 +116,16 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     fitted = _cached_fit(pump, fluid.density_kg_m3)
     npsh_static = npsh_static_head(project, p_atm, fluid)
     points = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3)
-    pump_curves = _cached_pump_curves(pump, fluid.density_kg_m3, arrangement.duty_count,
-                                      arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
-                                      (project.criteria.preferred_region_low, project.criteria.preferred_region_high))
+    plain_curves = _cached_pump_curves(pump, fluid.density_kg_m3, arrangement.duty_count,
+                                       arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
+                                       (project.criteria.preferred_region_low, project.criteria.preferred_region_high))
+    pump_curves = _curves_at_manifold(system, plain_curves)
     curve_max = max(float(np.max(c.flow_m3_s)) for c in pump_curves)
     flows = flow_grid(max(max_flow, 1.05 * curve_max), n_flow_points)
     solution = replace(
         base, curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
         energy=annual_energy(points, project.energy, design_flow), pump_curves=pump_curves,
-        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows),
+        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows, design_pumps),
     )
     return CurvesStage(solution, system, fitted, npsh_static)
 
@@ -148,9 +158,9 @@ def complete_solution(stage: CurvesStage) -> Solution:
                                       speed_ratios=other_speeds)
     speed = variable_speed_points(search, at_speeds)
 
-    found_flows = [p.flow_m3_s for p in points if p.found and p.flow_m3_s is not None]
-    lowest = segment_results(system, min(found_flows)) if found_flows else None
-    highest = segment_results(system, max(found_flows)) if found_flows else None
+    found = [p for p in points if p.found and p.flow_m3_s is not None]
+    lowest = _segments_at_extreme(system, found, highest=False) if found else None
+    highest = _segments_at_extreme(system, found, highest=True) if found else None
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
     findings += checks.pump_findings(project, fitted, points, system.static_head_m["max"])
     findings += variable_speed_findings(speed, fitted)
@@ -194,12 +204,64 @@ def _cached_pump_curves(pump: PumpModel, density_kg_m3: float, duty_count: int, 
 
 
 def _npsh_curve(system: SystemHydraulics, npsh_static_m: float, first_curve: PumpCurve,
-                flows: FloatArray) -> NpshCurve:
-    """NPSH available over ``flows`` (static part less the suction losses) beside NPSH required."""
+                flows: FloatArray, pumps_running: int) -> NpshCurve:
+    """NPSH available over the station flows ``flows`` beside NPSH required.
+
+    The static part less the suction losses with ``pumps_running`` pumps running: the
+    common suction at the station flow Q and one pump's own suction branch at Q/N.
+    """
     return NpshCurve(
         flow_m3_s=flows,
-        available_new_m=npsh_static_m - system.suction_loss(flows, False),
-        available_aged_m=npsh_static_m - system.suction_loss(flows, True),
+        available_new_m=npsh_static_m - system.suction_loss(flows, False, pumps_running),
+        available_aged_m=npsh_static_m - system.suction_loss(flows, True, pumps_running),
         required_flow_m3_s=first_curve.flow_m3_s,
         required_m=first_curve.npsh_required_m,
+        pumps_running=pumps_running,
     )
+
+
+def design_pumps_running(project: Project) -> int:
+    """The pumps that share the design flow: the arrangement's duty pumps (1 without one).
+
+    The segment table at design flow puts each pump's own branch at design flow / this.
+    """
+    arrangement = project.arrangement
+    return 1 if arrangement is None else max(1, int(arrangement.duty_count))
+
+
+def _curves_at_manifold(system: SystemHydraulics, curves: tuple[PumpCurve, ...]) -> tuple[PumpCurve, ...]:
+    """The pump-set curves with their heads at the manifold, H_set(Q) − L_branch(Q/N).
+
+    Kept outside the per-pump-set cache: the branch loss depends on the pipework.  Without
+    pump-branch segments the cached curves are returned as they are.
+    """
+    if not system.has_branches:
+        return curves
+    out = []
+    for curve in curves:
+        at_manifold = []
+        for aged in (False, True):
+            head = curve.head_m - system.branch_loss(curve.flow_per_pump_m3_s, aged)
+            head.flags.writeable = False
+            at_manifold.append(head)
+        out.append(replace(curve, head_at_manifold_m=at_manifold[0], head_at_manifold_aged_m=at_manifold[1]))
+    return tuple(out)
+
+
+def _segments_at_extreme(system: SystemHydraulics, points: list[OperatingPoint],
+                         highest: bool) -> tuple[SegmentResult, ...]:
+    """The segment table at the highest (or lowest) flow each segment sees over ``points``.
+
+    A common segment sees its extreme at the extreme station flow; a pump-branch segment
+    at the extreme per-pump flow Q/N, which need not be the same operating point (one
+    pump alone runs further out on its curve than each of two).
+    """
+    pick = max if highest else min
+    by_station = pick(points, key=lambda p: float(p.flow_m3_s or 0.0))
+    station_rows = segment_results(system, float(by_station.flow_m3_s or 0.0),
+                                   pumps_running=by_station.pumps_running)
+    if not system.has_branches:
+        return station_rows
+    by_pump = pick(points, key=lambda p: float(p.flow_m3_s or 0.0) / p.pumps_running)
+    branch_rows = segment_results(system, float(by_pump.flow_m3_s or 0.0), pumps_running=by_pump.pumps_running)
+    return tuple(b if b.carries == "pump" else s for s, b in zip(station_rows, branch_rows, strict=True))

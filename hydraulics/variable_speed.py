@@ -109,7 +109,7 @@ def search_speeds(system: SystemHydraulics, fitted: FittedPump, arrangement: Arr
     statics = np.array([system.static_head_m[static] for static, _ in labels], dtype=float)
     aged = np.array([pipe == "aged" for _, pipe in labels], dtype=bool)
     q = np.full(len(labels), float(target_flow_m3_s))
-    h_system = np.asarray(system.head(q, statics, aged), dtype=np.float64)
+    h_system = np.asarray(system.head(q, statics, aged, n), dtype=np.float64)  # N pumps: each branch at Q_t / N
 
     def excess(s: FloatArray) -> FloatArray:
         return arrangement_head(fitted, q, n, stages, s, trim) - h_system

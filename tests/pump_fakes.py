@@ -2,7 +2,8 @@
 
 ``QuadraticSystem`` implements the methods of :class:`hydraulics.system_curve.SystemHydraulics`
 that the pump engine uses, with a system curve H = H_s + k Q² (k depending on pipe state)
-and a suction loss k_s Q², so that duty points have exact solutions.  ``quadratic_pump``
+and a suction loss k_s Q², so that duty points have exact solutions.  It has common pipework
+only (no pump branches), so the pumps running passed to its methods change nothing.  ``quadratic_pump``
 builds a pump whose test points lie exactly on H = a − b Q².  The coefficients passed in by
 the tests are invented for the checks; they are not data of any real pump or system.
 """
@@ -41,17 +42,17 @@ class QuadraticSystem:
     def k(self, aged) -> np.ndarray:
         return np.where(np.asarray(aged, dtype=bool), self.k_aged, self.k_new)
 
-    def head(self, flow_m3_s, static_m, aged) -> np.ndarray:
+    def head(self, flow_m3_s, static_m, aged, pumps_running=1) -> np.ndarray:
         self.calls.append("head")
         q = np.asarray(flow_m3_s, dtype=float)
         return np.asarray(static_m, dtype=float) + self.k(aged) * q * q
 
-    def suction_loss(self, flow_m3_s, aged) -> np.ndarray:
+    def suction_loss(self, flow_m3_s, aged, pumps_running=1) -> np.ndarray:
         q = np.asarray(flow_m3_s, dtype=float)
         factor = np.where(np.asarray(aged, dtype=bool), self.aged_suction_factor, 1.0)
         return self.k_suction * factor * q * q
 
-    def segment_velocities(self, flow_m3_s) -> np.ndarray:
+    def segment_velocities(self, flow_m3_s, pumps_running=1) -> np.ndarray:
         q = np.asarray(flow_m3_s, dtype=float)[..., None]
         return q / (np.pi * np.asarray(self.diameters_m) ** 2 / 4.0)
 

@@ -15,10 +15,11 @@ SAMPLES = sorted((ROOT / "sample_projects").glob("*.pumpsketch.json"))
 PUMP_FILES = sorted((ROOT / "sample_projects" / "pumps").glob("*.csv"))
 
 ENGINE_KEYS = {"format", "version", "project", "cautions", "fluid", "static_head_m", "design_flow_m3_s",
-               "system_curves", "segments", "findings"}
+               "system_curves", "segments", "findings", "branches"}
 PUMP_KEYS = {"pumps", "operating_points", "variable_speed", "energy"}
 SEGMENT_KEYS = {"name", "side", "length_m", "internal_diameter_m", "roughness_m", "parallel_pipes",
-                "velocity_m_s", "reynolds", "friction_factor", "friction_loss_m", "minor_k_total", "minor_loss_m"}
+                "velocity_m_s", "reynolds", "friction_factor", "friction_loss_m", "minor_k_total", "minor_loss_m",
+                "carries", "flow_m3_s"}
 POINT_KEYS = {"static", "pipe", "pumps_running", "speed_ratio", "flow_m3_s", "flow_per_pump_m3_s", "head_m",
               "efficiency", "shaft_power_w", "input_power_w", "specific_energy_kwh_m3", "bep_flow_ratio",
               "npsh_available_m", "npsh_required_m", "extrapolated"}
@@ -49,6 +50,10 @@ def test_json_has_the_contract_keys(solved):
         assert curve["flow_m3_s"][0] == 0.0 and max(curve["flow_m3_s"]) > solved["design_flow_m3_s"]
     for segment in solved["segments"]:
         assert SEGMENT_KEYS <= set(segment)
+    branch_names = [s["name"] for s in solved["segments"] if s["carries"] == "pump"]
+    assert [b["name"] for b in solved["branches"]] == branch_names
+    for branch in solved["branches"]:
+        assert SEGMENT_KEYS | {"pumps_running"} <= set(branch) and branch["carries"] == "pump"
     for finding in solved["findings"]:
         assert set(finding) >= {"severity", "code", "message", "where"}
 
