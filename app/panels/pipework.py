@@ -33,7 +33,7 @@ from app.table_models.segments import SegmentsModel
 from hydraulics import catalogue, fittings
 from hydraulics.model import ModelError, Segment
 from hydraulics.number_format import general_number
-from hydraulics.project_edits import stepped_segment, with_segment
+from hydraulics.project_edits import main_length_m, stepped_segment, with_segment
 
 PROFILE_HINT = ("Chainage along the common delivery pipework, from 0 at the first station delivery segment; "
                 "mark vented summits with an air valve.")
@@ -188,6 +188,9 @@ class PipeworkPanel(QWidget):
         self.segments_model.modelReset.connect(lambda: self.select_segment(0))
         document.projectChanged.connect(self._refresh_selected)
         document.unitSystemChanged.connect(self._refresh_selected)
+        document.projectChanged.connect(self._refresh_profile_title)
+        document.unitSystemChanged.connect(self._refresh_profile_title)
+        self._refresh_profile_title()
         document.solutionChanged.connect(self._refresh_size_label)
         self.select_segment(0)
         self._refresh_selected()
@@ -330,6 +333,23 @@ class PipeworkPanel(QWidget):
         self.fittings_model.remove_rows(rows)
 
     # ------------------------------------------------------------------ profile points
+    def _refresh_profile_title(self, *_args: object) -> None:
+        """The profile's extent beside the main's length, so a short or long survey shows at once."""
+        project = self._document.project
+        system = self._document.unit_system
+        unit = unit_suffix("length", system)
+        main = f"main {display_text(main_length_m(project), 'length', system)} {unit} long"
+        points = project.profile
+        if not points:
+            text = f"Main profile — no points; {main}"
+        else:
+            valves = sum(1 for p in points if p.air_valve)
+            text = (f"Main profile — {len(points)} points from {display_text(points[0].chainage_m, 'length', system)}"
+                    f" to {display_text(points[-1].chainage_m, 'length', system)} {unit}; {main}; "
+                    f"{valves} air valve{'' if valves == 1 else 's'}")
+        if self.profile_box.title() != text:
+            self.profile_box.setTitle(text)
+
     def show_profile(self, row: int | None = None) -> None:
         """Bring the main's profile into view, with point ``row`` selected if given."""
         self.lower_tabs.setCurrentWidget(self.profile_box)

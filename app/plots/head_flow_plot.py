@@ -48,8 +48,11 @@ SYSTEM_CASES: tuple[tuple[str, str], ...] = (("max", "aged"), ("max", "new"), ("
 
 IDLE_READOUT = "Point at the plot to read flow and head."
 
-MANIFOLD_CURVE_NAME = "Pumps at the manifold (net of branch losses)"
+MANIFOLD_CURVE_NAME = "Pumps at the manifold"
 """The pump-set curve as it acts on the common pipework: each pump's own branch losses taken off."""
+MANIFOLD_READOUT = ("Point at the plot to read flow and head.  Pump curves at the manifold are net of each "
+                    "pump's own branch losses; thin dashed: the pumps as tested.")
+"""The readout's idle text while curves at the manifold are drawn (the legend names stay short)."""
 TESTED_CURVE_NAME = "Pumps as tested"
 """The plain pump-set curve (the manufacturer's test, at the speed drawn), shown thin beside it."""
 
@@ -324,6 +327,7 @@ class HeadFlowPlot(QWidget):
     def _update_pump_curves(self) -> None:
         shown: set[int] = set()
         region_name_holder = None
+        noted = False
         for pump_curve in self._pump_curves():
             pumps = pump_curve.pumps_running
             flow, head = pump_curve.flow_m3_s, _acting_head(pump_curve)
@@ -335,6 +339,7 @@ class HeadFlowPlot(QWidget):
                 items.end_label.setPos(float(x[-1]), float(y[-1]))
             at_manifold = pump_curve.head_at_manifold_m is not None
             items.set_names(at_manifold)
+            noted = noted or at_manifold
             if at_manifold:
                 set_curve_data(items.tested, x, self._head(pump_curve.head_m))
             else:
@@ -360,6 +365,7 @@ class HeadFlowPlot(QWidget):
                 set_curve_data(items.region, empty_array(), empty_array())
                 items.set_visible(False)
         self._set_region_legend_name(region_name_holder)
+        self.hover.set_idle_text(MANIFOLD_READOUT if noted else IDLE_READOUT)
 
     @staticmethod
     def _region_stroke(flow: np.ndarray, head: np.ndarray,

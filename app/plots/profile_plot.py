@@ -52,6 +52,10 @@ IDLE_READOUT = "Point at the plot to read chainage, head and the pipe elevation 
 
 ELEVATION_COLOUR = style.PLOT_FOREGROUND
 RATING_COLOUR = style.REDDISH_PURPLE
+LINE_PREFIX = "HGL"
+"""Legend prefix of a hydraulic grade line (the engine's label follows: scenario, or "at rest, …")."""
+RATING_NAME = "Pipe + pressure rating as head"
+RATING_ABOVE_NAME = "Pipe + pressure rating (above view)"
 AIR_VALVE_LABEL = "air valve"
 GOVERNS_ALWAYS_LABEL = "governing high point"
 GOVERNS_LOW_FLOW_LABEL = "governs at low flow"
@@ -84,7 +88,7 @@ class ProfilePlot(QWidget):
         layout.addWidget(self.canvas, 1)
 
         self.rating_item = pg.PlotDataItem(empty_array(), empty_array(), connect="finite",
-                                           name="Pressure rating (pipe + rating as head)",
+                                           name=RATING_NAME,
                                            pen=style.make_pen(RATING_COLOUR, 1.5, Qt.PenStyle.DashDotLine))
         self.rating_item.setZValue(6)
         self.plot_item.addItem(self.rating_item)
@@ -103,7 +107,7 @@ class ProfilePlot(QWidget):
         self.governing_points = pg.ScatterPlotItem(pxMode=True, symbol="star", size=15,
                                                    brush=pg.mkBrush(style.ORANGE),
                                                    pen=style.make_pen(ELEVATION_COLOUR, 1.2),
-                                                   name="Vented crest governing the system head")
+                                                   name="Governing vented crest")
         self.governing_points.setZValue(41)
         self.plot_item.addItem(self.governing_points)
         self._labels: list[pg.TextItem] = []
@@ -132,8 +136,8 @@ class ProfilePlot(QWidget):
         self._apply_titles()
         profile = None if solution is None else solution.profile
         self._update_elevation(profile)
-        self._update_lines(self._scenario_items, () if profile is None else profile.scenarios, "Grade line")
-        self._update_lines(self._rest_items, () if profile is None else profile.at_rest, "Grade line")
+        self._update_lines(self._scenario_items, () if profile is None else profile.scenarios)
+        self._update_lines(self._rest_items, () if profile is None else profile.at_rest)
         self._update_rating(profile)
         self._update_marks(profile)
         self.plot_item.setTitle(NO_PROFILE_MESSAGE if profile is None and solution is not None else None,
@@ -189,7 +193,7 @@ class ProfilePlot(QWidget):
         set_curve_data(self.elevation_item, self._x(profile.chainage_m), self._y(profile.elevation_m))
         _set_visible(self.elevation_item, True)
 
-    def _update_lines(self, pool: list[pg.PlotDataItem], lines: tuple[ProfileLine, ...], prefix: str) -> None:
+    def _update_lines(self, pool: list[pg.PlotDataItem], lines: tuple[ProfileLine, ...]) -> None:
         while len(pool) < len(lines):
             item = pg.PlotDataItem(empty_array(), empty_array())
             item.setZValue(10)
@@ -200,7 +204,7 @@ class ProfilePlot(QWidget):
             if index < len(lines) and profile is not None:
                 line = lines[index]
                 item.setPen(_line_pen(line))
-                item.opts["name"] = f"{prefix}, {line.label}"
+                item.opts["name"] = f"{LINE_PREFIX} {line.label}"
                 set_curve_data(item, self._x(profile.chainage_m), self._y(line.grade_line_m))
                 _set_visible(item, True)
             else:
@@ -283,16 +287,25 @@ class ProfilePlot(QWidget):
     def _follow_data(self) -> None:
         xs: list[float] = []
         ys: list[float] = []
-        for item in [self.elevation_item, self.rating_item, *self._scenario_items, *self._rest_items]:
+        for item in [self.elevation_item, *self._scenario_items, *self._rest_items]:
             x, y = item.getData()
             if item.isVisible() and x is not None and len(x) and np.isfinite(y).any():
                 xs.extend([float(np.nanmin(x)), float(np.nanmax(x))])
                 ys.extend([float(np.nanmin(y)), float(np.nanmax(y))])
         if not xs:
             return
-        low = min(ys)
-        self._view.follow(nice_range(min(xs), max(xs), headroom=0.02),
-                          nice_range(low, max(ys), headroom=0.08))
+        low, high = min(ys), max(ys)
+        self.rating_item.opts["name"] = RATING_NAME
+        _, rating = self.rating_item.getData()
+        if self.rating_item.isVisible() and rating is not None and np.isfinite(rating).any():
+            # The envelope is shown where it comes within one span of the lines; far above,
+            # it would squash them, so it is left above the view and the legend says so.
+            closest = float(np.nanmin(rating))
+            if closest <= high + (high - low):
+                high = max(high, closest)
+            else:
+                self.rating_item.opts["name"] = RATING_ABOVE_NAME
+        self._view.follow(nice_range(min(xs), max(xs), headroom=0.02), nice_range(low, high, headroom=0.08))
 
     def _apply_titles(self) -> None:
         set_axis_title(self.plot_item, "bottom", f"Chainage ({unit_label('length', self._unit_system)})")

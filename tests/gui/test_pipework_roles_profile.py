@@ -129,6 +129,9 @@ def test_a_pasted_profile_block_is_one_undo_step(window, document, profile_view)
                                         ProfilePoint(2412.0, 176.0))
     assert document.undo_stack.count() == steps + 1
     assert model.rowCount() == 3
+    # the hilltop sample's main: 12 m + 2400 m of station delivery pipework
+    assert window.pipework.profile_box.title() == (
+        "Main profile — 3 points from 0 to 2412 m; main 2412 m long; 0 air valves")
     assert model.data(_cell(model, 1, "air_valve"), DISPLAY) == "No"
     assert model.setData(_cell(model, 1, "air_valve"), "Yes", EDIT)
     assert document.project.profile[1].air_valve is True

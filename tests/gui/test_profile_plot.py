@@ -14,7 +14,13 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from app.plots.head_flow_plot import MANIFOLD_CURVE_NAME, TESTED_CURVE_NAME, HeadFlowPlot
+from app.plots.head_flow_plot import (
+    IDLE_READOUT,
+    MANIFOLD_CURVE_NAME,
+    MANIFOLD_READOUT,
+    TESTED_CURVE_NAME,
+    HeadFlowPlot,
+)
 from app.plots.plot_tabs import PlotTabs
 from app.plots.profile_plot import GOVERNS_LOW_FLOW_LABEL, NO_PROFILE_MESSAGE, ProfilePlot
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
@@ -78,7 +84,7 @@ def test_profile_plot_draws_the_engine_arrays_in_display_units(profile_plot, uni
         np.testing.assert_allclose(lx, result.chainage_m * f, rtol=1e-12)
         np.testing.assert_allclose(ly, line.grade_line_m * f, rtol=1e-12)
     rest = profile_plot.rest_data()
-    assert [name for name, _, _ in rest] == [f"Grade line, {line.label}" for line in result.at_rest]
+    assert [name for name, _, _ in rest] == [f"HGL {line.label}" for line in result.at_rest]
     for (_, _, ly), line in zip(rest, result.at_rest, strict=True):
         np.testing.assert_allclose(ly, line.grade_line_m * f, rtol=1e-12)
     assert profile_plot.message() == ""
@@ -108,7 +114,7 @@ def test_air_valve_and_governing_crest_are_marked(profile_plot):
     assert profile_plot.marks() == [(600.0, 44.5, f"air valve, {GOVERNS_LOW_FLOW_LABEL}")]
     names = profile_plot.legend_names()
     assert names[0] == "Pipe elevation"
-    assert "Air valve" in names and "Vented crest governing the system head" in names
+    assert "Air valve" in names and "Governing vented crest" in names
 
 
 def test_without_a_profile_the_plot_says_where_to_enter_one(profile_plot):
@@ -173,9 +179,11 @@ def test_head_flow_shows_the_curve_at_the_manifold_and_the_tested_curve(qtbot, u
     names = plot.legend_names()
     assert any(n.startswith(MANIFOLD_CURVE_NAME) for n in names)
     assert any(n.startswith(TESTED_CURVE_NAME) for n in names)
+    assert plot.readout.text() == MANIFOLD_READOUT  # says what "at the manifold" means
     assert len(plot.marked_points()) == len([p for p in solution.operating_points
                                              if p.found and abs(p.speed_ratio - speed) < 1e-9])
     # the operating points stay the engine's: the crafted curves do not move them
     plot.show_solution(solution, unit_system)
     assert plot.tested_curve_data(shown[0].pumps_running)[0].size == 0
     assert not any(n.startswith(TESTED_CURVE_NAME) for n in plot.legend_names())
+    assert plot.readout.text() == IDLE_READOUT
