@@ -247,7 +247,8 @@ class MainWindow(QMainWindow):
     def focus_target(self, target: tuple[object, ...] | None) -> None:
         """Bring what a finding or an undone edit is about into view.
 
-        ``("segment", i)`` selects the row in Pipework; ``("pump", …)`` and
+        ``("segment", i)`` selects the row in Pipework, ``("profile", i)`` that point of the
+        main's profile; ``("pump", …)`` and
         ``("arrangement", …)`` open Pumps; ``("site", name)`` opens Site & fluid and
         focuses the field of that name where there is one; ``("criteria", name)`` opens
         Criteria; ``("scenario", (static, pipe, pumps, speed))`` selects that row of the
@@ -260,6 +261,9 @@ class MainWindow(QMainWindow):
             self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pipework"))
             self.pipework.select_segment(what)
             self.pipework.segments_view.setFocus()
+        elif kind == "profile" and isinstance(what, int):
+            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pipework"))
+            self.pipework.show_profile(what)
         elif kind in ("pump", "arrangement"):
             self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pumps"))
             form = self.pumps_panel.arrangement_form if kind == "arrangement" else self.pumps_panel.pump_form

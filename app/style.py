@@ -106,6 +106,11 @@ def pump_pen(pumps_running: int) -> QPen:
     return make_pen(pump_colour(pumps_running), 2.0)
 
 
+def tested_pump_pen(pumps_running: int) -> QPen:
+    """Thin dashed pen of the plain (as tested) pump curve, beside the curve at the manifold."""
+    return make_pen(pump_colour(pumps_running), 1.2, Qt.PenStyle.DashLine, alpha=200)
+
+
 def preferred_region_pen(pumps_running: int) -> QPen:
     """Broad translucent stroke under the pump curve across the preferred region."""
     pen = make_pen(pump_colour(pumps_running), 9.0, alpha=PREFERRED_REGION_ALPHA)

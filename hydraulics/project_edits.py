@@ -11,6 +11,7 @@ has no pipe series, changing an arrangement that does not exist) raises
 from __future__ import annotations
 
 import re
+from collections.abc import Sequence
 from dataclasses import replace
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
@@ -25,6 +26,7 @@ from hydraulics.model import (
     Arrangement,
     ModelError,
     PressurisedDelivery,
+    ProfilePoint,
     Project,
     PumpModel,
     Segment,
@@ -150,6 +152,67 @@ def with_segment(project: Project, index: int, segment: Segment) -> Project:
     if not 0 <= index < len(project.segments):
         raise ModelError(f"segments[{index}]", f"no such segment; the project has {len(project.segments)}", index)
     return replace(project, segments=project.segments[:index] + (segment,) + project.segments[index + 1:])
+
+
+# ---------------------------------------------------------------------- profile of the main
+DEFAULT_PROFILE_STEP_M = 100.0
+"""Chainage step of a point added past the last one, or of a second point past a lone first (m)."""
+
+
+def main_length_m(project: Project) -> float:
+    """Length of the common delivery pipework: the ``"station"`` delivery segments laid end to end (m)."""
+    return float(sum(s.length_m for s in project.segments if s.side == "delivery" and s.carries == "station"))
+
+
+def with_profile(project: Project, points: Sequence[ProfilePoint]) -> Project:
+    """The project with the main's profile replaced by ``points`` (in the order given)."""
+    return replace(project, profile=tuple(points))
+
+
+def with_profile_point_changes(project: Project, index: int, **changes: Any) -> Project:
+    """The project with fields of profile point ``index`` changed (``chainage_m``, ``elevation_m``, ``air_valve``)."""
+    if not 0 <= index < len(project.profile):
+        raise ModelError(f"profile[{index}]", f"no such point; the profile has {len(project.profile)}", index)
+    point = replace(project.profile[index], **changes)
+    return with_profile(project, project.profile[:index] + (point,) + project.profile[index + 1:])
+
+
+def starting_profile(project: Project) -> tuple[ProfilePoint, ProfilePoint]:
+    """Two points to start a profile from: chainage 0 and the end of the main.
+
+    Elevations from the first station delivery segment's start elevation and the last
+    one's end elevation where given, otherwise the pump datum and the delivery elevation
+    (the highest delivery level of a tank).
+    """
+    main = [s for s in project.segments if s.side == "delivery" and s.carries == "station"]
+    delivery = project.site.delivery
+    end_level = delivery.level_high_m if isinstance(delivery, TankDelivery) else delivery.elevation_m
+    start = main[0].start_elevation_m if main and main[0].start_elevation_m is not None else project.site.pump_datum_m
+    end = main[-1].end_elevation_m if main and main[-1].end_elevation_m is not None else end_level
+    length = main_length_m(project)
+    return ProfilePoint(0.0, float(start)), ProfilePoint(length if length > 0 else DEFAULT_PROFILE_STEP_M, float(end))
+
+
+def new_profile_point(project: Project, index: int) -> ProfilePoint:
+    """A point to insert before point ``index`` of the profile (at the end when ``index`` is its length).
+
+    Between two points: midway in chainage and elevation, no air valve.  Past the last
+    point: :data:`DEFAULT_PROFILE_STEP_M` further at the same elevation.  Before the first:
+    midway between chainage 0 and the first point.  An empty profile starts with the
+    first point of :func:`starting_profile`.
+    """
+    points = project.profile
+    if not points:
+        return starting_profile(project)[0]
+    if 0 < index < len(points):
+        before, after = points[index - 1], points[index]
+        return ProfilePoint((before.chainage_m + after.chainage_m) / 2.0,
+                            (before.elevation_m + after.elevation_m) / 2.0)
+    if index >= len(points):
+        last = points[-1]
+        return ProfilePoint(last.chainage_m + DEFAULT_PROFILE_STEP_M, last.elevation_m)
+    first = points[0]
+    return ProfilePoint(first.chainage_m / 2.0, first.elevation_m)
 
 
 # ---------------------------------------------------------------------- pumps

@@ -20,6 +20,7 @@ from hydraulics.model import (
     Arrangement,
     ModelError,
     PressurisedDelivery,
+    ProfilePoint,
     PumpModel,
     Segment,
     TankDelivery,
@@ -30,7 +31,10 @@ from hydraulics.project_edits import (
     EXAMPLE_RATED_SPEED_RPM,
     example_pump,
     imported_pump_id,
+    main_length_m,
+    new_profile_point,
     series_of_material,
+    starting_profile,
     stepped_segment,
     unique_pump_id,
     with_added_pump,
@@ -39,6 +43,8 @@ from hydraulics.project_edits import (
     with_delivery_kind,
     with_duty_pump,
     with_fluid_kind,
+    with_profile,
+    with_profile_point_changes,
     with_pump_changes,
     with_removed_pump,
     with_segment,
@@ -218,3 +224,50 @@ def test_water_from_a_user_fluid_keeps_the_temperature_within_range(project):
     assert with_fluid_kind(hot, "water").fluid == WaterFluid(temperature_c=100.0)
     cool = replace(project, fluid=UserFluid(temperature_c=35.0))
     assert with_fluid_kind(cool, "water").fluid == WaterFluid(temperature_c=35.0)
+
+
+# ---------------------------------------------------------------------- profile of the main
+RIDGE = (ProfilePoint(0.0, 110.0), ProfilePoint(1200.0, 150.0, air_valve=True), ProfilePoint(2412.0, 176.0))
+"""An invented profile over the hilltop sample's main (demo data)."""
+
+
+def test_with_profile_replaces_the_points_and_validates(project):
+    edited = with_profile(project, list(RIDGE))
+    assert edited.profile == RIDGE
+    assert project.profile == ()  # the sample has no profile; the original is untouched
+    validate_project(edited)
+
+
+def test_with_profile_point_changes_edits_one_point(project):
+    edited = with_profile_point_changes(with_profile(project, RIDGE), 1, elevation_m=151.5, air_valve=False)
+    assert edited.profile[1] == ProfilePoint(1200.0, 151.5, False)
+    assert edited.profile[0] == RIDGE[0] and edited.profile[2] == RIDGE[2]
+    with pytest.raises(ModelError) as excinfo:
+        with_profile_point_changes(edited, 3, elevation_m=1.0)
+    assert excinfo.value.field_path == "profile[3]"
+
+
+def test_a_non_increasing_chainage_is_refused_by_validation(project):
+    edited = with_profile_point_changes(with_profile(project, RIDGE), 2, chainage_m=1200.0)
+    with pytest.raises(ModelError) as excinfo:
+        validate_project(edited)
+    assert excinfo.value.field_path == "profile[2].chainage"
+
+
+def test_main_length_and_starting_profile_follow_the_station_delivery_segments(project):
+    # the hilltop sample: discharge pipework 12 m + rising main 2400 m, both station delivery segments
+    assert main_length_m(project) == pytest.approx(2412.0, abs=1e-9)
+    first, last = starting_profile(project)
+    assert first == ProfilePoint(0.0, project.site.pump_datum_m)  # first main segment has no start elevation
+    assert last == ProfilePoint(2412.0, 176.0)  # the rising main's end elevation
+    branch = replace(project, segments=tuple(replace(s, carries="pump") if s.name.startswith("Pump discharge")
+                                             else s for s in project.segments))
+    assert main_length_m(branch) == pytest.approx(2400.0, abs=1e-9)  # a pump branch is not part of the main
+
+
+def test_new_profile_points_lie_between_their_neighbours(project):
+    ridged = with_profile(project, RIDGE)
+    assert new_profile_point(ridged, 1) == ProfilePoint(600.0, 130.0)  # midway, no air valve
+    assert new_profile_point(ridged, 3) == ProfilePoint(2512.0, 176.0)  # 100 m past the last point
+    assert new_profile_point(ridged, 0) == ProfilePoint(0.0, 110.0)  # half of chainage 0
+    assert new_profile_point(project, 0) == starting_profile(project)[0]

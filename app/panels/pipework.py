@@ -1,6 +1,8 @@
-"""The "Pipework" panel: the segments table, the pipe-size stepper and the selected segment's fittings.
+"""The "Pipework" panel: the segments table, the pipe-size stepper, the selected segment's
+fittings and the profile of the main.
 
-Segments are listed in flow order.  Selecting one shows its fittings below.  The size
+Segments are listed in flow order.  Selecting one shows its fittings below; beside the
+fittings, a second tab holds the main's profile (chainage, pipe elevation, air valves).  The size
 stepper moves the selected segment one nominal size up or down its pipe series (arrow
 buttons, mouse wheel over it, Up/Down keys in it, or Ctrl+Up / Ctrl+Down anywhere in the
 window); each step is one undo step and the curves and checks follow at once.
@@ -17,6 +19,7 @@ from PySide6.QtWidgets import (
     QPushButton,
     QSizePolicy,
     QSplitter,
+    QTabWidget,
     QVBoxLayout,
     QWidget,
 )
@@ -24,12 +27,16 @@ from PySide6.QtWidgets import (
 from app.document import ProjectDocument
 from app.panels.table_view import SpreadsheetView
 from app.table_models.cells import display_text, unit_suffix
-from app.table_models.fittings import FittingsModel
+from app.table_models.fittings import FittingsModel, previous_bore_m
+from app.table_models.profile import ProfileModel
 from app.table_models.segments import SegmentsModel
 from hydraulics import catalogue, fittings
 from hydraulics.model import ModelError, Segment
 from hydraulics.number_format import general_number
-from hydraulics.project_edits import stepped_segment, with_segment
+from hydraulics.project_edits import main_length_m, stepped_segment, with_segment
+
+PROFILE_HINT = ("Chainage along the common delivery pipework, from 0 at the first station delivery segment; "
+                "mark vented summits with an air valve.")
 
 
 class SizeStepper(QAbstractSpinBox):
@@ -142,7 +149,38 @@ class PipeworkPanel(QWidget):
         self.k_total_label = QLabel()
         fitting_buttons.addWidget(self.k_total_label)
         fittings_layout.addLayout(fitting_buttons)
-        splitter.addWidget(self.fittings_box)
+
+        # ---- profile of the main
+        self.profile_box = QGroupBox("Main profile")
+        profile_layout = QVBoxLayout(self.profile_box)
+        hint = QLabel(PROFILE_HINT)
+        hint.setWordWrap(True)
+        profile_layout.addWidget(hint)
+        self.profile_model = ProfileModel(document, self)
+        self.profile_view = SpreadsheetView()
+        self.profile_view.setObjectName("profile_table")
+        self.profile_view.setModel(self.profile_model)
+        profile_layout.addWidget(self.profile_view, 1)
+        profile_buttons = QHBoxLayout()
+        for text, slot, tip in (
+                ("Add point", self._add_profile_point,
+                 "Insert a point below the selected one (an empty profile starts with the two ends of the main)."),
+                ("Remove point", self._remove_profile_points, "Remove the selected points.")):
+            button = QPushButton(text)
+            button.setToolTip(tip)
+            button.clicked.connect(slot)
+            profile_buttons.addWidget(button)
+        profile_buttons.addStretch(1)
+        profile_layout.addLayout(profile_buttons)
+
+        self.lower_tabs = QTabWidget()
+        self.lower_tabs.setObjectName("pipework_lower_tabs")
+        self.lower_tabs.setDocumentMode(True)
+        self.lower_tabs.addTab(self.fittings_box, "Fittings")
+        self.lower_tabs.addTab(self.profile_box, "Main profile")
+        self.lower_tabs.setTabToolTip(0, "The fittings of the selected segment")
+        self.lower_tabs.setTabToolTip(1, "Chainage and pipe elevation along the main, with its air valves")
+        splitter.addWidget(self.lower_tabs)
         splitter.setStretchFactor(0, 3)
         splitter.setStretchFactor(1, 2)
 
@@ -150,6 +188,9 @@ class PipeworkPanel(QWidget):
         self.segments_model.modelReset.connect(lambda: self.select_segment(0))
         document.projectChanged.connect(self._refresh_selected)
         document.unitSystemChanged.connect(self._refresh_selected)
+        document.projectChanged.connect(self._refresh_profile_title)
+        document.unitSystemChanged.connect(self._refresh_profile_title)
+        self._refresh_profile_title()
         document.solutionChanged.connect(self._refresh_size_label)
         self.select_segment(0)
         self._refresh_selected()
@@ -190,7 +231,8 @@ class PipeworkPanel(QWidget):
             self.size_stepper.set_state("typed", True, True)
         self._refresh_size_label()
         try:
-            total = fittings.segment_k_total(segment.fittings, segment.internal_diameter_m)
+            total = fittings.segment_k_total(segment.fittings, segment.internal_diameter_m,
+                                             upstream_diameter_m=previous_bore_m(project, index))
             self.k_total_label.setText(f"Total K of this segment: {general_number(total, 3)}")
         except ModelError as exc:
             self.k_total_label.setText(f"Total K: — ({exc.problem})")
@@ -289,3 +331,39 @@ class PipeworkPanel(QWidget):
         if not rows and self.fittings_view.current_row() >= 0:
             rows = [self.fittings_view.current_row()]
         self.fittings_model.remove_rows(rows)
+
+    # ------------------------------------------------------------------ profile points
+    def _refresh_profile_title(self, *_args: object) -> None:
+        """The profile's extent beside the main's length, so a short or long survey shows at once."""
+        project = self._document.project
+        system = self._document.unit_system
+        unit = unit_suffix("length", system)
+        main = f"main {display_text(main_length_m(project), 'length', system)} {unit} long"
+        points = project.profile
+        if not points:
+            text = f"Main profile — no points; {main}"
+        else:
+            valves = sum(1 for p in points if p.air_valve)
+            text = (f"Main profile — {len(points)} points from {display_text(points[0].chainage_m, 'length', system)}"
+                    f" to {display_text(points[-1].chainage_m, 'length', system)} {unit}; {main}; "
+                    f"{valves} air valve{'' if valves == 1 else 's'}")
+        if self.profile_box.title() != text:
+            self.profile_box.setTitle(text)
+
+    def show_profile(self, row: int | None = None) -> None:
+        """Bring the main's profile into view, with point ``row`` selected if given."""
+        self.lower_tabs.setCurrentWidget(self.profile_box)
+        if row is not None:
+            self.profile_view.select_row(min(row, self.profile_model.rowCount() - 1))
+
+    def _add_profile_point(self) -> None:
+        row = self.profile_view.current_row()
+        target = row + 1 if row >= 0 else self.profile_model.rowCount()
+        if self.profile_model.insert_row(target):
+            self.profile_view.select_row(min(target, self.profile_model.rowCount() - 1))
+
+    def _remove_profile_points(self) -> None:
+        rows = sorted({i.row() for i in self.profile_view.selectionModel().selectedIndexes()})
+        if not rows and self.profile_view.current_row() >= 0:
+            rows = [self.profile_view.current_row()]
+        self.profile_model.remove_rows(rows)

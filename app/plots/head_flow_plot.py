@@ -1,5 +1,11 @@
 """Head against flow: system curves, pump curves and the operating points where they meet.
 
+Where the pumps have their own suction and discharge branches, the engine gives each
+pump-set curve as it acts at the manifold (net of the branch losses at the per-pump
+flow): that curve is drawn as the pump curve, meeting the system curves of the common
+pipework at the operating points, and the plain curve as tested is drawn thin and dashed
+beside it.
+
 :class:`HeadFlowPlot` only draws what the engine computed (a
 :class:`~hydraulics.results.Solution`); stored data stays SI and is converted to the
 chosen unit system when drawn.  Every curve item is created once and updated with
@@ -42,6 +48,14 @@ SYSTEM_CASES: tuple[tuple[str, str], ...] = (("max", "aged"), ("max", "new"), ("
 
 IDLE_READOUT = "Point at the plot to read flow and head."
 
+MANIFOLD_CURVE_NAME = "Pumps at the manifold"
+"""The pump-set curve as it acts on the common pipework: each pump's own branch losses taken off."""
+MANIFOLD_READOUT = ("Point at the plot to read flow and head.  Pump curves at the manifold are net of each "
+                    "pump's own branch losses; thin dashed: the pumps as tested.")
+"""The readout's idle text while curves at the manifold are drawn (the legend names stay short)."""
+TESTED_CURVE_NAME = "Pumps as tested"
+"""The plain pump-set curve (the manufacturer's test, at the speed drawn), shown thin beside it."""
+
 
 def _system_curve_name(static: str, pipe: str) -> str:
     return f"System: {static} static, {pipe} pipe"
@@ -60,17 +74,31 @@ class _PumpCurveItems:
                                      name=f"Pump curve: {scenarios.pumps_phrase(pumps_running)}",
                                      pen=style.pump_pen(pumps_running))
         self.curve.setZValue(10)
+        self.tested = pg.PlotDataItem(empty_array(), empty_array(), pen=style.tested_pump_pen(pumps_running))
+        self.tested.setZValue(9)
+        self.tested.setVisible(False)
         self.end_label = pg.TextItem(scenarios.pumps_phrase(pumps_running), color=style.pump_colour(pumps_running),
                                      anchor=(1.0, 1.1))
         self.end_label.setFont(style.annotation_font())
         self.end_label.setZValue(30)
         plot_item.addItem(self.region)
+        plot_item.addItem(self.tested)
         plot_item.addItem(self.curve)
         plot_item.addItem(self.end_label, ignoreBounds=True)
 
     def set_visible(self, visible: bool) -> None:
-        for item in (self.region, self.curve, self.end_label):
+        for item in (self.region, self.curve, self.tested, self.end_label):
             item.setVisible(visible)
+
+    def set_names(self, at_manifold: bool) -> None:
+        """Legend names: the plain pump curve, or the curve at the manifold beside the tested one."""
+        phrase = scenarios.pumps_phrase(self.pumps_running)
+        if at_manifold:
+            self.curve.opts["name"] = f"{MANIFOLD_CURVE_NAME}: {phrase}"
+            self.tested.opts["name"] = f"{TESTED_CURVE_NAME}: {phrase}"
+        else:
+            self.curve.opts["name"] = f"Pump curve: {phrase}"
+            self.tested.opts["name"] = None
 
 
 class HeadFlowPlot(QWidget):
@@ -179,7 +207,7 @@ class HeadFlowPlot(QWidget):
         for curve in self._system_curves_si():
             snapshot.append((curve[0].copy(), curve[1].copy()))
         for pump_curve in self._pump_curves():
-            snapshot.append((pump_curve.flow_m3_s.copy(), pump_curve.head_m.copy()))
+            snapshot.append((pump_curve.flow_m3_s.copy(), _acting_head(pump_curve).copy()))
         self._snapshot_si = snapshot
         self._update_snapshot()
         self._sync_legend()
@@ -201,6 +229,14 @@ class HeadFlowPlot(QWidget):
         if items is None or not items.curve.isVisible():
             return empty_array(), empty_array()
         x, y = items.curve.getData()
+        return _copy_or_empty(x), _copy_or_empty(y)
+
+    def tested_curve_data(self, pumps_running: int) -> tuple[np.ndarray, np.ndarray]:
+        """The (flow, head) arrays of the plain pump curve drawn thin beside the curve at the manifold."""
+        items = self._pump_items.get(pumps_running)
+        if items is None or not items.tested.isVisible():
+            return empty_array(), empty_array()
+        x, y = items.tested.getData()
         return _copy_or_empty(x), _copy_or_empty(y)
 
     def preferred_region_data(self, pumps_running: int) -> tuple[np.ndarray, np.ndarray]:
@@ -291,15 +327,24 @@ class HeadFlowPlot(QWidget):
     def _update_pump_curves(self) -> None:
         shown: set[int] = set()
         region_name_holder = None
+        noted = False
         for pump_curve in self._pump_curves():
             pumps = pump_curve.pumps_running
-            flow, head = pump_curve.flow_m3_s, pump_curve.head_m
+            flow, head = pump_curve.flow_m3_s, _acting_head(pump_curve)
             if not flow.size or pumps in shown:
                 continue
             items = self._pump_items_for(pumps)
             x, y = self._flow(flow), self._head(head)
             if set_curve_data(items.curve, x, y):
                 items.end_label.setPos(float(x[-1]), float(y[-1]))
+            at_manifold = pump_curve.head_at_manifold_m is not None
+            items.set_names(at_manifold)
+            noted = noted or at_manifold
+            if at_manifold:
+                set_curve_data(items.tested, x, self._head(pump_curve.head_m))
+            else:
+                set_curve_data(items.tested, empty_array(), empty_array())
+            _set_visible(items.tested, at_manifold)
             bounds = scenarios.preferred_flow_bounds(pump_curve)
             if bounds is not None:
                 rx, ry = self._region_stroke(flow, head, bounds)
@@ -316,9 +361,11 @@ class HeadFlowPlot(QWidget):
         for pumps, items in self._pump_items.items():
             if pumps not in shown:
                 set_curve_data(items.curve, empty_array(), empty_array())
+                set_curve_data(items.tested, empty_array(), empty_array())
                 set_curve_data(items.region, empty_array(), empty_array())
                 items.set_visible(False)
         self._set_region_legend_name(region_name_holder)
+        self.hover.set_idle_text(MANIFOLD_READOUT if noted else IDLE_READOUT)
 
     @staticmethod
     def _region_stroke(flow: np.ndarray, head: np.ndarray,
@@ -418,11 +465,12 @@ class HeadFlowPlot(QWidget):
                     system_top.append(float(np.nanmax(y)))
         pump_top: list[float] = []
         for items in self._pump_items.values():
-            if items.curve.isVisible():
-                x, y = items.curve.getData()
-                if x is not None and len(x):
-                    xs.append(float(np.nanmax(x)))
-                    pump_top.append(float(np.nanmax(y)))
+            for item in (items.curve, items.tested):
+                if item.isVisible():
+                    x, y = item.getData()
+                    if x is not None and len(x):
+                        xs.append(float(np.nanmax(x)))
+                        pump_top.append(float(np.nanmax(y)))
         point_heads = [y for _, y, _ in self._marked]
         if pump_top:
             static = [] if self._solution is None else [
@@ -438,6 +486,8 @@ class HeadFlowPlot(QWidget):
         ordered: list[pg.GraphicsObject] = [self._system_items[case] for case in SYSTEM_CASES]
         for pumps in sorted(self._pump_items):
             ordered.append(self._pump_items[pumps].curve)
+        for pumps in sorted(self._pump_items):
+            ordered.append(self._pump_items[pumps].tested)
         ordered.extend(items.region for items in self._pump_items.values())
         if self._snapshot_items:
             ordered.append(self._snapshot_items[0])
@@ -447,6 +497,11 @@ class HeadFlowPlot(QWidget):
         flow_unit = unit_label("flow", self._unit_system)
         head_unit = unit_label("head", self._unit_system)
         return f"Pointer: flow {readout_number(x)} {flow_unit}   ·   head {readout_number(y)} {head_unit}"
+
+
+def _acting_head(pump_curve: PumpCurve) -> FloatArray:
+    """The head the pumps give the common pipework: at the manifold where the engine gives it."""
+    return pump_curve.head_m if pump_curve.head_at_manifold_m is None else pump_curve.head_at_manifold_m
 
 
 def _set_visible(item: pg.GraphicsObject, visible: bool) -> None:

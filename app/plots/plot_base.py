@@ -361,6 +361,14 @@ class HoverReadout(QObject):
         """True while the pointer is over one of the plots."""
         return self._last is not None
 
+    def set_idle_text(self, text: str) -> None:
+        """The text shown while the pointer is off the plots (shown at once if it is off now)."""
+        if text == self._idle_text:
+            return
+        self._idle_text = text
+        if self._last is None:
+            self._label.setText(text)
+
     def refresh(self) -> None:
         """Describe the last position again (after a change of units or data)."""
         if self._last is None:

@@ -17,6 +17,12 @@ TYPED_SERIES_LABEL = "typed (no series)"
 
 SIDE_CHOICES: list[tuple[str | None, str]] = [("suction", "Suction"), ("delivery", "Delivery")]
 
+CARRIES_CHOICES: list[tuple[str | None, str]] = [("pump", "Each pump"), ("station", "Station flow")]
+"""What a segment carries: one running pump's flow (its own branch) or the station flow."""
+
+AIR_VALVE_CHOICES: list[tuple[str | None, str]] = [("no", "No"), ("yes", "Yes")]
+"""Whether a profile point is a vented summit."""
+
 
 def material_choices() -> list[tuple[str | None, str]]:
     """Every catalogue material, in catalogue order."""

@@ -1,8 +1,15 @@
-"""The fittings table of the selected segment: type, count, catalogue K, K override.
+"""The fittings table of the selected segment: type, count, catalogue K, K override, and
+the cone angle and upstream bore of a reducer or expander.
 
 Every K refers to the velocity of the segment holding the fitting.  The catalogue K is
-shown for the segment's bore (size-dependent entries follow the bore as it changes);
-a K override replaces it for that row, clearing the override returns to the catalogue.
+shown for the segment's bore (size-dependent entries follow the bore as it changes; a
+reducer's or expander's K follows both bores and its cone angle); a K override replaces
+it for that row, clearing the override returns to the catalogue.
+
+A reducer or expander sits at the inlet of its segment.  Its upstream bore, left blank,
+is the bore of the previous segment in flow order (station suction, each pump's suction
+branch, each pump's discharge branch, station delivery, each in table order), shown in
+grey; its cone angle, left blank, is that of the catalogue type (180° for a sudden one).
 """
 
 from __future__ import annotations
@@ -11,13 +18,15 @@ from collections.abc import Sequence
 from dataclasses import replace
 from typing import Any
 
-from PySide6.QtCore import QObject
+from PySide6.QtCore import QObject, Qt
 
 from app.document import ProjectDocument
 from app.table_models import choices
 from app.table_models.base import Column, ProjectTableModel
-from hydraulics.model import Fitting, Project
-from hydraulics.number_format import general_number
+from app.table_models.cells import display_text
+from hydraulics import fittings
+from hydraulics.model import Fitting, ModelError, Project, Segment
+from hydraulics.number_format import general_number, plain_number
 
 _COLUMNS: tuple[Column, ...] = (
     Column("fitting_id", "Fitting type", kind="choice", tooltip="From the fittings catalogue."),
@@ -28,7 +37,37 @@ _COLUMNS: tuple[Column, ...] = (
                    "referred to the segment velocity."),
     Column("k_override", "K override", quantity="dimensionless", limit="fitting.k_override", optional=True,
            tooltip="Your own K for one fitting, e.g. from a manufacturer; replaces the catalogue K."),
+    Column("angle_deg", "Cone angle", quantity="dimensionless", limit="fitting.angle_deg", optional=True,
+           tooltip="Included cone angle of a conical reducer or expander, in degrees; blank for a sudden "
+                   "one (180°). Used by reducers and expanders only."),
+    Column("other_diameter_m", "Upstream bore", quantity="diameter", limit="fitting.other_diameter_m",
+           optional=True,
+           tooltip="Bore on the upstream side of a reducer or expander at this segment's inlet; blank for the "
+                   "previous segment's bore in flow order (shown in grey). Used by reducers and expanders only."),
 )
+
+_BORE_CHANGE_METHODS = frozenset({"reducer", "expander"})
+_ANGLE_HEADER = "Cone angle\n[°]"
+
+_FLOW_ORDER: tuple[tuple[str, str], ...] = (
+    ("suction", "station"), ("suction", "pump"), ("delivery", "pump"), ("delivery", "station"))
+"""(side, carries) groups in flow order; each group keeps table order."""
+
+
+def flow_order(segments: Sequence[Segment]) -> list[int]:
+    """Indices of ``segments`` in flow order: station suction, pump suction branch,
+    pump discharge branch, station delivery, each in table order."""
+    return [i for side, carries in _FLOW_ORDER
+            for i, s in enumerate(segments) if s.side == side and s.carries == carries]
+
+
+def previous_bore_m(project: Project, index: int) -> float | None:
+    """The bore of the segment before segment ``index`` in flow order (``None`` for the first)."""
+    order = flow_order(project.segments)
+    if index not in order:
+        return None
+    position = order.index(index)
+    return project.segments[order[position - 1]].internal_diameter_m if position > 0 else None
 
 DEFAULT_FITTING_ID = "elbow_90_long_radius"
 
@@ -65,12 +104,17 @@ class FittingsModel(ProjectTableModel):
         old, new = tuple(self.items(previous)), tuple(self.items(project))
         if (self._segment is not None and old and old == new and len(old) == self.rowCount()
                 and self.columns_for(project) == self.table_columns):
-            # The cells read the fitting records, the catalogue and the segment's bore only:
-            # with the same records, just the catalogue K can change (a new bore).
+            # The cells read the fitting records, the catalogue, the segment's bore and the
+            # bore before it in flow order only: with the same records, just the catalogue K
+            # and the grey upstream bore can change (a new bore here or upstream).
             self._project = project
-            if (previous.segments[self._segment].internal_diameter_m
-                    != project.segments[self._segment].internal_diameter_m):
-                column = self.column_index("catalogue_k")
+            upstream_changed = previous_bore_m(previous, self._segment) != previous_bore_m(project, self._segment)
+            changed_columns = ["other_diameter_m"] if upstream_changed else []
+            if upstream_changed or (previous.segments[self._segment].internal_diameter_m
+                                    != project.segments[self._segment].internal_diameter_m):
+                changed_columns.insert(0, "catalogue_k")
+            for key in changed_columns:
+                column = self.column_index(key)
                 self.dataChanged.emit(self.index(0, column), self.index(len(new) - 1, column))
             return
         super().refresh()
@@ -120,8 +164,43 @@ class FittingsModel(ProjectTableModel):
         if column.key == "catalogue_k":
             assert self._segment is not None  # a fitting row exists only with a segment shown
             segment = project.segments[self._segment]
+            if self._method(fitting) in _BORE_CHANGE_METHODS:
+                return self._bore_change_k(project, fitting)
             return choices.catalogue_k(fitting.fitting_id, segment.internal_diameter_m)
         return getattr(fitting, column.key)
+
+    @staticmethod
+    def _method(fitting: Fitting) -> str | None:
+        entry = fittings.fitting_catalogue().get(fitting.fitting_id)
+        return None if entry is None else entry.method
+
+    def _bore_change_k(self, project: Project, fitting: Fitting) -> float | None:
+        """K of one reducer or expander from the engine, referred to this segment's velocity."""
+        assert self._segment is not None
+        one = replace(fitting, count=1, k_override=None)
+        try:
+            return fittings.segment_k_total((one,), project.segments[self._segment].internal_diameter_m,
+                                            upstream_diameter_m=previous_bore_m(project, self._segment))
+        except ModelError:
+            return None
+
+    def derived_hint(self, project: Project, row: int, column: Column) -> str | None:
+        fitting = self.items(project)[row]
+        if self._method(fitting) not in _BORE_CHANGE_METHODS or self._segment is None:
+            return None
+        if column.key == "other_diameter_m":
+            bore = previous_bore_m(project, self._segment)
+            return None if bore is None else display_text(bore, "diameter", self.unit_system)
+        if column.key == "angle_deg":
+            entry = fittings.fitting_catalogue()[fitting.fitting_id]
+            return None if entry.angle_deg is None else f"{plain_number(entry.angle_deg)} (sudden)"
+        return None
+
+    def headerData(self, section: int, orientation: Qt.Orientation, role: int = Qt.ItemDataRole.DisplayRole) -> Any:
+        if (orientation == Qt.Orientation.Horizontal and role == Qt.ItemDataRole.DisplayRole
+                and 0 <= section < len(self.table_columns) and self.table_columns[section].key == "angle_deg"):
+            return _ANGLE_HEADER
+        return super().headerData(section, orientation, role)
 
     def display(self, project: Project, row: int, column: Column) -> str:
         if column.key == "catalogue_k":
@@ -138,6 +217,8 @@ class FittingsModel(ProjectTableModel):
         if column.key in ("fitting_id", "catalogue_k"):
             name = self.display(project, row, self.table_columns[0])
             return f"{name}: {choices.fitting_source(self.items(project)[row].fitting_id)}"
+        if column.key in ("angle_deg", "other_diameter_m"):
+            return column.tooltip
         return super().cell_tooltip(project, row, column)
 
     def with_value(self, project: Project, row: int, column: Column, value: Any) -> Project:

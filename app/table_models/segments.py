@@ -32,6 +32,10 @@ from hydraulics.validation import MIN_SEGMENTS
 _COMMON_COLUMNS: tuple[Column, ...] = (
     Column("name", "Name", kind="text"),
     Column("side", "Side", kind="choice", tooltip="Suction side (before the pump) or delivery side."),
+    Column("carries", "Carries", kind="choice",
+           tooltip="Each pump: part of each pump's own suction or discharge branch, carrying one running "
+                   "pump's flow (idle pumps' branches carry nothing). Station flow: common pipework "
+                   "(suction header, manifold, rising main) carrying the station flow."),
     Column("length", "Length", quantity="length", limit="segment.length_m"),
     Column("nominal_size", "Nominal size", kind="choice",
            tooltip="Sets the internal diameter from the series. Step with Ctrl+Up / Ctrl+Down."),
@@ -65,7 +69,7 @@ _VELOCITY_COLUMN = Column("velocity", "Velocity at design flow", kind="readonly"
                           tooltip="Mean velocity in one pipe at the design flow (calculated).")
 
 _FIELDS = {
-    "name": "name", "side": "side", "material": "material_id", "pipe_series": "pipe_series",
+    "name": "name", "side": "side", "carries": "carries", "material": "material_id", "pipe_series": "pipe_series",
     "nominal_size": "nominal_size", "internal_diameter": "internal_diameter_m", "length": "length_m",
     "start_elevation": "start_elevation_m", "end_elevation": "end_elevation_m",
     "parallel_pipes": "parallel_pipes", "roughness_new": "roughness_new_m", "roughness_aged": "roughness_aged_m",
@@ -124,7 +128,7 @@ class SegmentsModel(ProjectTableModel):
             return Segment(name=f"Segment {number}", side="delivery", material_id="ductile_iron_cml",
                            length_m=100.0, internal_diameter_m=0.2)
         return replace(template, name=f"Segment {number}", fittings=(), start_elevation_m=None,
-                       end_elevation_m=None)
+                       end_elevation_m=None, carries="station")
 
     # ------------------------------------------------------------------ cells
     def value(self, project: Project, row: int, column: Column) -> Any:
@@ -147,6 +151,8 @@ class SegmentsModel(ProjectTableModel):
         segment = project.segments[row]
         if column.key == "side":
             return choices.SIDE_CHOICES
+        if column.key == "carries":
+            return choices.CARRIES_CHOICES
         if column.key == "material":
             return choices.material_choices()
         if column.key == "pipe_series":
