@@ -162,7 +162,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
     lowest = _segments_at_extreme(system, found, highest=False) if found else None
     highest = _segments_at_extreme(system, found, highest=True) if found else None
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
-    findings += checks.pump_findings(project, fitted, points, system.static_head_m["max"])
+    findings += checks.pump_findings(project, fitted, points, system.lift_head(system.static_head_m["max"]))
     findings += variable_speed_findings(speed, fitted)
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True)
 
