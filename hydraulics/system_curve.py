@@ -65,7 +65,7 @@ from hydraulics.model import (
     StaticCase,
     TankDelivery,
 )
-from hydraulics.results import FloatArray, FluidProperties, SegmentResult, SystemCurve
+from hydraulics.results import FloatArray, FluidProperties, SegmentResult, SystemCurve, control_label
 
 G = STANDARD_GRAVITY_M_S2
 
@@ -421,6 +421,10 @@ class SystemHydraulics:
         governs = np.take_along_axis(excess, best[..., None], axis=-1)[..., 0] > 0.0
         chainage: FloatArray = np.where(governs, self.crest.chainage_m[best], np.nan)
         return chainage
+
+    def control_at_zero_flow(self, static_m: float) -> str:
+        """The governing control with no flow: ``"delivery"`` or ``"crest at 1900 m"``."""
+        return control_label(float(self.control_chainage(0.0, static_m, False)))
 
     def lift_head(self, static_m: float) -> float:
         """Head at zero flow for a static head (m): the static head to the governing control.
