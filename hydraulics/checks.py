@@ -234,6 +234,7 @@ def bore_change_findings(project: Project) -> list[Finding]:
         for junction in unfitted_bore_changes(rows):
             up, down = segments[junction.upstream_index], segments[junction.downstream_index]
             kind = junction.needed_kind
+            a_kind = f"an {kind}" if kind == "expander" else f"a {kind}"
             out.append(finding(
                 "warning", "bore_change_without_transition",
                 "The bore changes from {up} (segment '" + up.name + "') to {down} with no " + kind
@@ -241,7 +242,7 @@ def bore_change_findings(project: Project) -> list[Finding]:
                 {"up": (junction.upstream_diameter_m, "diameter"),
                  "down": (junction.downstream_diameter_m, "diameter")},
                 f"segment '{down.name}' ({down.side})",
-                f"Add a {kind} (sudden or conical) to this segment's fittings.",
+                f"Add {a_kind} (sudden or conical) to this segment's fittings.",
                 ("segment", junction.downstream_index)))
     return out
 
