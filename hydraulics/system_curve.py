@@ -567,9 +567,8 @@ def _crest_terms(system: SystemHydraulics, project: Project, density_kg_m3: floa
         minor_share = np.zeros(system.n_segments)
         length_share[main] = 1.0 - friction_upstream[k]
         minor_share[main] = 1.0 - minor_upstream[k]
-        in_main = np.zeros(system.n_segments, dtype=bool)
-        in_main[main] = True
-        beyond.append(system._constants_for(in_main, length_share, minor_share))
+        past_summit = (length_share > 0.0) | (minor_share > 0.0)  # segments wholly upstream add nothing
+        beyond.append(system._constants_for(past_summit, length_share, minor_share))
     elevation = np.array([p.elevation_m for _, p in points], dtype=np.float64)
     return CrestTerms(profile_index=np.array([i for i, _ in points], dtype=np.int64), chainage_m=chainage,
                       elevation_m=elevation,
