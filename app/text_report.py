@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from hydraulics.cautions import CAUTIONS_TEXT
@@ -42,6 +44,41 @@ def _fluid_description(fluid: FluidProperties, system: str) -> str:
     shown = (f"at {fixed_decimals(to_display(fluid.temperature_c, 'temperature', system), 1)} "
              f"{unit_label('temperature', system)}")
     return fluid.description.replace(si, shown, 1)
+
+
+def _profile_section(solution: Solution, system: str) -> list[str]:
+    """The main's profile: the governing control per scenario, its lowest and highest pressure, the ratings."""
+    profile = solution.profile
+    if profile is None:
+        return []
+
+    def d(value: float, quantity: str, decimals: int = 2) -> str:
+        return MISSING if not math.isfinite(value) else fixed_decimals(to_display(value, quantity, system), decimals)
+
+    ln, hd, pr = unit_label("length", system), unit_label("head", system), unit_label("pressure", system)
+
+    def control(chainage_m: float) -> str:
+        return "delivery" if math.isnan(chainage_m) else f"crest at {d(chainage_m, 'length', 0)} {ln}"
+
+    x = profile.chainage_m
+    vented = ", ".join(d(v, "length", 0) for v in profile.air_valve_chainage_m.tolist()) or "none"
+    out = ["", f"Profile of the main (chainage {d(float(x[0]), 'length', 0)}–{d(float(x[-1]), 'length', 0)} {ln}; "
+               f"air valves at: {vented}{'' if vented == 'none' else ' ' + ln}):"]
+    rows = []
+    for line in profile.scenarios + profile.at_rest:
+        low, high = int(np.argmin(line.pressure_head_m)), int(np.argmax(line.pressure_head_m))
+        rows.append([line.label, control(line.control_chainage_m),
+                     d(float(line.pressure_head_m[low]), "head"), d(float(x[low]), "length", 0),
+                     d(float(line.pressure_head_m[high]), "head"), d(float(x[high]), "length", 0)])
+    out += ["  " + row for row in _table(
+        ["scenario", "governing control", f"lowest {hd}", f"at {ln}", f"highest {hd}", f"at {ln}"], rows)]
+    main = [s for s in solution.segments if s.side == "delivery" and s.carries == "station"]
+    ratings = profile.segment_rating_pa
+    if ratings is not None and len(main) == len(ratings):
+        parts = [f"'{seg.name}' " + (f"{d(float(r), 'pressure', 0)} {pr}" if math.isfinite(float(r)) else "not known")
+                 for seg, r in zip(main, ratings.tolist(), strict=True)]
+        out.append("  pipe rating (gauge, from the pipe series): " + "; ".join(parts))
+    return out
 
 
 def summary_text(solution: Solution, system: str = "SI") -> str:
@@ -144,6 +181,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
                        f"{unit_label('specific_energy', system)}")
         for note in e.notes or ():
             out.append(f"  note: {note}")
+    out += _profile_section(solution, system)
     out += ["", f"Checks ({len(solution.findings)}):"]
     if not solution.findings:
         out.append("  none")

@@ -26,6 +26,12 @@ Stable codes (never renamed; scripts and tests rely on them):
 ``unstable_parallel``     head curve rises then falls: unstable in parallel
 ``large_trim``            impeller trim beyond the affinity-law range
 ``high_point_above_delivery``  the main rises above the lowest delivery level
+``bore_change_without_transition``  consecutive segments change bore with no reducer or expander
+``main_below_atmospheric``  the grade line falls below the main: sub-atmospheric pressure
+``main_column_separation``  the absolute pressure in the main falls to the vapour pressure
+``operating_pressure_above_rating``  the highest operating pressure on a segment exceeds its rating
+``rest_pressure_above_rating``  the pressure at rest on a segment exceeds its rating
+``profile_length_mismatch``  the profile's chainages do not match the length of the main
 ========================  =========================================================
 
 Speed-control codes are raised by :func:`hydraulics.variable_speed.variable_speed_findings`:
@@ -40,15 +46,33 @@ Speed-control codes are raised by :func:`hydraulics.variable_speed.variable_spee
 
 from __future__ import annotations
 
+import math
 from collections.abc import Iterable, Sequence
 from typing import TYPE_CHECKING
 
+import numpy as np
+
+from hydraulics import fittings
+from hydraulics.bore_change import PathSegment, TransitionRow, unfitted_bore_changes
+from hydraulics.constants import STANDARD_GRAVITY_M_S2
+from hydraulics.main_profile import ProfileResult, low_pressures, profile_coverage, segment_pressure_peaks
 from hydraulics.model import Criteria, ModelError, Project
 from hydraulics.number_format import fixed_decimals, percent_number
-from hydraulics.results import SEVERITY_ORDER, Finding, FindingTarget, OperatingPoint, SegmentResult, finding
+from hydraulics.profile_solution import pipe_profile
+from hydraulics.results import (
+    SEVERITY_ORDER,
+    Finding,
+    FindingTarget,
+    OperatingPoint,
+    SegmentResult,
+    control_label,
+    finding,
+)
+from hydraulics.system_curve import flow_paths, main_segments
 
 if TYPE_CHECKING:  # imported by the solve only where a pump is fitted
     from hydraulics.pump_fit import FittedPump
+    from hydraulics.system_curve import SystemHydraulics
 
 
 def _scenario_label(point: OperatingPoint) -> str:
@@ -100,15 +124,21 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
     return out
 
 
-def profile_findings(project: Project, static_head_min_m: float) -> list[Finding]:
+def profile_findings(project: Project, static_head_min_m: float, system: SystemHydraulics | None = None,
+                     points: Sequence[OperatingPoint] = ()) -> list[Finding]:
     """A delivery main whose profile rises above the lowest delivery level.
 
     Hydrostatics: beyond such a crest the main can run partly full or under sub-atmospheric
     pressure (air release, possible column separation), and at low flow the static head to
-    the crest, not to the delivery level, governs.  Elevations come from the segments'
-    optional start and end elevations.
+    the crest, not to the delivery level, governs where the summit is vented.  With a
+    profile the crest is its highest point, and the message says whether it has an air valve
+    and whether it governs the system head (at zero flow with the delivery lowest, and at
+    how many of ``points``; ``system`` gives the control).  Without a profile the elevations
+    come from the segments' optional start and end elevations.
     """
     lowest_delivery = static_head_min_m + project.site.suction_level_high_m
+    if project.profile:
+        return _profile_crest_finding(project, static_head_min_m, lowest_delivery, system, points)
     crest: float | None = None
     crest_index = 0
     for i, seg in enumerate(project.segments):
@@ -130,6 +160,181 @@ def profile_findings(project: Project, static_head_min_m: float) -> list[Finding
         f"segment '{seg.name}' (delivery)",
         "Check the hydraulic grade line over the crest; plan air valves; a surge specialist should "
         "check column separation.", ("segment", crest_index))]
+
+
+def _main_segment_at(project: Project, chainage_m: float) -> int | None:
+    """Project index of the main segment containing ``chainage_m`` (the last one beyond the end)."""
+    main = main_segments(project)
+    if not main:
+        return None
+    ends = np.cumsum([project.segments[i].length_m for i in main])
+    j = int(np.searchsorted(ends, chainage_m, side="left"))
+    return main[min(j, len(main) - 1)]
+
+
+def _where_on_main(project: Project, chainage_m: float) -> tuple[str, FindingTarget | None]:
+    index = _main_segment_at(project, chainage_m)
+    if index is None:
+        return "profile of the main", ("site", "profile")
+    return f"segment '{project.segments[index].name}' (delivery)", ("segment", index)
+
+
+def _profile_crest_finding(project: Project, static_head_min_m: float, lowest_delivery: float,
+                           system: SystemHydraulics | None, points: Sequence[OperatingPoint]) -> list[Finding]:
+    """The profile's highest point above the lowest delivery level: vented or not, governing or not."""
+    top = max(range(len(project.profile)), key=lambda i: project.profile[i].elevation_m)
+    point = project.profile[top]
+    if point.elevation_m <= lowest_delivery:
+        return []
+    values = {"crest": (point.elevation_m, "elevation"), "x": (point.chainage_m, "length"),
+              "above": (point.elevation_m - lowest_delivery, "head"), "delivery": (lowest_delivery, "elevation")}
+    where, target = _where_on_main(project, point.chainage_m)
+    head = ("The main's highest point, {crest} at chainage {x}, is {above} above the lowest delivery level "
+            "{delivery}")
+    if not point.air_valve:
+        return [finding(
+            "warning", "high_point_above_delivery",
+            head + " and has no air valve: the grade line may fall below the pipe there (sub-atmospheric "
+            "pressure, air gathering at the summit), and the system head is taken to the delivery.",
+            values, where,
+            "Mark the summit as vented if an air valve is fitted, or plan one; a surge specialist should check "
+            "column separation.", target)]
+    crest_label = control_label(point.chainage_m)
+    at_low_flow = system is not None and system.control_at_zero_flow(static_head_min_m) == crest_label
+    found = [p for p in points if p.found]
+    governing = sum(1 for p in found if p.control == crest_label)
+    if at_low_flow or governing:
+        share = f" and at {governing} of {len(found)} operating points" if found else ""
+        text = (head + " and has an air valve: it governs the system head at low flow" + share
+                + ", where the main beyond it runs partly full.")
+    else:
+        text = head + " and has an air valve; the delivery governs the system head at every flow."
+    return [finding(
+        "warning", "high_point_above_delivery", text, values, where,
+        "Size the air valve for air release and vacuum relief; a surge specialist should check column "
+        "separation beyond the summit.", target)]
+
+
+def bore_change_findings(project: Project) -> list[Finding]:
+    """Consecutive segments in flow order whose bores differ with no reducer or expander between them.
+
+    Along the suction path and the delivery path apart (:func:`hydraulics.system_curve.flow_paths`;
+    the pump's flanges are no junction), bores more than 1 % apart need a reducer (into a
+    smaller bore) or an expander (into a larger one) on the downstream segment whose other
+    bore is the upstream bore (:func:`hydraulics.bore_change.unfitted_bore_changes`); without
+    one the loss of the change (Crane TP-410 contraction or enlargement) is not counted.
+    """
+    catalogue = fittings.fitting_catalogue()
+    segments = project.segments
+    out: list[Finding] = []
+    for path in flow_paths(segments):
+        rows = [PathSegment(i, segments[i].internal_diameter_m, tuple(
+            TransitionRow(catalogue[f.fitting_id].method if f.fitting_id in catalogue else "",
+                          f.other_diameter_m, f.count) for f in segments[i].fittings)) for i in path]
+        for junction in unfitted_bore_changes(rows):
+            up, down = segments[junction.upstream_index], segments[junction.downstream_index]
+            kind = junction.needed_kind
+            a_kind = f"an {kind}" if kind == "expander" else f"a {kind}"
+            out.append(finding(
+                "warning", "bore_change_without_transition",
+                "The bore changes from {up} (segment '" + up.name + "') to {down} with no " + kind
+                + " at the junction: the loss of the change is not counted.",
+                {"up": (junction.upstream_diameter_m, "diameter"),
+                 "down": (junction.downstream_diameter_m, "diameter")},
+                f"segment '{down.name}' ({down.side})",
+                f"Add {a_kind} (sudden or conical) to this segment's fittings.",
+                ("segment", junction.downstream_index)))
+    return out
+
+
+def main_pressure_findings(project: Project, profile: ProfileResult, atmospheric_pressure_pa: float,
+                           vapour_pressure_pa: float, density_kg_m3: float) -> list[Finding]:
+    """Pressures along the main against the atmosphere, the vapour pressure and the pipe rating.
+
+    * Sub-atmospheric gauge pressure in a full pipe (air entry at joints and air valves);
+      critical where the absolute pressure head p + p_atm/(ρg) falls to the vapour pressure
+      head p_v/(ρg): column separation (Wylie & Streeter, *Fluid Transients in Systems*, 1993).
+      Lines with their lowest pressure at the same chainage give one finding naming them all,
+      quoting the lowest pressure among them (:func:`hydraulics.main_profile.low_pressures`).
+    * The highest operating pressure and the pressure at rest of each segment above its
+      rating (PN or allowable operating pressure of its pipe series, gauge;
+      :func:`hydraulics.main_profile.segment_pressure_peaks`).  Steady pressures only: surge
+      comes on top.
+    * A profile whose chainages do not span the main (:func:`hydraulics.main_profile.profile_coverage`).
+    """
+    rho_g = density_kg_m3 * STANDARD_GRAVITY_M_S2
+    out: list[Finding] = []
+    groups: dict[tuple[float, bool], list[tuple[str, float, float]]] = {}
+    for low in low_pressures(profile, atmospheric_pressure_pa / rho_g, vapour_pressure_pa / rho_g):
+        groups.setdefault((low.chainage_m, low.column_separation), []).append(
+            (low.label, low.pressure_head_m, low.pressure_pa))
+    for (chainage, separation), lines in groups.items():
+        lowest = min(lines, key=lambda line: line[1])
+        labels = "; ".join(line[0] for line in lines)
+        where, target = _where_on_main(project, chainage)
+        values = {"x": (chainage, "length"), "p": (lowest[1], "head"), "pa": (lowest[2], "pressure")}
+        if separation:
+            out.append(finding(
+                "critical", "main_column_separation",
+                "At chainage {x} the gauge pressure falls to {p} ({pa}): the absolute pressure reaches the "
+                "vapour pressure and the water column separates (" + labels + ").",
+                values, where, "Lower the grade line's deficit: an air valve at the summit, a larger bore "
+                "upstream or a different route; a surge specialist must check column separation.", target))
+        else:
+            out.append(finding(
+                "warning", "main_below_atmospheric",
+                "At chainage {x} the gauge pressure falls to {p} ({pa}), below atmospheric: air can be "
+                "drawn in and released (" + labels + ").",
+                values, where, "Vent the high point (air valve) or lift the grade line there; check the "
+                "joints for negative pressure.", target))
+    if profile.segment_rating_pa is not None:
+        main = main_segments(project)
+        for peak in segment_pressure_peaks(profile, profile.segment_rating_pa):
+            if math.isnan(peak.rating_pa):
+                continue
+            index = main[peak.segment]
+            where = f"segment '{project.segments[index].name}' (delivery)"
+            if peak.operating_exceeds:
+                out.append(finding(
+                    "critical", "operating_pressure_above_rating",
+                    "The highest operating pressure {p} at chainage {x} (" + peak.operating_label + ") is above "
+                    "the pipe's rating {rating}, before any surge.",
+                    {"p": (peak.operating_pa, "pressure"), "x": (peak.operating_chainage_m, "length"),
+                     "rating": (peak.rating_pa, "pressure")},
+                    where, "Choose a higher pressure class for this segment, or lower the duty head.",
+                    ("segment", index)))
+            if peak.rest_exceeds:
+                out.append(finding(
+                    "critical", "rest_pressure_above_rating",
+                    "The pressure at rest {p} at chainage {x} (" + peak.rest_label + ") is above the pipe's "
+                    "rating {rating}.",
+                    {"p": (peak.rest_pa, "pressure"), "x": (peak.rest_chainage_m, "length"),
+                     "rating": (peak.rating_pa, "pressure")},
+                    where, "Choose a higher pressure class for this segment.", ("segment", index)))
+    return out
+
+
+def profile_coverage_findings(project: Project) -> list[Finding]:
+    """A profile whose first and last chainage do not match the start and the length of the main.
+
+    Within the larger of 1 % of the main's length and 1 m (:func:`hydraulics.main_profile.profile_coverage`);
+    beyond its points the profile holds its end elevations.
+    """
+    profile = pipe_profile(project)
+    if profile is None:
+        return []
+    lengths = [project.segments[i].length_m for i in main_segments(project)]
+    coverage = profile_coverage(profile, lengths)
+    if coverage is None:
+        return []
+    return [finding(
+        "warning", "profile_length_mismatch",
+        "The profile runs from chainage {first} to {last}, but the common delivery pipework is {length} long: "
+        "beyond the profile's points the grade line uses its end elevations.",
+        {"first": (coverage.first_chainage_m, "length"), "last": (coverage.last_chainage_m, "length"),
+         "length": (coverage.main_length_m, "length")},
+        "profile of the main", "Give the profile from chainage 0 to the end of the main, or correct the "
+        "segment lengths.", ("site", "profile"))]
 
 
 def regime_findings(at_design: Iterable[SegmentResult]) -> list[Finding]:

@@ -33,7 +33,7 @@ from hydraulics.duty_point import DEFAULT_EXTENSION, solve_duty_points
 from hydraulics.model import Arrangement, ModelError
 from hydraulics.pump_arrangement import arrangement_performance
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import FloatArray, OperatingPoint
+from hydraulics.results import FloatArray, OperatingPoint, control_label
 from hydraulics.system_curve import SystemHydraulics
 
 __all__ = ["npsh_available", "OperatingPoint", "ScenarioGrid", "scenario_grid", "operating_points",
@@ -141,6 +141,19 @@ def _optional(values: FloatArray, ok: NDArray[np.bool_]) -> list[float | None]:
     return [v if g else None for v, g in zip(values.tolist(), good.tolist(), strict=True)]
 
 
+def _controls(system: SystemHydraulics, q: FloatArray, grid: ScenarioGrid,
+              found: NDArray[np.bool_]) -> list[float | None]:
+    """Chainage of the vented summit that governs each found point (``None``: the delivery governs).
+
+    Only a system with crest terms can have a summit govern (see
+    :meth:`hydraulics.system_curve.SystemHydraulics.control_chainage`).
+    """
+    if getattr(system, "crest", None) is None:
+        return [None] * grid.size
+    chainage = system.control_chainage(q, grid.static_head_m, grid.aged)
+    return [None if not ok or math.isnan(x) else x for x, ok in zip(chainage.tolist(), found.tolist(), strict=True)]
+
+
 def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrangement,
                      npsh_static_head_m: float | None,
                      density_kg_m3: float, speed_ratios: Sequence[float] | None = None,
@@ -207,6 +220,7 @@ def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: 
         margin = npsha - npshr
         margin_ratio = np.where(npshr > 0.0, npsha / npshr, np.nan)
     velocities = np.asarray(system.segment_velocities(q, n), dtype=float).reshape(q.size, -1).tolist()
+    controls = _controls(system, q, grid, found)
 
     cols = {
         "flow_m3_s": _optional(q, found),
@@ -240,6 +254,7 @@ def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: 
             segment_velocities_m_s=tuple(velocities[i]) if found_list[i] else (),
             reason_template=None if template is None else template[0],
             reason_values=() if template is None else template[1],
+            control=control_label(controls[i]), control_chainage_m=controls[i],
             **{key: values[i] for key, values in cols.items()},
         ))
     return tuple(points)

@@ -21,6 +21,7 @@ from numpy.typing import NDArray
 
 from hydraulics.main_profile import ProfileLine, ProfileResult
 from hydraulics.model import Carries, PipeState, Project, StaticCase
+from hydraulics.number_format import plain_number
 
 if TYPE_CHECKING:  # re-exported lazily (see __getattr__): fitting imports the optimiser
     from hydraulics.pump_fit import FitQuality, FittedPump
@@ -30,7 +31,7 @@ __all__ = [
     "FluidProperties", "SystemCurve", "SegmentResult", "Finding", "render_template", "finding",
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
     "SpeedForFlow", "VariableSpeedResult", "ScenarioEnergy", "EnergyResult", "Solution",
-    "ProfileLine", "ProfileResult",
+    "ProfileLine", "ProfileResult", "control_label",
 ]
 
 FloatArray: TypeAlias = NDArray[np.float64]
@@ -65,7 +66,11 @@ class FluidProperties:
 class SystemCurve:
     """One system curve: head required against flow, with its breakdown.
 
-    All arrays have the same length as ``flow_m3_s``.
+    All arrays have the same length as ``flow_m3_s``.  Where a vented summit of the main
+    governs (crest control), ``static_m`` is the static head to that summit and
+    ``friction_m``/``minor_m`` the losses up to it; ``control_chainage_m`` then gives the
+    governing summit's chainage at each flow (NaN where the delivery governs), and is
+    ``None`` when no summit can govern.
     """
 
     static: StaticCase
@@ -75,6 +80,22 @@ class SystemCurve:
     static_m: FloatArray
     friction_m: FloatArray
     minor_m: FloatArray
+    control_chainage_m: FloatArray | None = None
+
+    def control_at(self, index: int) -> str:
+        """``"delivery"`` or ``"crest at 1900 m"`` for the flow ``flow_m3_s[index]``."""
+        return control_label(None if self.control_chainage_m is None else float(self.control_chainage_m[index]))
+
+
+def control_label(chainage_m: float | None) -> str:
+    """The governing control as plain words: ``"delivery"`` or ``"crest at 1900 m"`` (NaN/None: delivery).
+
+    >>> control_label(None), control_label(1900.0)
+    ('delivery', 'crest at 1900 m')
+    """
+    if chainage_m is None or math.isnan(chainage_m):
+        return "delivery"
+    return f"crest at {plain_number(chainage_m)} m"
 
 
 @dataclass(frozen=True)
@@ -257,6 +278,10 @@ class OperatingPoint:
     """``reason`` with ``{name}`` placeholders for its quoted heads (``None``: plain text)."""
     reason_values: tuple[QuotedValue, ...] = ()
     """``(name, value_si, quantity)`` for the placeholders of ``reason_template``."""
+    control: str = "delivery"
+    """The control that governs the system head there: ``"delivery"`` or ``"crest at 1900 m"``."""
+    control_chainage_m: float | None = None
+    """Chainage of the governing vented summit (m); ``None`` where the delivery governs."""
 
     def reason_text(self, unit_system: str = "SI") -> str | None:
         """``reason`` with its quoted values in ``unit_system`` ("SI" or "US")."""
@@ -268,6 +293,7 @@ class OperatingPoint:
         data = asdict(self)
         data["segment_velocities_m_s"] = list(self.segment_velocities_m_s)
         del data["reason_template"], data["reason_values"]  # ``reason`` carries the SI text
+        del data["control"], data["control_chainage_m"]  # listed under the results' ``control_point``
         return data
 
 

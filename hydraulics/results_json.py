@@ -4,13 +4,23 @@ Top-level keys (a contract: later versions add keys, never rename these):
 ``format`` ("pumpsketch-results"), ``version``, ``project``, ``cautions``, ``fluid``,
 ``atmospheric_pressure_pa``, ``static_head_m`` (``min``, ``max``), ``design_flow_m3_s``,
 ``system_curves``, ``segments``, ``findings``, ``pumps``, ``operating_points``,
-``variable_speed``, ``energy``; since the station pipework roles: ``branches``.
+``variable_speed``, ``energy``; since the station pipework roles: ``branches``; since the
+main's profile: ``profile`` and ``control_point``.
 
 ``segments`` lists every segment at the design flow with the duty pumps running (each entry
 also says what it ``carries`` and its ``flow_m3_s``); ``branches`` lists the segments of
 each pump's own branch again, per pump: ``flow_m3_s`` is the flow of one of
 ``pumps_running`` pumps sharing the design flow (empty without pump branches).  Each pump
 curve gives ``head_at_manifold_m``/``head_at_manifold_aged_m`` (``None`` without branches).
+
+``profile`` is ``None`` without a profile, else the chainages, pipe elevations, vented
+chainages and, per scenario (each operating point at the arrangement's speed, then at rest),
+the grade line and the gauge pressure head along the main, with its governing control
+(:meth:`hydraulics.main_profile.ProfileResult.to_json_dict`).  ``control_point`` says what
+governs the system head: ``operating_points`` (one entry per operating point, in their
+order: ``"delivery"`` or ``"crest at 1900 m"``, with ``chainage_m`` ``None`` for the
+delivery) and ``system_curves`` (per curve, ``chainage_m`` at each flow of the curve,
+``None`` where the delivery governs).
 """
 
 from __future__ import annotations
@@ -66,6 +76,19 @@ def _segment_dict(s: SegmentResult) -> dict[str, object]:
             "minor_loss_m": s.minor_loss_m, "carries": s.carries, "flow_m3_s": s.flow_m3_s}
 
 
+def _control_points(solution: Solution) -> dict[str, object]:
+    """What governs the system head at each operating point and along each system curve."""
+    return {
+        "operating_points": [
+            {"static": p.static, "pipe": p.pipe, "pumps_running": p.pumps_running, "speed_ratio": p.speed_ratio,
+             "control": p.control, "chainage_m": p.control_chainage_m} for p in solution.operating_points],
+        "system_curves": [
+            {"static": c.static, "pipe": c.pipe,
+             "chainage_m": [None] * len(c.flow_m3_s) if c.control_chainage_m is None else c.control_chainage_m}
+            for c in solution.curves],
+    }
+
+
 def solution_to_json_dict(solution: Solution) -> dict[str, object]:
     """The results dictionary of one solved project."""
     fluid = solution.fluid
@@ -102,5 +125,7 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
         "energy": _to_dict(solution.energy),
         "branches": [{**_segment_dict(s), "pumps_running": s.pumps_running}
                      for s in solution.segments if s.carries == "pump"],
+        "profile": _to_dict(solution.profile),
+        "control_point": _control_points(solution),
     }
     return {key: _clean(value) for key, value in data.items()}

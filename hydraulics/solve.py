@@ -5,9 +5,9 @@ validates the project, computes the fluid properties and the site's atmospheric
 pressure, prepares the pipework arrays once, evaluates the four system curves over one
 flow grid, the segment table at design flow, and — where the project has a pump — the
 fitted curves, operating points at both static extremes for new and aged pipe and 1..N
-pumps, NPSH and energy (:func:`solve_curves`), then variable speed and the checks
-(:func:`complete_solution`).  The window draws the plot from the first stage before
-the second has run.
+pumps, NPSH and energy, and — where the project has a profile — the grade lines along the
+main (:func:`solve_curves`), then variable speed and the checks (:func:`complete_solution`).
+The window draws the plot from the first stage before the second has run.
 """
 
 from __future__ import annotations
@@ -23,6 +23,7 @@ from hydraulics.atmosphere import standard_atmosphere_pressure
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.fluid import fluid_properties
 from hydraulics.model import Project, PumpModel
+from hydraulics.profile_solution import solved_profile
 from hydraulics.results import (
     FloatArray,
     FluidProperties,
@@ -108,7 +109,8 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     pump, arrangement = project.duty_pump, project.arrangement
     if pump is None or arrangement is None:
         curves = system_curves(system, flow_grid(max_flow, n_flow_points))
-        return CurvesStage(replace(base, curves=curves), system, None, None)
+        profile = solved_profile(project, system, (), fluid.density_kg_m3)
+        return CurvesStage(replace(base, curves=curves, profile=profile), system, None, None)
 
     from hydraulics.energy import annual_energy
     from hydraulics.operating_points import operating_points
@@ -126,6 +128,7 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
         base, curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
         energy=annual_energy(points, project.energy, design_flow), pump_curves=pump_curves,
         npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows, design_pumps),
+        profile=solved_profile(project, system, points, fluid.density_kg_m3),
     )
     return CurvesStage(solution, system, fitted, npsh_static)
 
@@ -140,9 +143,14 @@ def complete_solution(stage: CurvesStage) -> Solution:
     first = stage.solution
     project, system = first.project, stage.system
     at_design = first.segments
-    findings = checks.regime_findings(at_design)
-    findings += checks.profile_findings(project, system.static_head_m["min"])
     arrangement, fitted, points = project.arrangement, stage.fitted, first.operating_points
+    findings = checks.regime_findings(at_design)
+    findings += checks.profile_findings(project, system.static_head_m["min"], system, points)
+    findings += checks.bore_change_findings(project)
+    findings += checks.profile_coverage_findings(project)
+    if first.profile is not None:
+        findings += checks.main_pressure_findings(project, first.profile, first.atmospheric_pressure_pa,
+                                                  first.fluid.vapour_pressure_pa, first.fluid.density_kg_m3)
     if fitted is None or arrangement is None:
         findings += checks.velocity_findings(project, at_design)
         return replace(first, findings=checks.sort_findings(findings), complete=True)
@@ -162,7 +170,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
     lowest = _segments_at_extreme(system, found, highest=False) if found else None
     highest = _segments_at_extreme(system, found, highest=True) if found else None
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
-    findings += checks.pump_findings(project, fitted, points, system.static_head_m["max"])
+    findings += checks.pump_findings(project, fitted, points, system.lift_head(system.static_head_m["max"]))
     findings += variable_speed_findings(speed, fitted)
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True)
 

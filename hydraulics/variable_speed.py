@@ -13,7 +13,10 @@ A pump set can only deliver against a static head H_s when its shut-off head exc
 the shut-off head scales with s², so the lowest speed that still lifts against the maximum
 static head is
 
-    s_lift = √( H_s,max / (S t² H_shut-off) ).
+    s_lift = √( H_s,max / (S t² H_shut-off) ),
+
+H_s,max being the head at zero flow at the maximum static extreme: the static head to the
+delivery, or to a vented summit of the main where one rises higher (crest control).
 
 Because the system curve has a static part, a speed change does not move the duty point
 along a parabola through the origin; the operating points at every speed found are
@@ -146,7 +149,8 @@ def search_speeds(system: SystemHydraulics, fitted: FittedPump, arrangement: Arr
             extrapolated=bool(extrapolated[i]),
         ))
 
-    s_lift = minimum_lift_speed_ratio(fitted.shutoff_head_m, float(system.static_head_m["max"]), stages, trim)
+    lift = float(system.head(0.0, float(system.static_head_m["max"]), False))  # the delivery or a higher vented summit
+    s_lift = minimum_lift_speed_ratio(fitted.shutoff_head_m, lift, stages, trim)
     lift_reason = None if s_lift is not None else "the fitted head curve has no positive shut-off head"
     return SpeedSearch(
         target_flow_m3_s=float(target_flow_m3_s), pumps_running=n, min_speed_ratio=s_lo, max_speed_ratio=s_hi,

@@ -14,6 +14,7 @@ from hydraulics.model import (
     Arrangement,
     Criteria,
     Fitting,
+    ProfilePoint,
     Project,
     PumpModel,
     Segment,
@@ -93,6 +94,25 @@ CRAFTED = {
     "speed_target_unreachable": lambda p: replace(p, site=replace(p.site, design_flow_m3_s=0.045)),
     "speed_below_minimum": lambda p: replace(p, site=replace(p.site, design_flow_m3_s=0.02)),
     "minimum_speed_cannot_lift": lambda p: replace(p, arrangement=replace(p.arrangement, min_speed_ratio=0.6)),
+    # a second main segment of a larger bore with no expander before it
+    "bore_change_without_transition": lambda p: replace(
+        p, segments=p.segments + (Segment("main 2", "delivery", "ductile_iron_cml", 50.0, 0.25),)),
+    # an unvented hump at 45 m: the grade line there is about 42.5 m (2.5 m below the pipe)
+    "main_below_atmospheric": lambda p: replace(p, profile=(
+        ProfilePoint(0.0, 8.0), ProfilePoint(150.0, 45.0), ProfilePoint(300.0, 40.0))),
+    # an unvented hump at 53 m: about −10.5 m gauge, below the vapour pressure head
+    # (atmosphere 10.3 m, vapour 0.17 m of water at 15 °C)
+    "main_column_separation": lambda p: replace(p, profile=(
+        ProfilePoint(0.0, 8.0), ProfilePoint(150.0, 53.0), ProfilePoint(300.0, 40.0))),
+    # a PN 10 pipe (10 bar ≈ 102 m of water) through a valley at −80 m: about 122 m at rest
+    "operating_pressure_above_rating": lambda p: replace(with_segment(
+        p, 1, material_id="pvc_u", pipe_series="pvc_u_pn10", nominal_size="225", internal_diameter_m=0.2078),
+        profile=(ProfilePoint(0.0, 8.0), ProfilePoint(150.0, -80.0), ProfilePoint(300.0, 40.0))),
+    "rest_pressure_above_rating": lambda p: replace(with_segment(
+        p, 1, material_id="pvc_u", pipe_series="pvc_u_pn10", nominal_size="225", internal_diameter_m=0.2078),
+        profile=(ProfilePoint(0.0, 8.0), ProfilePoint(150.0, -80.0), ProfilePoint(300.0, 40.0))),
+    # the profile stops 50 m short of the 300 m main (tolerance 3 m)
+    "profile_length_mismatch": lambda p: replace(p, profile=(ProfilePoint(0.0, 8.0), ProfilePoint(250.0, 40.0))),
 }
 
 

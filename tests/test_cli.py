@@ -15,7 +15,7 @@ SAMPLES = sorted((ROOT / "sample_projects").glob("*.pumpsketch.json"))
 PUMP_FILES = sorted((ROOT / "sample_projects" / "pumps").glob("*.csv"))
 
 ENGINE_KEYS = {"format", "version", "project", "cautions", "fluid", "static_head_m", "design_flow_m3_s",
-               "system_curves", "segments", "findings", "branches"}
+               "system_curves", "segments", "findings", "branches", "profile", "control_point"}
 PUMP_KEYS = {"pumps", "operating_points", "variable_speed", "energy"}
 SEGMENT_KEYS = {"name", "side", "length_m", "internal_diameter_m", "roughness_m", "parallel_pipes",
                 "velocity_m_s", "reynolds", "friction_factor", "friction_loss_m", "minor_k_total", "minor_loss_m",
@@ -56,6 +56,17 @@ def test_json_has_the_contract_keys(solved):
         assert SEGMENT_KEYS | {"pumps_running"} <= set(branch) and branch["carries"] == "pump"
     for finding in solved["findings"]:
         assert set(finding) >= {"severity", "code", "message", "where"}
+    controls = solved["control_point"]
+    assert len(controls["operating_points"]) == len(solved["operating_points"])
+    for point, control in zip(solved["operating_points"], controls["operating_points"], strict=True):
+        assert (control["static"], control["pipe"], control["pumps_running"]) == (
+            point["static"], point["pipe"], point["pumps_running"])
+        assert control["control"] == "delivery" if control["chainage_m"] is None else control["control"].startswith(
+            "crest at ")
+    assert [len(c["chainage_m"]) for c in controls["system_curves"]] == [
+        len(c["flow_m3_s"]) for c in solved["system_curves"]]
+    if solved["profile"] is not None:
+        assert set(solved["profile"]) >= {"chainage_m", "elevation_m", "air_valve_chainage_m", "scenarios", "at_rest"}
 
 
 def test_operating_points_at_both_extremes_for_every_pump_count(solved):
