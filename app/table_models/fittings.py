@@ -25,8 +25,9 @@ from app.table_models import choices
 from app.table_models.base import Column, ProjectTableModel
 from app.table_models.cells import display_text
 from hydraulics import fittings
-from hydraulics.model import Fitting, ModelError, Project, Segment
+from hydraulics.model import Fitting, ModelError, Project
 from hydraulics.number_format import general_number, plain_number
+from hydraulics.system_curve import upstream_diameters
 
 _COLUMNS: tuple[Column, ...] = (
     Column("fitting_id", "Fitting type", kind="choice", tooltip="From the fittings catalogue."),
@@ -49,25 +50,12 @@ _COLUMNS: tuple[Column, ...] = (
 _BORE_CHANGE_METHODS = frozenset({"reducer", "expander"})
 _ANGLE_HEADER = "Cone angle\n[°]"
 
-_FLOW_ORDER: tuple[tuple[str, str], ...] = (
-    ("suction", "station"), ("suction", "pump"), ("delivery", "pump"), ("delivery", "station"))
-"""(side, carries) groups in flow order; each group keeps table order."""
-
-
-def flow_order(segments: Sequence[Segment]) -> list[int]:
-    """Indices of ``segments`` in flow order: station suction, pump suction branch,
-    pump discharge branch, station delivery, each in table order."""
-    return [i for side, carries in _FLOW_ORDER
-            for i, s in enumerate(segments) if s.side == side and s.carries == carries]
-
-
 def previous_bore_m(project: Project, index: int) -> float | None:
-    """The bore of the segment before segment ``index`` in flow order (``None`` for the first)."""
-    order = flow_order(project.segments)
-    if index not in order:
-        return None
-    position = order.index(index)
-    return project.segments[order[position - 1]].internal_diameter_m if position > 0 else None
+    """The bore upstream of segment ``index`` in flow order (``None`` at a path's start, and
+    across the pump), as the engine takes it (:func:`hydraulics.system_curve.upstream_diameters`)."""
+    upstream = upstream_diameters(project.segments)
+    return upstream[index] if 0 <= index < len(upstream) else None
+
 
 DEFAULT_FITTING_ID = "elbow_90_long_radius"
 
