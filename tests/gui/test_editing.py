@@ -17,8 +17,9 @@ from hydraulics.solve import solve
 from hydraulics.units import to_display
 
 EDIT = Qt.ItemDataRole.EditRole
-DISCHARGE = 1  # the hilltop sample's 12 m of NPS 6 steel pump discharge pipework
-RISING_MAIN = 2  # its 2400 m DN 200 rising main
+SUCTION_BRANCH = 1  # the hilltop sample's 2 m DN 200 suction branch of each pump
+MANIFOLD = 4  # its 6 m DN 200 discharge manifold (no reducer or expander on it)
+RISING_MAIN = 5  # its 2400 m DN 200 rising main
 
 
 def _cell(model, row: int, key: str):
@@ -29,9 +30,9 @@ def _cell(model, row: int, key: str):
 def test_editing_a_diameter_redraws_the_system_curves_and_the_checks(window, document):
     plot = window.plot_tabs.head_flow
     flow_before, head_before = plot.curve_data("max", "new")
-    assert not any(f.code == "velocity_high" for f in window.checks_panel.findings)
+    assert ("segment", MANIFOLD) not in [f.target for f in window.checks_panel.findings if f.code == "velocity_high"]
     model = window.pipework.segments_model
-    assert model.setData(_cell(model, DISCHARGE, "internal_diameter"), "80 mm", EDIT)
+    assert model.setData(_cell(model, MANIFOLD, "internal_diameter"), "80 mm", EDIT)
     assert document.recompute_pending  # debounced, not solved inside the edit
     document.recompute_now()
     flow_after, head_after = plot.curve_data("max", "new")
@@ -43,7 +44,7 @@ def test_editing_a_diameter_redraws_the_system_curves_and_the_checks(window, doc
     assert np.all(common > head_before[1:])
     # About 30 L/s in an 80 mm bore: v = 0.030 / (π 0.08² / 4) ≈ 6 m/s, above the 2.5 m/s limit.
     targets = [f.target for f in window.checks_panel.findings if f.code == "velocity_high"]
-    assert ("segment", DISCHARGE) in targets
+    assert ("segment", MANIFOLD) in targets
 
 
 def test_the_debounce_solves_once_after_a_burst(window, document, qtbot):
@@ -201,12 +202,12 @@ def test_copy_then_paste_back_changes_nothing(window, document):
     model = window.pipework.segments_model
     from PySide6.QtCore import QItemSelection, QItemSelectionModel
 
-    selection = QItemSelection(model.index(0, 0), model.index(2, model.columnCount() - 1))
+    selection = QItemSelection(model.index(0, 0), model.index(RISING_MAIN, model.columnCount() - 1))
     view.selectionModel().select(selection, QItemSelectionModel.SelectionFlag.ClearAndSelect)
     assert clipboard.copy_selection(view)
     text = QApplication.clipboard().text()
     lines = text.splitlines()
-    assert len(lines) == 3 and lines[2].split("\t")[0] == "Rising main to Hollin Hill reservoir"
+    assert len(lines) == RISING_MAIN + 1 and lines[-1].split("\t")[0] == "Rising main to Hollin Hill reservoir"
     before = document.project
     view.setCurrentIndex(model.index(0, 0))
     view.selectionModel().select(model.index(0, 0), QItemSelectionModel.SelectionFlag.ClearAndSelect)
@@ -223,10 +224,11 @@ def test_ctrl_c_and_ctrl_v_in_a_table(window, document, qtbot):
     view.setFocus()
     view.setCurrentIndex(_cell(model, 0, "length"))
     qtbot.keyClick(view, Qt.Key.Key_C, Qt.KeyboardModifier.ControlModifier)
-    assert QApplication.clipboard().text() == "9\n"
-    view.setCurrentIndex(_cell(model, 1, "length"))
+    assert QApplication.clipboard().text() == "6\n"  # the sample's 6 m suction header
+    view.setCurrentIndex(_cell(model, SUCTION_BRANCH, "length"))
+    assert document.project.segments[SUCTION_BRANCH].length_m == 2.0
     qtbot.keyClick(view, Qt.Key.Key_V, Qt.KeyboardModifier.ControlModifier)
-    assert document.project.segments[1].length_m == 9.0
+    assert document.project.segments[SUCTION_BRANCH].length_m == 6.0
 
 
 def test_pasting_a_pump_curve_adds_rows_and_fills_a_column(window, document):
@@ -524,10 +526,11 @@ def test_new_pump_and_remove_pump(window, document):
 def test_the_table_context_menu_inserts_moves_and_removes_rows(window, document):
     view = window.pipework.segments_view
     window.pipework.select_segment(0)
+    rows_before = len(document.project.segments)
     actions = {a.text(): a for a in view.row_actions() if a is not None}
     assert not actions["Move segment up"].isEnabled()
     actions["Insert segment below"].trigger()
-    assert len(document.project.segments) == 4 and view.current_row() == 1
+    assert len(document.project.segments) == rows_before + 1 and view.current_row() == 1
     inserted = document.project.segments[1]
     actions = {a.text(): a for a in view.row_actions() if a is not None}
     actions["Move segment down"].trigger()

@@ -87,7 +87,7 @@ def test_save_at_the_prompt_saves_before_going_on(window, dialogs, hilltop):
     _edit_length(window, "2600")
     dialogs.save_answer = "save"
     assert window.new_project()
-    assert load_project(hilltop).segments[2].length_m == 2600.0  # saved to its own file
+    assert load_project(hilltop).segments[-1].length_m == 2600.0  # saved to its own file
     assert window.document.project.name == "New project"
 
 

@@ -20,7 +20,7 @@ from hydraulics.results import Finding
 from hydraulics.units import to_display
 
 EDIT = Qt.ItemDataRole.EditRole
-DISCHARGE = 1
+MANIFOLD = 4  # the hilltop sample's DN 200 discharge manifold (no reducer or expander on it)
 
 
 def _menu_texts(window) -> dict[str, list[str]]:
@@ -77,7 +77,7 @@ def test_undo_and_redo_actions_follow_the_stack(window):
     assert window.named_actions["undo"].text().replace("&", "") == \
         "Undo Edit length of segment 1 'Tank outlet and suction header'"
     window.named_actions["undo"].trigger()
-    assert window.document.project.segments[0].length_m == 9.0
+    assert window.document.project.segments[0].length_m == 6.0  # the sample's 6 m suction header
     window.named_actions["redo"].trigger()
     assert window.document.project.segments[0].length_m == 10.0
 
@@ -200,14 +200,14 @@ def _click_finding(qtbot, window, wanted) -> None:
 
 def test_clicking_a_segment_finding_selects_its_row(window, qtbot):
     model = window.pipework.segments_model
-    assert model.setData(model.index(DISCHARGE, model.column_index("internal_diameter")), "80 mm", EDIT)
+    assert model.setData(model.index(MANIFOLD, model.column_index("internal_diameter")), "80 mm", EDIT)
     window.document.recompute_now()
     window.input_tabs.setCurrentIndex(0)
     window.pipework.select_segment(0)
     window.show()
-    _click_finding(qtbot, window, lambda f: f.target == ("segment", DISCHARGE))
+    _click_finding(qtbot, window, lambda f: f.target == ("segment", MANIFOLD))
     assert window.input_tabs.tabText(window.input_tabs.currentIndex()) == "Pipework"
-    assert window.pipework.current_segment() == DISCHARGE
+    assert window.pipework.current_segment() == MANIFOLD
 
 
 def test_a_pump_finding_opens_the_pumps_panel(make_window, sample_copies, qtbot):
