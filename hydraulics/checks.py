@@ -47,7 +47,7 @@ Speed-control codes are raised by :func:`hydraulics.variable_speed.variable_spee
 from __future__ import annotations
 
 import math
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable, Mapping, Sequence
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -56,7 +56,7 @@ from hydraulics import fittings
 from hydraulics.bore_change import PathSegment, TransitionRow, unfitted_bore_changes
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.main_profile import ProfileResult, low_pressures, profile_coverage, segment_pressure_peaks
-from hydraulics.model import Criteria, ModelError, Project
+from hydraulics.model import Criteria, ModelError, Project, Segment
 from hydraulics.number_format import fixed_decimals, percent_number
 from hydraulics.profile_solution import pipe_profile
 from hydraulics.results import (
@@ -82,6 +82,26 @@ def _scenario_label(point: OperatingPoint) -> str:
     return f"{pumps}{speed}, {point.static} static, {point.pipe} pipe"
 
 
+FLANGE_PIECE_MAX_DIAMETERS = 5.0
+"""A pump-branch segment this many bores long or shorter, next to the pump, is a flange piece."""
+
+
+def pump_flange_pieces(project: Project) -> frozenset[int]:
+    """Segments that are a pump's flange piece: the last of the suction path or the first of
+    the delivery path (:func:`hydraulics.system_curve.flow_paths`), part of the pump's own
+    branch, and no longer than :data:`FLANGE_PIECE_MAX_DIAMETERS` bores (a reducer or
+    expander spool at the pump's suction or discharge flange, not a pipe run).
+    """
+    suction, delivery = flow_paths(project.segments)
+    pieces = set()
+    for path, end in ((suction, -1), (delivery, 0)):
+        if path:
+            seg = project.segments[path[end]]
+            if seg.carries == "pump" and seg.length_m <= FLANGE_PIECE_MAX_DIAMETERS * seg.internal_diameter_m:
+                pieces.add(path[end])
+    return frozenset(pieces)
+
+
 def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
                       at_highest_flow: Sequence[SegmentResult] | None = None,
                       at_lowest_flow: Sequence[SegmentResult] | None = None) -> list[Finding]:
@@ -91,13 +111,18 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
     maximum at the highest expected flow, because a main is sized for both.  For a sewage
     project the delivery-side minimum is raised to the self-cleansing velocity.  A segment
     of each pump's own branch is checked at the flow of one running pump, and the message
-    says that the flow quoted is per pump.
+    says that the flow quoted is per pump.  A pump's flange piece (:func:`pump_flange_pieces`)
+    is not checked: its bore is the pump's flange, set by the pump, and the velocity limits
+    are pipe-sizing criteria for the pipework.
     """
     c = project.criteria
     out: list[Finding] = []
     low_set = at_lowest_flow or at_design
     high_set = at_highest_flow or at_design
+    flange_pieces = pump_flange_pieces(project)
     for seg_low, seg_high in zip(low_set, high_set, strict=True):
+        if seg_low.index in flange_pieces:
+            continue
         if seg_low.side == "suction":
             v_min, v_max = c.suction_velocity_min_m_s, c.suction_velocity_max_m_s
         else:
@@ -223,14 +248,27 @@ def bore_change_findings(project: Project) -> list[Finding]:
     smaller bore) or an expander (into a larger one) on the downstream segment whose other
     bore is the upstream bore (:func:`hydraulics.bore_change.unfitted_bore_changes`); without
     one the loss of the change (Crane TP-410 contraction or enlargement) is not counted.
+    Where a pump's own branch meets the common pipework (a header feeding the suction
+    branches, the manifold receiving the discharge branches) and the common segment lists a
+    tee, the tee is the joint and its K stands for the change of bore: such a junction is not
+    checked.
     """
     catalogue = fittings.fitting_catalogue()
     segments = project.segments
     out: list[Finding] = []
+    runs: list[list[int]] = []
     for path in flow_paths(segments):
+        previous: int | None = None
+        for i in path:
+            if previous is not None and not _joined_by_a_tee(segments[previous], segments[i], catalogue):
+                runs[-1].append(i)
+            else:
+                runs.append([i])
+            previous = i
+    for run in runs:
         rows = [PathSegment(i, segments[i].internal_diameter_m, tuple(
             TransitionRow(catalogue[f.fitting_id].method if f.fitting_id in catalogue else "",
-                          f.other_diameter_m, f.count) for f in segments[i].fittings)) for i in path]
+                          f.other_diameter_m, f.count) for f in segments[i].fittings)) for i in run]
         for junction in unfitted_bore_changes(rows):
             up, down = segments[junction.upstream_index], segments[junction.downstream_index]
             kind = junction.needed_kind
@@ -245,6 +283,15 @@ def bore_change_findings(project: Project) -> list[Finding]:
                 f"Add {a_kind} (sudden or conical) to this segment's fittings.",
                 ("segment", junction.downstream_index)))
     return out
+
+
+def _joined_by_a_tee(upstream: Segment, downstream: Segment, catalogue: Mapping[str, fittings.FittingType]) -> bool:
+    """A pump's branch and the common pipework meeting at a tee listed on the common segment."""
+    if upstream.carries == downstream.carries:
+        return False
+    common = upstream if upstream.carries == "station" else downstream
+    return any(f.count > 0 and f.fitting_id in catalogue and catalogue[f.fitting_id].category == "tee"
+               for f in common.fittings)
 
 
 def main_pressure_findings(project: Project, profile: ProfileResult, atmospheric_pressure_pa: float,

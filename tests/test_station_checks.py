@@ -1,0 +1,42 @@
+"""Checks that know how a station is built: branch-to-manifold tees and pump flange pieces."""
+
+from dataclasses import replace
+from pathlib import Path
+
+from hydraulics.checks import pump_flange_pieces
+from hydraulics.project_io import load_project
+from hydraulics.solve import solve
+
+SAMPLES = Path(__file__).resolve().parent.parent / "sample_projects"
+
+
+def _codes(project, code):
+    return [f for f in solve(project).findings if f.code == code]
+
+
+def test_a_branch_meeting_the_manifold_through_its_tee_is_no_unfitted_bore_change():
+    # The booster sample: the 154 mm discharge branch joins the 207 mm manifold at a tee
+    # (segment bores read from sample_projects/hilltop_booster.pumpsketch.json).
+    project = load_project(SAMPLES / "hilltop_booster.pumpsketch.json")
+    assert _codes(project, "bore_change_without_transition") == []
+    # The same change inside the common pipework, manifold into a smaller main, is flagged.
+    main = max(range(len(project.segments)), key=lambda i: project.segments[i].length_m)
+    narrowed = replace(project.segments[main], internal_diameter_m=0.15, pipe_series=None, nominal_size=None,
+                       fittings=tuple(f for f in project.segments[main].fittings
+                                      if not f.fitting_id.startswith(("reducer", "expander"))))
+    flagged = _codes(replace(project, segments=project.segments[:main] + (narrowed,)
+                             + project.segments[main + 1:]), "bore_change_without_transition")
+    assert [f.target for f in flagged] == [("segment", main)]
+
+
+def test_a_pump_flange_piece_is_not_held_to_the_pipe_velocity_limits():
+    project = load_project(SAMPLES / "hilltop_booster.pumpsketch.json")
+    (piece,) = [i for i in pump_flange_pieces(project) if project.segments[i].side == "suction"]
+    flagged = [f.target for f in _codes(project, "velocity_high")]
+    assert ("segment", piece) not in flagged
+    # Made a 2 m pipe run at the same bore, it is pipework again and its velocity (above the
+    # 1.5 m/s suction limit, common practice) is flagged.
+    long_run = replace(project.segments[piece], length_m=2.0)
+    longer = replace(project, segments=project.segments[:piece] + (long_run,) + project.segments[piece + 1:])
+    assert piece not in pump_flange_pieces(longer)
+    assert ("segment", piece) in [f.target for f in _codes(longer, "velocity_high")]
