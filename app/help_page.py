@@ -82,6 +82,36 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
             "commercial steel at the fitting's size.",
             "Crane Co., Technical Paper No. 410, <i>Flow of Fluids through Valves, Fittings and Pipe</i>; "
             "constant K values as cited per entry in the fittings catalogue."),
+        MethodEntry(
+            "Reducers and expanders", "Fittings",
+            "Contraction: K<sub>1</sub> = 0.8 sin(θ/2)(1 − β²) for θ ≤ 45°, 0.5 (1 − β²) √sin(θ/2) above; "
+            "enlargement: K<sub>1</sub> = 2.6 sin(θ/2)(1 − β²)² for θ ≤ 45°, (1 − β²)² above; "
+            "β = d<sub>small</sub>/d<sub>large</sub>, K<sub>1</sub> on the small bore, converted to the "
+            "segment's velocity by K = K<sub>1</sub> (D/d<sub>small</sub>)⁴",
+            "A change of bore at the inlet of the segment that lists it, sudden (θ = 180°) or conical; "
+            "the upstream bore is the row's own or the previous segment's in flow order.",
+            "Crane Co., Technical Paper No. 410, <i>Flow of Fluids through Valves, Fittings and Pipe</i>, "
+            "formulas for sudden and gradual contraction and enlargement."),
+        MethodEntry(
+            "Pump branches and common pipework", "Pipe friction",
+            "H<sub>system</sub>(Q, N) = H<sub>static</sub> + L<sub>station</sub>(Q) + "
+            "L<sub>branch</sub>(Q/N)",
+            "Each pump's own suction and discharge branch carries one running pump's flow; the header, "
+            "manifold and main carry the station flow. The head–flow plot shows the common system curve "
+            "and the pump curves as they act at the manifold, net of their branch losses.",
+            "Continuity and the energy equation for pipes in parallel and series, e.g. Karassik et al., "
+            "<i>Pump Handbook</i> (McGraw-Hill), chapter on pump systems."),
+        MethodEntry(
+            "Hydraulic grade line and vented summits", "Pipe friction",
+            "H(x) = H<sub>delivery</sub> + losses from x to the end; where a summit with an air valve "
+            "would fall above the grade line it governs: H(x) = z<sub>summit</sub> + losses from x to it, "
+            "and the main beyond runs partly full; pressure head p = H − z",
+            "The grade line along the main at every operating point and at rest, the governing high "
+            "point, sub-atmospheric pressure (air entry, column separation where the absolute pressure "
+            "reaches the vapour pressure) and pressures above the pipe's rating, each with its chainage.",
+            "Energy equation with head loss, e.g. Chadwick, Morfett &amp; Borthwick, <i>Hydraulics in Civil "
+            "and Environmental Engineering</i>; air valves at high points: AWWA M51, <i>Air Valves</i>; "
+            "column separation: Wylie &amp; Streeter, <i>Fluid Transients in Systems</i> (1993)."),
         # ------------------------------------------------------------ properties
         MethodEntry(
             "IAPWS-IF97", "Water and site",
@@ -135,7 +165,7 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
         MethodEntry(
             "NPSH available", "Pumps",
             "NPSH<sub>a</sub> = (p<sub>atm</sub> − p<sub>v</sub>)/(ρg) + (lowest suction level − pump "
-            "datum) − suction losses(Q)",
+            "datum) − suction losses (common suction at Q, the pump's own suction branch at Q/N)",
             "Net positive suction head available at each flow, new and aged pipe, at the lowest suction "
             "level (the worst case).",
             "Energy equation from the suction surface to the pump; definition of NPSH in ISO 9906:2012; "
