@@ -227,14 +227,16 @@ def test_water_from_a_user_fluid_keeps_the_temperature_within_range(project):
 
 
 # ---------------------------------------------------------------------- profile of the main
-RIDGE = (ProfilePoint(0.0, 110.0), ProfilePoint(1200.0, 150.0, air_valve=True), ProfilePoint(2412.0, 176.0))
-"""An invented profile over the hilltop sample's main (demo data)."""
+RIDGE = (ProfilePoint(0.0, 110.0), ProfilePoint(1200.0, 150.0, air_valve=True), ProfilePoint(2406.0, 176.0))
+"""An invented profile over the hilltop sample's 2406 m main (demo data)."""
 
 
 def test_with_profile_replaces_the_points_and_validates(project):
+    sample_profile = project.profile
+    assert len(sample_profile) == 10 and sample_profile[5] == ProfilePoint(1150.0, 142.5, True)  # the sample file
     edited = with_profile(project, list(RIDGE))
     assert edited.profile == RIDGE
-    assert project.profile == ()  # the sample has no profile; the original is untouched
+    assert project.profile is sample_profile  # the original is untouched
     validate_project(edited)
 
 
@@ -255,12 +257,18 @@ def test_a_non_increasing_chainage_is_refused_by_validation(project):
 
 
 def test_main_length_and_starting_profile_follow_the_station_delivery_segments(project):
-    # the hilltop sample: discharge pipework 12 m + rising main 2400 m, both station delivery segments
-    assert main_length_m(project) == pytest.approx(2412.0, abs=1e-9)
+    # the hilltop sample file: discharge manifold 6 m + rising main 2400 m are the station delivery segments;
+    # each pump's own 5 m discharge branch (carries "pump") is not part of the main
+    assert main_length_m(project) == pytest.approx(6.0 + 2400.0, abs=1e-9)
     first, last = starting_profile(project)
-    assert first == ProfilePoint(0.0, project.site.pump_datum_m)  # first main segment has no start elevation
-    assert last == ProfilePoint(2412.0, 176.0)  # the rising main's end elevation
-    branch = replace(project, segments=tuple(replace(s, carries="pump") if s.name.startswith("Pump discharge")
+    assert first == ProfilePoint(0.0, 111.0)  # the manifold's start elevation (file)
+    assert last == ProfilePoint(2406.0, 176.0)  # the rising main's end elevation (file)
+    no_levels = replace(project, segments=tuple(replace(s, start_elevation_m=None, end_elevation_m=None)
+                                                for s in project.segments))
+    first, last = starting_profile(no_levels)
+    assert first == ProfilePoint(0.0, 110.6)  # without segment elevations: the pump datum (file)
+    assert last == ProfilePoint(2406.0, 180.0)  # and the delivery tank's high level (file)
+    branch = replace(project, segments=tuple(replace(s, carries="pump") if s.name == "Discharge manifold"
                                              else s for s in project.segments))
     assert main_length_m(branch) == pytest.approx(2400.0, abs=1e-9)  # a pump branch is not part of the main
 
@@ -268,6 +276,7 @@ def test_main_length_and_starting_profile_follow_the_station_delivery_segments(p
 def test_new_profile_points_lie_between_their_neighbours(project):
     ridged = with_profile(project, RIDGE)
     assert new_profile_point(ridged, 1) == ProfilePoint(600.0, 130.0)  # midway, no air valve
-    assert new_profile_point(ridged, 3) == ProfilePoint(2512.0, 176.0)  # 100 m past the last point
+    assert new_profile_point(ridged, 3) == ProfilePoint(2506.0, 176.0)  # 100 m past the last point: 2406 + 100
     assert new_profile_point(ridged, 0) == ProfilePoint(0.0, 110.0)  # half of chainage 0
-    assert new_profile_point(project, 0) == starting_profile(project)[0]
+    empty = with_profile(project, ())  # the sample has a profile; an empty one starts from the main's start
+    assert new_profile_point(empty, 0) == starting_profile(empty)[0] == ProfilePoint(0.0, 111.0)

@@ -20,8 +20,10 @@ EDIT = Qt.ItemDataRole.EditRole
 M_PER_FT = 0.3048  # exact (NIST SP 811, Appendix B)
 MM_PER_INCH = 25.4  # exact (NIST SP 811, Appendix B)
 
-DISCHARGE = 1  # the hilltop sample's "Pump discharge pipework" (delivery, station flow)
-RISING_MAIN = 2  # the hilltop sample's 2400 m rising main
+MANIFOLD = 4  # the hilltop sample's 6 m DN 200 "Discharge manifold" (delivery, station flow)
+RISING_MAIN = 5  # the hilltop sample's 2400 m DN 200 rising main
+SAMPLE_CARRIES = ["station", "pump", "pump", "pump", "station", "station"]  # its six segments, from the file
+MAIN_LENGTH_M = 6.0 + 2400.0  # its station delivery segments, manifold + rising main (file): 2406 m
 
 
 @pytest.fixture
@@ -39,11 +41,13 @@ def _cell(model, row: int, key: str):
 def test_a_carries_edit_is_one_undo_step(window, document):
     model = window.pipework.segments_model
     before = document.project
-    assert model.data(_cell(model, DISCHARGE, "carries"), DISPLAY) == "Station flow"
-    assert model.setData(_cell(model, DISCHARGE, "carries"), "Each pump", EDIT)
-    assert document.project.segments[DISCHARGE].carries == "pump"
-    assert model.data(_cell(model, DISCHARGE, "carries"), DISPLAY) == "Each pump"
-    assert [s.carries for i, s in enumerate(document.project.segments) if i != DISCHARGE] == ["station", "station"]
+    assert [s.carries for s in before.segments] == SAMPLE_CARRIES
+    assert model.data(_cell(model, MANIFOLD, "carries"), DISPLAY) == "Station flow"
+    assert model.setData(_cell(model, MANIFOLD, "carries"), "Each pump", EDIT)
+    assert document.project.segments[MANIFOLD].carries == "pump"
+    assert model.data(_cell(model, MANIFOLD, "carries"), DISPLAY) == "Each pump"
+    assert [s.carries for i, s in enumerate(document.project.segments) if i != MANIFOLD] == \
+        [c for i, c in enumerate(SAMPLE_CARRIES) if i != MANIFOLD]
     document.undo_stack.undo()
     assert document.project is before
 
@@ -87,8 +91,8 @@ def test_cone_angle_and_upstream_bore_are_typed_cleared_and_checked(window, docu
     model = window.pipework.fittings_model
     assert model.data(_cell(model, 0, "angle_deg"), DISPLAY) == "30"
     assert model.headerData(model.column_index("angle_deg"), Qt.Orientation.Horizontal, DISPLAY) == "Cone angle\n[°]"
-    # blank upstream bore: the previous segment's bore in flow order, shown in grey
-    previous = document.project.segments[DISCHARGE].internal_diameter_m
+    # blank upstream bore: the previous segment's bore in flow order (the manifold), shown in grey
+    previous = document.project.segments[MANIFOLD].internal_diameter_m
     assert float(model.data(_cell(model, 0, "other_diameter_m"), DISPLAY)) == pytest.approx(previous * 1000.0)
     assert model.setData(_cell(model, 0, "other_diameter_m"), "250 mm", EDIT)
     assert document.project.segments[RISING_MAIN].fittings[0].other_diameter_m == pytest.approx(0.25)
@@ -121,17 +125,18 @@ def profile_view(window):
 
 def test_a_pasted_profile_block_is_one_undo_step(window, document, profile_view):
     model = window.pipework.profile_model
+    assert len(document.project.profile) == 10  # the sample's own profile (file), cleared to paste over
+    assert document.apply(with_profile(document.project, ()), "clear the profile")
     before = document.project
-    assert before.profile == ()
+    assert model.rowCount() == 0
     steps = document.undo_stack.count()
-    assert clipboard.paste_text(profile_view, "0\t110\r\n1200\t150.5\r\n2412\t176\r\n")
+    assert clipboard.paste_text(profile_view, "0\t110\r\n1200\t150.5\r\n2406\t176\r\n")
     assert document.project.profile == (ProfilePoint(0.0, 110.0), ProfilePoint(1200.0, 150.5),
-                                        ProfilePoint(2412.0, 176.0))
+                                        ProfilePoint(2406.0, 176.0))
     assert document.undo_stack.count() == steps + 1
     assert model.rowCount() == 3
-    # the hilltop sample's main: 12 m + 2400 m of station delivery pipework
     assert window.pipework.profile_box.title() == (
-        "Main profile — 3 points from 0 to 2412 m; main 2412 m long; 0 air valves")
+        "Main profile — 3 points from 0 to 2406 m; main 2406 m long; 0 air valves")
     assert model.data(_cell(model, 1, "air_valve"), DISPLAY) == "No"
     assert model.setData(_cell(model, 1, "air_valve"), "Yes", EDIT)
     assert document.project.profile[1].air_valve is True
@@ -166,14 +171,16 @@ def test_chainage_and_elevation_follow_the_us_display_units(window, document):
 
 
 def test_adding_to_an_empty_profile_starts_it_with_both_ends_of_the_main(window, document):
+    assert document.apply(with_profile(document.project, ()), "clear the profile")  # the sample has one
     window.pipework.show_profile()
     window.pipework._add_profile_point()
     profile = document.project.profile
-    # the hilltop sample: 12 m + 2400 m of station delivery pipework; the main ends at 176 m
-    assert profile == (ProfilePoint(0.0, document.project.site.pump_datum_m), ProfilePoint(2412.0, 176.0))
+    # the hilltop sample: the manifold starts at 111 m and the rising main ends at 176 m (file)
+    assert profile == (ProfilePoint(0.0, 111.0), ProfilePoint(MAIN_LENGTH_M, 176.0))
     window.pipework.profile_view.select_row(0)
     window.pipework._add_profile_point()
-    assert document.project.profile[1] == ProfilePoint(1206.0, (document.project.site.pump_datum_m + 176.0) / 2)
+    # midway: 2406 / 2 = 1203 m, (111 + 176) / 2 = 143.5 m
+    assert document.project.profile[1] == ProfilePoint(1203.0, 143.5)
 
 
 def test_the_profile_model_passes_the_model_tester(qtmodeltester, window, document):

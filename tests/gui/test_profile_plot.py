@@ -182,8 +182,20 @@ def test_head_flow_shows_the_curve_at_the_manifold_and_the_tested_curve(qtbot, u
     assert plot.readout.text() == MANIFOLD_READOUT  # says what "at the manifold" means
     assert len(plot.marked_points()) == len([p for p in solution.operating_points
                                              if p.found and abs(p.speed_ratio - speed) < 1e-9])
-    # the operating points stay the engine's: the crafted curves do not move them
+    # the engine's own solution: the hilltop sample has each pump's own suction and discharge branch
+    # (segments carrying "pump" in the sample file), so the solve fills the curve at the manifold
     plot.show_solution(solution, unit_system)
+    for curve in (c for c in solution.pump_curves if abs(c.speed_ratio - speed) < 1e-9):
+        assert curve.head_at_manifold_m is not None
+        assert np.all(curve.head_at_manifold_m[1:] < curve.head_m[1:])  # the branch losses are taken off
+        np.testing.assert_allclose(plot.pump_curve_data(curve.pumps_running)[1], curve.head_at_manifold_m * f,
+                                   rtol=1e-12)
+        np.testing.assert_allclose(plot.tested_curve_data(curve.pumps_running)[1], curve.head_m * f, rtol=1e-12)
+    assert plot.readout.text() == MANIFOLD_READOUT
+    # without branch losses (no curve at the manifold) only the tested curve is drawn, with the idle readout
+    plain = replace(solution, pump_curves=tuple(replace(c, head_at_manifold_m=None) for c in solution.pump_curves))
+    plot.show_solution(plain, unit_system)
+    np.testing.assert_allclose(plot.pump_curve_data(shown[0].pumps_running)[1], shown[0].head_m * f, rtol=1e-12)
     assert plot.tested_curve_data(shown[0].pumps_running)[0].size == 0
     assert not any(n.startswith(TESTED_CURVE_NAME) for n in plot.legend_names())
     assert plot.readout.text() == IDLE_READOUT
