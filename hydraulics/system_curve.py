@@ -493,6 +493,13 @@ def upstream_diameters(segments: Sequence[Segment]) -> tuple[float | None, ...]:
     return tuple(upstream)
 
 
+def resolve_segments(project: Project) -> None:
+    """Resolve every segment against the catalogues (materials, fittings, bore changes), or raise
+    :class:`ModelError` naming the field: the catalogue side of
+    :func:`hydraulics.validation.validate_project`."""
+    _segment_arrays(project)
+
+
 def _segment_arrays(project: Project) -> tuple[tuple[str, ...], tuple[str, ...], tuple[Carries, ...], FloatArray]:
     """Catalogue look-ups per segment (materials, fittings); done once per solve.
 

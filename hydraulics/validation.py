@@ -355,8 +355,10 @@ def validate_project(project: Project) -> None:
     edits all call this function, so they refuse the same project with the same words
     and the same field path.
 
-    Catalogue references (material, pipe series, fitting type) are checked where the
-    catalogue is read, by :func:`hydraulics.system_curve.prepare_system`.
+    Last, the segments are resolved against the catalogues as the solve resolves them
+    (:func:`hydraulics.system_curve.resolve_segments`): an unknown material or fitting type,
+    a reducer or expander whose bores contradict it or that has no upstream bore is refused
+    here too, naming the fitting's field, so no such project is ever accepted.
     """
     validate_fluid(project.fluid)
     validate_site(project.site)
@@ -377,3 +379,7 @@ def validate_project(project: Project) -> None:
     validate_energy(project.energy)
     check("project.flow_grid_max_factor", project.flow_grid_max_factor, "flow_grid_max_factor")
     validate_profile(project.profile)
+    # Imported here: the catalogue modules below system_curve use this module's limits themselves.
+    from hydraulics.system_curve import resolve_segments
+
+    resolve_segments(project)

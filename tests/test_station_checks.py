@@ -3,6 +3,8 @@
 from dataclasses import replace
 from pathlib import Path
 
+import pytest
+
 from hydraulics.checks import pump_flange_pieces
 from hydraulics.project_io import load_project
 from hydraulics.solve import solve
@@ -40,3 +42,22 @@ def test_a_pump_flange_piece_is_not_held_to_the_pipe_velocity_limits():
     longer = replace(project, segments=project.segments[:piece] + (long_run,) + project.segments[piece + 1:])
     assert piece not in pump_flange_pieces(longer)
     assert ("segment", piece) in [f.target for f in _codes(longer, "velocity_high")]
+
+
+def test_a_reducer_contradicting_its_bores_is_refused_by_the_one_rules_home():
+    from hydraulics.model import Fitting, ModelError
+    from hydraulics.project_io import ProjectFileError, project_from_dict, project_to_dict
+    from hydraulics.validation import validate_project
+
+    project = load_project(SAMPLES / "hilltop_booster.pumpsketch.json")
+    branch = next(i for i, s in enumerate(project.segments) if s.side == "delivery" and s.carries == "pump")
+    # An "expander" into this branch from a bore larger than the branch's own is a contraction.
+    wrong = replace(project.segments[branch], fittings=(
+        Fitting("expander_sudden", other_diameter_m=project.segments[branch].internal_diameter_m * 1.5),))
+    bad = replace(project, segments=project.segments[:branch] + (wrong,) + project.segments[branch + 1:])
+    with pytest.raises(ModelError) as caught:
+        validate_project(bad)
+    assert caught.value.field_path.startswith(f"segments[{branch}].fittings[0]")
+    with pytest.raises(ProjectFileError) as from_file:
+        project_from_dict(project_to_dict(bad))
+    assert from_file.value.field_path == caught.value.field_path

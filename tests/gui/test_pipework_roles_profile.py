@@ -9,7 +9,7 @@ from __future__ import annotations
 from dataclasses import replace
 
 import pytest
-from PySide6.QtCore import Qt
+from PySide6.QtCore import QItemSelectionModel, Qt
 
 from app import clipboard
 from hydraulics.model import Fitting, ProfilePoint
@@ -55,7 +55,10 @@ def test_a_carries_edit_is_one_undo_step(window, document):
 def test_carries_pastes_like_the_side_column_and_refuses_other_words(window, document, refusals):
     view = window.pipework.segments_view
     model = window.pipework.segments_model
-    view.setCurrentIndex(_cell(model, 0, "carries"))
+    # the paste starts at the selected cell: select exactly the Carries cell of the first row
+    view.selectionModel().setCurrentIndex(_cell(model, 0, "carries"),
+                                          QItemSelectionModel.SelectionFlag.ClearAndSelect)
+    assert [i.column() for i in view.selectionModel().selectedIndexes()] == [model.column_index("carries")]
     assert clipboard.paste_text(view, "each pump\nStation flow\n")
     assert [s.carries for s in document.project.segments[:2]] == ["pump", "station"]
     before = document.project
@@ -98,9 +101,10 @@ def test_cone_angle_and_upstream_bore_are_typed_cleared_and_checked(window, docu
     assert document.project.segments[RISING_MAIN].fittings[0].other_diameter_m == pytest.approx(0.25)
     assert model.setData(_cell(model, 0, "other_diameter_m"), "", EDIT)
     assert document.project.segments[RISING_MAIN].fittings[0].other_diameter_m is None
-    assert model.setData(_cell(model, 0, "angle_deg"), "", EDIT)
-    assert document.project.segments[RISING_MAIN].fittings[0].angle_deg is None
+    # a conical reducer needs its cone angle: clearing it is refused, naming the field
     before = document.project
+    assert not model.setData(_cell(model, 0, "angle_deg"), "", EDIT)
+    assert document.project is before and "angle_deg" in refusals[-1]
     assert not model.setData(_cell(model, 0, "angle_deg"), "200", EDIT)
     assert document.project is before
     assert "Cone angle" in refusals[-1] and "between 1 and 180" in refusals[-1]  # LIMITS["fitting.angle_deg"]
