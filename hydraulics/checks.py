@@ -56,7 +56,7 @@ from hydraulics import fittings
 from hydraulics.bore_change import PathSegment, TransitionRow, unfitted_bore_changes
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.main_profile import ProfileResult, low_pressures, profile_coverage, segment_pressure_peaks
-from hydraulics.model import Criteria, ModelError, Project, Segment
+from hydraulics.model import Criteria, FrictionMethod, ModelError, Project, Segment
 from hydraulics.number_format import fixed_decimals, percent_number
 from hydraulics.profile_solution import pipe_profile
 from hydraulics.results import (
@@ -384,21 +384,33 @@ def profile_coverage_findings(project: Project) -> list[Finding]:
         "segment lengths.", ("site", "profile"))]
 
 
-def regime_findings(at_design: Iterable[SegmentResult]) -> list[Finding]:
-    """Laminar or transitional flow at design flow (friction factor less certain)."""
+def regime_findings(at_design: Iterable[SegmentResult],
+                    friction_method: FrictionMethod = "darcy_weisbach") -> list[Finding]:
+    """Laminar or transitional flow at design flow (friction factor less certain).
+
+    The message states the law actually used: under Darcy–Weisbach f = 64/Re (laminar) or the
+    interpolation of :func:`hydraulics.friction.darcy_friction_factor` (transition); under
+    Hazen–Williams neither, as that method has no regime (the range guard
+    ``hazen_williams_out_of_range`` of :mod:`hydraulics.range_guards` flags it as critical).
+    """
+    hazen = friction_method == "hazen_williams"
+    laminar_law = ("Hazen–Williams, which holds for turbulent flow only, is used instead of the laminar "
+                   "law f = 64/Re" if hazen else "f = 64/Re is used")
+    transition_law = ("Hazen–Williams, which holds for turbulent flow only, is used and the friction loss is "
+                      "uncertain" if hazen else "the friction factor is interpolated between the laminar and "
+                      "turbulent laws and is uncertain")
     out = []
     for seg in at_design:
         where = f"segment '{seg.name}' ({seg.side})"
         if seg.regime == "laminar":
             out.append(Finding("info", "laminar_flow",
                                f"Laminar flow (Re = {fixed_decimals(seg.reynolds, 0)}) at design flow; "
-                               "f = 64/Re is used.",
+                               f"{laminar_law}.",
                                where, "Check the fluid viscosity and the diameter.", ("segment", seg.index)))
         elif seg.regime == "transition":
             out.append(Finding("warning", "transition_flow",
                                f"Transitional flow (Re = {fixed_decimals(seg.reynolds, 0)}) at design flow; "
-                               "the friction factor is interpolated between the laminar and turbulent laws "
-                               "and is uncertain.",
+                               f"{transition_law}.",
                                where, "Avoid designing in the 2000–4000 Reynolds range.", ("segment", seg.index)))
     return out
 

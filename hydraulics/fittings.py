@@ -76,6 +76,13 @@ class FittingType:
     source: str
     checked: str = ""
     angle_deg: float | None = None
+    full_lift_velocity_factor_us: float | None = None
+    full_lift_velocity_source: str = ""
+
+    @property
+    def is_check_valve(self) -> bool:
+        """Whether the entry has a minimum velocity for full disc lift (a check or foot valve)."""
+        return self.full_lift_velocity_factor_us is not None
 
 
 # --------------------------------------------------------------------------- catalogue
@@ -118,9 +125,21 @@ def _parse_entry(entry: object, path: Path, index: int) -> FittingType:
         raise _entry_error(
             path, index, "method", "must be 'constant', 'crane', 'reducer', 'expander' or 'user_k'", method
         )
+    lift_factor: float | None = None
+    lift_source = ""
+    if entry.get("full_lift_velocity_factor_us") is not None:
+        lift_factor = _number(entry, "full_lift_velocity_factor_us", path, index)
+        if lift_factor <= 0.0:
+            raise _entry_error(path, index, "full_lift_velocity_factor_us", "must be more than 0", lift_factor)
+        given = entry.get("full_lift_velocity_source")
+        if not isinstance(given, str) or not given.strip():
+            raise _entry_error(path, index, "full_lift_velocity_source",
+                               "must name the published source of the full-lift velocity factor", given)
+        lift_source = given
     return FittingType(
         fitting_id=entry["id"], name=entry["name"], method=method, k=k, n=n,
         category=entry["category"], source=entry["source"], checked=str(entry.get("checked", "")), angle_deg=angle,
+        full_lift_velocity_factor_us=lift_factor, full_lift_velocity_source=lift_source,
     )
 
 
@@ -173,6 +192,45 @@ def fitting_catalogue() -> Mapping[str, FittingType]:
     1.0
     """
     return load_fitting_catalogue(DEFAULT_CATALOGUE_PATH)
+
+
+# --------------------------------------------------------------------------- check valves
+FOOT_M = 0.3048
+"""The international foot in metres (exact; NIST SP 811, appendix B)."""
+
+POUND_KG = 0.45359237
+"""The avoirdupois pound in kilograms (exact; NIST SP 811, appendix B)."""
+
+FULL_LIFT_SI_PER_US = math.sqrt(POUND_KG / FOOT_M)
+r"""Factor turning Crane's US-customary full-lift constant into the SI one (≈ 1.219903).
+
+Crane TP-410 gives v_min [ft/s] = C √V̄ with V̄ in ft³/lb.  Since 1 ft³/lb = 0.3048³ m³ / 0.45359237 kg,
+V̄_US = V̄_SI · 0.45359237 / 0.3048³ (V̄_SI in m³/kg), and with 1 ft/s = 0.3048 m/s
+
+.. math:: v_{min} = 0.3048\,C\sqrt{\bar V_{SI}\,\frac{0.45359237}{0.3048^3}}
+          = C\sqrt{\frac{0.45359237}{0.3048}}\,\sqrt{\bar V_{SI}}
+          = 1.219903\,C\,\sqrt{\bar V_{SI}}\ \text{m/s}
+
+with V̄_SI = 1/ρ in m³/kg.  A conventional swing check (C = 35) in water at 1000 kg/m³ needs
+42.70 × 0.031623 = 1.350 m/s.  Crane's metric edition prints the SI constants rounded
+(45 for C = 35); PumpSketch converts the US constant exactly.
+"""
+
+
+def full_lift_velocity_m_s(fitting_type: FittingType, density_kg_m3: float) -> float | None:
+    """Minimum pipe velocity for full disc lift of a check valve (m/s), ``None`` for other fittings.
+
+    Crane TP-410, Appendix A: v_min = C √V̄, V̄ = 1/ρ the specific volume, with the entry's
+    US-customary C converted by :data:`FULL_LIFT_SI_PER_US`.  Lift check entries are full bore
+    (Crane's β² = 1).
+
+    >>> round(full_lift_velocity_m_s(fitting_catalogue()["swing_check_valve"], 1000.0), 3)
+    1.35
+    """
+    factor = fitting_type.full_lift_velocity_factor_us
+    if factor is None:
+        return None
+    return factor * FULL_LIFT_SI_PER_US * math.sqrt(1.0 / density_kg_m3)
 
 
 # --------------------------------------------------------------------------- K values

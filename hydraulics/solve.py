@@ -18,7 +18,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from hydraulics import checks
+from hydraulics import checks, range_guards
 from hydraulics.atmosphere import standard_atmosphere_pressure
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.fluid import fluid_properties
@@ -144,7 +144,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
     project, system = first.project, stage.system
     at_design = first.segments
     arrangement, fitted, points = project.arrangement, stage.fitted, first.operating_points
-    findings = checks.regime_findings(at_design)
+    findings = checks.regime_findings(at_design, project.friction_method)
     findings += checks.profile_findings(project, system.static_head_m["min"], system, points)
     findings += checks.bore_change_findings(project)
     findings += checks.profile_coverage_findings(project)
@@ -153,6 +153,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
                                                   first.fluid.vapour_pressure_pa, first.fluid.density_kg_m3)
     if fitted is None or arrangement is None:
         findings += checks.velocity_findings(project, at_design)
+        findings += range_guards.range_guard_findings(project, first.fluid, at_design, None, ())
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
     from hydraulics.operating_points import operating_points
@@ -172,6 +173,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
     findings += checks.pump_findings(project, fitted, points, system.lift_head(system.static_head_m["max"]))
     findings += variable_speed_findings(speed, fitted)
+    findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, (fitted,))
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True)
 
 
