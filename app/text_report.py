@@ -91,11 +91,11 @@ def _specific_speed_section(solution: Solution, system: str) -> list[str]:
         out += ["", f"Pump '{fitted.pump.name}' at its best-efficiency point "
                     f"({general_number(speeds.rated_speed_rpm, 6)} rpm, flow per impeller eye, one stage):",
                 f"  specific speed n_s {general_number(speeds.specific_speed_si, 4)} (rpm, m³/s, m), "
-                f"N_s {general_number(speeds.specific_speed_us, 4)} (rpm, gpm, ft), "
+                f"N_s {fixed_decimals(speeds.specific_speed_us, 0)} (rpm, gpm, ft), "
                 f"ω_s {general_number(speeds.specific_speed_dimensionless, 3)}"]
         if speeds.suction_specific_speed_si is not None and speeds.suction_specific_speed_us is not None:
             out.append(f"  suction specific speed S {general_number(speeds.suction_specific_speed_si, 4)} "
-                       f"(rpm, m³/s, m), N_ss {general_number(speeds.suction_specific_speed_us, 4)} (rpm, gpm, ft)")
+                       f"(rpm, m³/s, m), N_ss {fixed_decimals(speeds.suction_specific_speed_us, 0)} (rpm, gpm, ft)")
     if solution.operating_points:
         out.append("  NPSH available at each operating point is taken at its own scenario's suction level.")
     worst = solution.npsh_worst_case

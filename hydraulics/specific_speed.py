@@ -277,10 +277,10 @@ def criteria_findings(criteria: Criteria, fitted: FittedPump, impeller_eyes: int
         return []
     sp = suggested.speeds
     speeds = (f"specific speed n_s {general_number(sp.specific_speed_si, 3)} (rpm, m³/s, m; "
-              f"N_s {general_number(sp.specific_speed_us, 4)} US)")
+              f"N_s {fixed_decimals(sp.specific_speed_us, 0)} US)")
     if sp.suction_specific_speed_si is not None and sp.suction_specific_speed_us is not None:
         speeds += (f", suction specific speed S {general_number(sp.suction_specific_speed_si, 3)} "
-                   f"(N_ss {general_number(sp.suction_specific_speed_us, 4)} US)")
+                   f"(N_ss {fixed_decimals(sp.suction_specific_speed_us, 0)} US)")
     return [Finding(
         "info", "criteria_looser_than_suggested",
         f"At its best-efficiency point the pump has {speeds}; the project's criteria are looser than these "
