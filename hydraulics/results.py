@@ -301,6 +301,9 @@ class OperatingPoint:
 class NpshCurve:
     """NPSH available against station flow (new and aged pipe), and NPSH required.
 
+    ``available_new_m``/``available_aged_m`` are at the lowest suction level (the
+    maximum-static scenarios' level and the conservative case); the
+    ``available_highest_level_*`` arrays at the highest (``None`` when not computed).
     ``available_*`` are on the station-flow axis ``flow_m3_s`` with ``pumps_running`` pumps
     running (the duty count): the common suction losses at the station flow Q and one
     pump's own suction branch at Q/N are subtracted.  ``required_flow_m3_s``/``required_m``
@@ -314,6 +317,10 @@ class NpshCurve:
     required_flow_m3_s: FloatArray
     required_m: FloatArray | None
     pumps_running: int = 1
+    available_highest_level_new_m: FloatArray | None = None
+    """NPSH available at the highest suction level (the minimum-static scenarios' level), new pipe."""
+    available_highest_level_aged_m: FloatArray | None = None
+    """The same with aged pipe."""
 
 
 @dataclass(frozen=True)

@@ -145,7 +145,8 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     solution = replace(
         base, curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
         energy=annual_energy(points, project.energy, design_flow), pump_curves=pump_curves,
-        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows, design_pumps),
+        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows, design_pumps,
+                                         npsh_by_case["min"]),
         profile=solved_profile(project, system, points, fluid.density_kg_m3),
         specific_speeds=(pump_specific_speeds(fitted),),
         npsh_worst_case=npsh_worst_case(system, points, npsh_static, project.site.suction_level_low_m,
@@ -236,16 +237,22 @@ def _cached_pump_curves(pump: PumpModel, density_kg_m3: float, duty_count: int, 
 
 
 def _npsh_curve(system: SystemHydraulics, npsh_static_m: float, first_curve: PumpCurve,
-                flows: FloatArray, pumps_running: int) -> NpshCurve:
-    """NPSH available over the station flows ``flows`` beside NPSH required, at the lowest suction level.
+                flows: FloatArray, pumps_running: int, npsh_static_highest_m: float) -> NpshCurve:
+    """NPSH available over the station flows ``flows`` beside NPSH required.
 
-    The static part less the suction losses with ``pumps_running`` pumps running: the
-    common suction at the station flow Q and one pump's own suction branch at Q/N.
+    At the lowest suction level (``npsh_static_m``) and, in the ``available_highest_level_*``
+    arrays, at the highest (``npsh_static_highest_m``).  The static part less the suction
+    losses with ``pumps_running`` pumps running: the common suction at the station flow Q
+    and one pump's own suction branch at Q/N.
     """
+    loss_new = system.suction_loss(flows, False, pumps_running)
+    loss_aged = system.suction_loss(flows, True, pumps_running)
     return NpshCurve(
         flow_m3_s=flows,
-        available_new_m=npsh_static_m - system.suction_loss(flows, False, pumps_running),
-        available_aged_m=npsh_static_m - system.suction_loss(flows, True, pumps_running),
+        available_new_m=npsh_static_m - loss_new,
+        available_aged_m=npsh_static_m - loss_aged,
+        available_highest_level_new_m=npsh_static_highest_m - loss_new,
+        available_highest_level_aged_m=npsh_static_highest_m - loss_aged,
         required_flow_m3_s=first_curve.flow_m3_s,
         required_m=first_curve.npsh_required_m,
         pumps_running=pumps_running,

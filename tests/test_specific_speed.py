@@ -258,6 +258,9 @@ def test_npsh_available_at_each_scenarios_own_suction_level_by_hand():
     assert worst.required_available_m == pytest.approx(max(1.1 * worst.npsh_required_m,
                                                            worst.npsh_required_m + 0.6))  # the criteria's rule
     assert worst.sufficient
+    curve = solution.npsh_available_curve  # no suction pipework: flat at each level's static part
+    assert np.allclose(curve.available_new_m, 12.12833, atol=1e-5)  # lowest level, as above
+    assert np.allclose(curve.available_highest_level_aged_m, 13.12833, atol=1e-5)  # highest level, as above
 
 
 def test_worst_case_finding_when_only_the_conservative_case_falls_short():
