@@ -164,10 +164,12 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
             "of a nonlinear function without using derivatives”, Adv. Eng. Software 28(3), 145–149."),
         MethodEntry(
             "NPSH available", "Pumps",
-            "NPSH<sub>a</sub> = (p<sub>atm</sub> − p<sub>v</sub>)/(ρg) + (lowest suction level − pump "
+            "NPSH<sub>a</sub> = (p<sub>atm</sub> − p<sub>v</sub>)/(ρg) + (suction level − pump "
             "datum) − suction losses (common suction at Q, the pump's own suction branch at Q/N)",
-            "Net positive suction head available at each flow, new and aged pipe, at the lowest suction "
-            "level (the worst case).",
+            "At each operating point, at its own scenario's suction level (the highest level with the "
+            "minimum static head, the lowest with the maximum); the NPSH plot at the lowest level. In "
+            "addition the conservative case: the highest flow per pump with the lowest suction level and "
+            "aged suction pipe, with a warning when it falls short of the criteria.",
             "Energy equation from the suction surface to the pump; definition of NPSH in ISO 9906:2012; "
             "Karassik et al., <i>Pump Handbook</i> (McGraw-Hill)."),
         MethodEntry(
@@ -188,6 +190,16 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
             "region is drawn on the pump curves.",
             "ANSI/HI 9.6.3, Rotodynamic Pumps – Guideline for Operating Regions (limits quoted from "
             "memory: verify against the standard and the manufacturer's allowable region)."),
+        MethodEntry(
+            "Specific speeds", "Pumps",
+            "n<sub>s</sub> = n √Q / H<sup>0.75</sup> and S = n √Q / NPSH<sub>r</sub><sup>0.75</sup> at the "
+            "best-efficiency point (rpm, m³/s per impeller eye, m per stage); US forms (gpm, ft) = 51.645 × "
+            "SI; ω<sub>s</sub> = ω √Q / (gH)<sup>0.75</sup> = 0.018 897 × n<sub>s</sub>",
+            "Shown with the pump. They suggest criteria: the NPSH margin ratio by suction specific speed "
+            "and the operating regions by pump specific speed; an information finding when the project's "
+            "criteria are looser. The criteria are never changed automatically.",
+            "Gülich, <i>Centrifugal Pumps</i> (Springer), ch. 3 and 6; margins after ANSI/HI 9.6.1 and "
+            "regions after ANSI/HI 9.6.3 (values from memory: verify against the standards)."),
         MethodEntry(
             "Velocity limits", "Checks",
             f"Suction {fixed_decimals(c.suction_velocity_min_m_s, 1)}–"

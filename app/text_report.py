@@ -81,6 +81,38 @@ def _profile_section(solution: Solution, system: str) -> list[str]:
     return out
 
 
+def _specific_speed_section(solution: Solution, system: str) -> list[str]:
+    """The pump's specific speeds at its best-efficiency point and the conservative NPSH case."""
+    out: list[str] = []
+    for fitted, speeds in zip(solution.pump_fits, solution.specific_speeds, strict=False):
+        if speeds is None:
+            out += ["", f"Pump '{fitted.pump.name}': no best-efficiency point, specific speeds unknown"]
+            continue
+        out += ["", f"Pump '{fitted.pump.name}' at its best-efficiency point "
+                    f"({general_number(speeds.rated_speed_rpm, 6)} rpm, flow per impeller eye, one stage):",
+                f"  specific speed n_s {general_number(speeds.specific_speed_si, 4)} (rpm, m³/s, m), "
+                f"N_s {fixed_decimals(speeds.specific_speed_us, 0)} (rpm, gpm, ft), "
+                f"ω_s {general_number(speeds.specific_speed_dimensionless, 3)}"]
+        if speeds.suction_specific_speed_si is not None and speeds.suction_specific_speed_us is not None:
+            out.append(f"  suction specific speed S {general_number(speeds.suction_specific_speed_si, 4)} "
+                       f"(rpm, m³/s, m), N_ss {fixed_decimals(speeds.suction_specific_speed_us, 0)} (rpm, gpm, ft)")
+    if solution.operating_points:
+        out.append("  NPSH available at each operating point is taken at its own scenario's suction level.")
+    worst = solution.npsh_worst_case
+    if worst is not None:
+        hd = unit_label("head", system)
+
+        def d(value: float, quantity: str) -> str:
+            return fixed_decimals(to_display(value, quantity, system), 2)
+
+        out.append(f"  NPSH, conservative case ({worst.basis}; {d(worst.flow_per_pump_m3_s, 'flow')} "
+                   f"{unit_label('flow', system)} per pump): available {d(worst.npsh_available_m, 'head')} {hd}, "
+                   f"required {d(worst.npsh_required_m, 'head')} {hd}, criteria ask for "
+                   f"{d(worst.required_available_m, 'head')} {hd}"
+                   + ("" if worst.sufficient else " — insufficient"))
+    return out
+
+
 def summary_text(solution: Solution, system: str = "SI") -> str:
     """A plain-text report of one solved project in the chosen unit system."""
     def d(value: float | None, quantity: str, decimals: int = 2) -> str:
@@ -133,6 +165,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         rows.append([d(q, "flow", 1)] + [d(float(np.interp(q, c.flow_m3_s, c.head_m)), "head")
                                                  for c in solution.curves])
     out += ["  " + line for line in _table(headers, rows)]
+    out += _specific_speed_section(solution, system)
     if solution.operating_points:
         out += ["", "Operating points:"]
         rows = []

@@ -63,8 +63,8 @@ def npsh_available(atmospheric_pressure_pa: ArrayLike, vapour_pressure_pa: Array
     The energy equation from the free surface of an open suction tank (at rest, at
     atmospheric pressure) to the pump's suction reference plane, less the vapour pressure
     head (Karassik et al., *Pump Handbook*, 4th ed., ch. on NPSH; definition of NPSH in
-    ISO 9906:2012 and ISO 17769-1).  Use the lowest suction level, and the suction losses
-    at the flow of interest.
+    ISO 9906:2012 and ISO 17769-1).  Use the suction level of the case considered (the
+    lowest for the conservative case) and the suction losses at the flow of interest.
 
     Parameters
     ----------
@@ -155,7 +155,7 @@ def _controls(system: SystemHydraulics, q: FloatArray, grid: ScenarioGrid,
 
 
 def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrangement,
-                     npsh_static_head_m: float | None,
+                     npsh_static_head_m: float | Mapping[str, float] | None,
                      density_kg_m3: float, speed_ratios: Sequence[float] | None = None,
                      extension: float = DEFAULT_EXTENSION) -> tuple[OperatingPoint, ...]:
     """Operating points for every static extreme × pipe state × pumps running × speed.
@@ -170,9 +170,13 @@ def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: 
     arrangement : Arrangement
         Duty pumps (1..``duty_count`` are solved), series stages, trim, motor and drive
         efficiencies; its ``speed_ratio`` is the speed unless ``speed_ratios`` is given.
-    npsh_static_head_m : float or None
-        (p_atm − p_v)/(ρ g) + (lowest suction level − pump datum) (m); the suction loss at
-        each flow is subtracted here.  ``None`` leaves the NPSH fields ``None``.
+    npsh_static_head_m : float, mapping or None
+        (p_atm − p_v)/(ρ g) + (suction level − pump datum) (m); the suction loss at each
+        flow is subtracted here.  A mapping gives it per static extreme (``"min"``: at the
+        highest suction level, ``"max"``: at the lowest; see
+        :func:`hydraulics.system_curve.static_heads`), so each scenario's NPSH available is
+        at its own suction level; one float applies to every scenario.  ``None`` leaves the
+        NPSH fields ``None``.
     density_kg_m3 : float
         Fluid density (kg/m³) for the hydraulic power.
     speed_ratios : sequence of float, optional
@@ -212,8 +216,13 @@ def operating_points(system: SystemHydraulics, fitted: FittedPump, arrangement: 
             bep_ratio = np.full(q.shape, np.nan)
         npsha: FloatArray
         if npsh_static_head_m is not None:
+            static_part: float | FloatArray
+            if isinstance(npsh_static_head_m, Mapping):  # each scenario at its own suction level
+                static_part = np.array([float(npsh_static_head_m[c]) for c in grid.static], dtype=float)
+            else:
+                static_part = float(npsh_static_head_m)
             # the common suction at Q and the running pump's own suction branch at Q/N
-            npsha = float(npsh_static_head_m) - np.asarray(system.suction_loss(q, grid.aged, n), dtype=float)
+            npsha = static_part - np.asarray(system.suction_loss(q, grid.aged, n), dtype=float)
         else:
             npsha = np.full(q.shape, np.nan)
         npshr = perf.npsh_required_m

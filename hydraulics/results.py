@@ -31,7 +31,7 @@ __all__ = [
     "FluidProperties", "SystemCurve", "SegmentResult", "Finding", "render_template", "finding",
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
     "SpeedForFlow", "VariableSpeedResult", "ScenarioEnergy", "EnergyResult", "Solution",
-    "ProfileLine", "ProfileResult", "control_label",
+    "ProfileLine", "ProfileResult", "control_label", "PumpSpecificSpeeds", "NpshWorstCase",
 ]
 
 FloatArray: TypeAlias = NDArray[np.float64]
@@ -301,6 +301,9 @@ class OperatingPoint:
 class NpshCurve:
     """NPSH available against station flow (new and aged pipe), and NPSH required.
 
+    ``available_new_m``/``available_aged_m`` are at the lowest suction level (the
+    maximum-static scenarios' level and the conservative case); the
+    ``available_highest_level_*`` arrays at the highest (``None`` when not computed).
     ``available_*`` are on the station-flow axis ``flow_m3_s`` with ``pumps_running`` pumps
     running (the duty count): the common suction losses at the station flow Q and one
     pump's own suction branch at Q/N are subtracted.  ``required_flow_m3_s``/``required_m``
@@ -314,6 +317,10 @@ class NpshCurve:
     required_flow_m3_s: FloatArray
     required_m: FloatArray | None
     pumps_running: int = 1
+    available_highest_level_new_m: FloatArray | None = None
+    """NPSH available at the highest suction level (the minimum-static scenarios' level), new pipe."""
+    available_highest_level_aged_m: FloatArray | None = None
+    """The same with aged pipe."""
 
 
 @dataclass(frozen=True)
@@ -452,6 +459,62 @@ class EnergyResult:
 
 
 @dataclass(frozen=True)
+class PumpSpecificSpeeds:
+    """A pump's specific speeds at its best-efficiency point, rated speed, full impeller.
+
+    Flow per impeller eye (``impeller_eyes`` = 1 single suction, 2 double suction); the
+    head is that of the pump as tested, taken as one stage.  SI forms with n in rpm, Q in
+    m³/s and H in m; US forms with gpm and ft; ``omega_s`` dimensionless
+    (:mod:`hydraulics.specific_speed`).  The suction values are ``None`` without NPSH data.
+    """
+
+    rated_speed_rpm: float
+    bep_flow_m3_s: float
+    bep_head_m: float
+    impeller_eyes: int
+    specific_speed_si: float
+    specific_speed_us: float
+    specific_speed_dimensionless: float
+    npsh_required_at_bep_m: float | None
+    suction_specific_speed_si: float | None
+    suction_specific_speed_us: float | None
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return dict(self.__dict__)
+
+
+@dataclass(frozen=True)
+class NpshWorstCase:
+    """The conservative NPSH case, stated as such: the highest flow with the lowest level.
+
+    The highest per-pump flow of any found operating point at the arrangement's speed
+    (``static``, ``pipe``, ``pumps_running``, ``speed_ratio`` name that point), put together
+    with the lowest suction level and the aged suction pipe, whichever static extreme and
+    pipe state the point itself belongs to.  ``required_available_m`` is what the criteria
+    ask for there (max(ratio × NPSH_R, NPSH_R + minimum margin)); ``sufficient`` compares
+    it with ``npsh_available_m``.
+    """
+
+    static: str
+    pipe: str
+    pumps_running: int
+    speed_ratio: float
+    flow_m3_s: float
+    flow_per_pump_m3_s: float
+    suction_level_m: float
+    npsh_available_m: float
+    npsh_required_m: float
+    npsh_margin_m: float
+    npsh_margin_ratio: float
+    required_available_m: float
+    sufficient: bool
+    basis: str = "highest per-pump flow, lowest suction level, aged suction pipe"
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return dict(self.__dict__)
+
+
+@dataclass(frozen=True)
 class Solution:
     """Everything the engine computed for a project.
 
@@ -482,6 +545,10 @@ class Solution:
     npsh_available_curve: NpshCurve | None = None
     complete: bool = True
     profile: ProfileResult | None = None
+    specific_speeds: tuple[PumpSpecificSpeeds | None, ...] = ()
+    """Per entry of ``pump_fits``: its specific speeds (``None`` without a best-efficiency point)."""
+    npsh_worst_case: NpshWorstCase | None = None
+    """The conservative NPSH case (``None`` without a pump, NPSH data or a found point)."""
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

@@ -5,7 +5,13 @@ Top-level keys (a contract: later versions add keys, never rename these):
 ``atmospheric_pressure_pa``, ``static_head_m`` (``min``, ``max``), ``design_flow_m3_s``,
 ``system_curves``, ``segments``, ``findings``, ``pumps``, ``operating_points``,
 ``variable_speed``, ``energy``; since the station pipework roles: ``branches``; since the
-main's profile: ``profile`` and ``control_point``.
+main's profile: ``profile`` and ``control_point``; since the specific speeds: each entry of
+``pumps`` has ``specific_speed`` (:class:`hydraulics.results.PumpSpecificSpeeds`, ``None``
+without a best-efficiency point), and ``npsh_worst_case`` is the conservative NPSH case
+(the highest per-pump flow with the lowest suction level and aged suction pipe;
+:class:`hydraulics.results.NpshWorstCase`, ``None`` without NPSH data).  Each operating
+point's ``npsh_available_m`` is at its own scenario's suction level (the highest suction
+level at minimum static head, the lowest at maximum static head).
 
 ``segments`` lists every segment at the design flow with the duty pumps running (each entry
 also says what it ``carries`` and its ``flow_m3_s``); ``branches`` lists the segments of
@@ -89,6 +95,12 @@ def _control_points(solution: Solution) -> dict[str, object]:
     }
 
 
+def _pump_dict(solution: Solution, index: int) -> dict[str, object]:
+    """One fitted pump with its specific speeds (``specific_speed``: ``None`` when unknown)."""
+    speeds = solution.specific_speeds[index] if index < len(solution.specific_speeds) else None
+    return {**solution.pump_fits[index].to_json_dict(), "specific_speed": _to_dict(speeds)}
+
+
 def solution_to_json_dict(solution: Solution) -> dict[str, object]:
     """The results dictionary of one solved project."""
     fluid = solution.fluid
@@ -119,7 +131,7 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
              "remedy": f.remedy}
             for f in solution.findings
         ],
-        "pumps": [_to_dict(p) for p in solution.pump_fits],
+        "pumps": [_pump_dict(solution, i) for i in range(len(solution.pump_fits))],
         "operating_points": [_to_dict(p) for p in solution.operating_points],
         "variable_speed": _to_dict(solution.variable_speed),
         "energy": _to_dict(solution.energy),
@@ -127,5 +139,6 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
                      for s in solution.segments if s.carries == "pump"],
         "profile": _to_dict(solution.profile),
         "control_point": _control_points(solution),
+        "npsh_worst_case": _to_dict(solution.npsh_worst_case),
     }
     return {key: _clean(value) for key, value in data.items()}

@@ -50,16 +50,28 @@ def atmospheric_pressure(project: Project) -> float:
     return float(standard_atmosphere_pressure(site.altitude_m))
 
 
-def npsh_static_head(project: Project, atmospheric_pa: float, fluid: FluidProperties) -> float:
-    """The flow-independent part of NPSH available at the lowest suction level (m).
+def npsh_static_head(project: Project, atmospheric_pa: float, fluid: FluidProperties,
+                     suction_level_m: float | None = None) -> float:
+    """The flow-independent part of NPSH available at a suction level (m; default the lowest).
 
-    (p_atm − p_v)/(ρ g) + (lowest suction level − pump datum); the suction losses at each
-    flow are subtracted by the operating-point solver (see
+    (p_atm − p_v)/(ρ g) + (suction level − pump datum); the suction losses at each flow are
+    subtracted by the operating-point solver (see
     :func:`hydraulics.operating_points.npsh_available`).
     """
     rho_g = fluid.density_kg_m3 * STANDARD_GRAVITY_M_S2
-    return (atmospheric_pa - fluid.vapour_pressure_pa) / rho_g + (
-        project.site.suction_level_low_m - project.site.pump_datum_m)
+    level = project.site.suction_level_low_m if suction_level_m is None else suction_level_m
+    return (atmospheric_pa - fluid.vapour_pressure_pa) / rho_g + (level - project.site.pump_datum_m)
+
+
+def npsh_static_heads(project: Project, atmospheric_pa: float, fluid: FluidProperties) -> dict[str, float]:
+    """:func:`npsh_static_head` per static extreme, each at its own suction level (m).
+
+    The minimum static head is taken with the highest suction level and the maximum with
+    the lowest (:func:`hydraulics.system_curve.static_heads`).
+    """
+    site = project.site
+    return {"min": npsh_static_head(project, atmospheric_pa, fluid, site.suction_level_high_m),
+            "max": npsh_static_head(project, atmospheric_pa, fluid, site.suction_level_low_m)}
 
 
 def solve(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> Solution:
@@ -82,6 +94,9 @@ class CurvesStage:
     system: SystemHydraulics
     fitted: FittedPump | None
     npsh_static_m: float | None
+    """At the lowest suction level (the NPSH-available curve)."""
+    npsh_static_by_case_m: dict[str, float] | None = None
+    """Per static extreme at its own suction level (the operating points)."""
 
 
 def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> CurvesStage:
@@ -113,11 +128,14 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
         return CurvesStage(replace(base, curves=curves, profile=profile), system, None, None)
 
     from hydraulics.energy import annual_energy
+    from hydraulics.npsh_worst_case import npsh_worst_case
     from hydraulics.operating_points import operating_points
+    from hydraulics.specific_speed import pump_specific_speeds
 
     fitted = _cached_fit(pump, fluid.density_kg_m3)
     npsh_static = npsh_static_head(project, p_atm, fluid)
-    points = operating_points(system, fitted, arrangement, npsh_static, fluid.density_kg_m3)
+    npsh_by_case = npsh_static_heads(project, p_atm, fluid)
+    points = operating_points(system, fitted, arrangement, npsh_by_case, fluid.density_kg_m3)
     plain_curves = _cached_pump_curves(pump, fluid.density_kg_m3, arrangement.duty_count,
                                        arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
                                        (project.criteria.preferred_region_low, project.criteria.preferred_region_high))
@@ -127,10 +145,14 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     solution = replace(
         base, curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
         energy=annual_energy(points, project.energy, design_flow), pump_curves=pump_curves,
-        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows, design_pumps),
+        npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows, design_pumps,
+                                         npsh_by_case["min"]),
         profile=solved_profile(project, system, points, fluid.density_kg_m3),
+        specific_speeds=(pump_specific_speeds(fitted),),
+        npsh_worst_case=npsh_worst_case(system, points, npsh_static, project.site.suction_level_low_m,
+                                        project.criteria),
     )
-    return CurvesStage(solution, system, fitted, npsh_static)
+    return CurvesStage(solution, system, fitted, npsh_static, npsh_by_case)
 
 
 def complete_solution(stage: CurvesStage) -> Solution:
@@ -156,15 +178,17 @@ def complete_solution(stage: CurvesStage) -> Solution:
         findings += range_guards.range_guard_findings(project, first.fluid, at_design, None, ())
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
+    from hydraulics.npsh_worst_case import npsh_worst_case_findings
     from hydraulics.operating_points import operating_points
+    from hydraulics.specific_speed import criteria_findings
     from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
 
     search = search_speeds(system, fitted, arrangement, project.site.design_flow_m3_s)
     other_speeds = tuple(s for s in dict.fromkeys(search.speeds_to_intersect) if s != float(arrangement.speed_ratio))
     at_speeds = points
     if other_speeds:
-        at_speeds += operating_points(system, fitted, arrangement, stage.npsh_static_m, first.fluid.density_kg_m3,
-                                      speed_ratios=other_speeds)
+        at_speeds += operating_points(system, fitted, arrangement, stage.npsh_static_by_case_m,
+                                      first.fluid.density_kg_m3, speed_ratios=other_speeds)
     speed = variable_speed_points(search, at_speeds)
 
     found = [p for p in points if p.found and p.flow_m3_s is not None]
@@ -174,6 +198,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
     findings += checks.pump_findings(project, fitted, points, system.lift_head(system.static_head_m["max"]))
     findings += variable_speed_findings(speed, fitted)
     findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, (fitted,))
+    findings += criteria_findings(project.criteria, fitted) + npsh_worst_case_findings(project, first.npsh_worst_case)
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True)
 
 
@@ -214,16 +239,22 @@ def _cached_pump_curves(pump: PumpModel, density_kg_m3: float, duty_count: int, 
 
 
 def _npsh_curve(system: SystemHydraulics, npsh_static_m: float, first_curve: PumpCurve,
-                flows: FloatArray, pumps_running: int) -> NpshCurve:
+                flows: FloatArray, pumps_running: int, npsh_static_highest_m: float) -> NpshCurve:
     """NPSH available over the station flows ``flows`` beside NPSH required.
 
-    The static part less the suction losses with ``pumps_running`` pumps running: the
-    common suction at the station flow Q and one pump's own suction branch at Q/N.
+    At the lowest suction level (``npsh_static_m``) and, in the ``available_highest_level_*``
+    arrays, at the highest (``npsh_static_highest_m``).  The static part less the suction
+    losses with ``pumps_running`` pumps running: the common suction at the station flow Q
+    and one pump's own suction branch at Q/N.
     """
+    loss_new = system.suction_loss(flows, False, pumps_running)
+    loss_aged = system.suction_loss(flows, True, pumps_running)
     return NpshCurve(
         flow_m3_s=flows,
-        available_new_m=npsh_static_m - system.suction_loss(flows, False, pumps_running),
-        available_aged_m=npsh_static_m - system.suction_loss(flows, True, pumps_running),
+        available_new_m=npsh_static_m - loss_new,
+        available_aged_m=npsh_static_m - loss_aged,
+        available_highest_level_new_m=npsh_static_highest_m - loss_new,
+        available_highest_level_aged_m=npsh_static_highest_m - loss_aged,
         required_flow_m3_s=first_curve.flow_m3_s,
         required_m=first_curve.npsh_required_m,
         pumps_running=pumps_running,

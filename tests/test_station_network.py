@@ -190,10 +190,13 @@ def test_modelling_the_branches_as_common_pipework_overstates_their_loss_by_abou
 
 def test_npsh_available_subtracts_the_common_suction_at_q_and_one_suction_branch_at_q_over_n(solved):
     fluid = solved.fluid
-    # (p_atm − p_v)/(ρ g) + (lowest suction level − pump datum): definition of NPSH available (ISO 9906)
-    static_part = ((solved.atmospheric_pressure_pa - fluid.vapour_pressure_pa) / (fluid.density_kg_m3 * G)
-                   + SUCTION_LOW - PUMP_DATUM)
+    # (p_atm − p_v)/(ρ g) + (suction level − pump datum): definition of NPSH available (ISO 9906), each
+    # scenario at its own suction level: minimum static = lowest delivery − highest suction level, so the
+    # "min" points stand at SUCTION_HIGH and the "max" points at SUCTION_LOW (definition of static head)
+    head_atm = (solved.atmospheric_pressure_pa - fluid.vapour_pressure_pa) / (fluid.density_kg_m3 * G)
+    level = {"min": SUCTION_HIGH, "max": SUCTION_LOW}
     for p in (x for x in solved.operating_points if x.found):
+        static_part = head_atm + level[p.static] - PUMP_DATUM
         common, branch = losses(p.flow_m3_s, p.pumps_running, p.pipe == "aged", fluid.kinematic_viscosity_m2_s,
                                 sides=("suction",))
         assert branch > 0.0 and common > 0.0
@@ -203,7 +206,8 @@ def test_npsh_available_subtracts_the_common_suction_at_q_and_one_suction_branch
     for q in (0.02, 0.05, 0.08):
         common, branch = losses(q, 2, True, fluid.kinematic_viscosity_m2_s, sides=("suction",))
         assert np.interp(q, curve.flow_m3_s, curve.available_aged_m) == pytest.approx(
-            static_part - common - branch, abs=2e-4)  # tabulated curve: linear interpolation error only
+            head_atm + SUCTION_LOW - PUMP_DATUM - common - branch,
+            abs=2e-4)  # the curve at the lowest suction level; tabulated: linear interpolation error only
 
 
 def test_branch_segments_run_at_the_per_pump_flow(solved):
