@@ -524,6 +524,15 @@ def _npsh_findings(point: OperatingPoint, criteria: Criteria, where: str, target
     return []
 
 
+def _ratio_text(ratio: float, criteria: Criteria) -> str:
+    """The best-efficiency flow ratio as a whole percentage, with one decimal where that would
+    equal a region bound (39.8 % against a 40 % bound must not read "40 %")."""
+    whole = percent_number(ratio)
+    bounds = (criteria.allowable_region_low, criteria.allowable_region_high,
+              criteria.preferred_region_low, criteria.preferred_region_high)
+    return percent_number(ratio, 1) if whole in {percent_number(b) for b in bounds} else whole
+
+
 def _region_findings(point: OperatingPoint, criteria: Criteria, where: str, target: FindingTarget) -> list[Finding]:
     ratio = point.bep_flow_ratio
     if ratio is None:
@@ -531,13 +540,13 @@ def _region_findings(point: OperatingPoint, criteria: Criteria, where: str, targ
     if not criteria.allowable_region_low <= ratio <= criteria.allowable_region_high:
         return [Finding(
             "critical", "outside_allowable",
-            f"Runs at {percent_number(ratio)} % of best-efficiency flow, outside the allowable region "
+            f"Runs at {_ratio_text(ratio, criteria)} % of best-efficiency flow, outside the allowable region "
             f"{percent_number(criteria.allowable_region_low)}–{percent_number(criteria.allowable_region_high)} %.",
             where, "Change the number of pumps, the speed or the pump selection.", target)]
     if not criteria.preferred_region_low <= ratio <= criteria.preferred_region_high:
         return [Finding(
             "warning", "outside_preferred",
-            f"Runs at {percent_number(ratio)} % of best-efficiency flow, outside the preferred region "
+            f"Runs at {_ratio_text(ratio, criteria)} % of best-efficiency flow, outside the preferred region "
             f"{percent_number(criteria.preferred_region_low)}–{percent_number(criteria.preferred_region_high)} %.",
             where, "Consider variable speed or a pump whose best-efficiency point is nearer the duty.", target)]
     return []

@@ -138,9 +138,14 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
 def complete_solution(stage: CurvesStage) -> Solution:
     """The finished :class:`Solution`: ``stage``'s results with the checks and variable speed.
 
-    Variable speed: the speeds that deliver the design flow are searched and the
-    operating points intersected afresh at those speeds (those at the arrangement's own
-    speed are reused).  Everything of ``stage`` is passed on unchanged (the same objects).
+    Variable speed: the speeds that deliver the design flow are searched, with the duty
+    pumps and with one pump, and the operating points intersected afresh, in one batch, at
+    those speeds and at the drive's minimum and maximum speeds (those at the arrangement's
+    own speed are reused).  The point checks (region, NPSH, extrapolation) and the
+    velocities run over all of them (:func:`_checked_points`), identical scenario findings
+    grouped; the design capacity comes from the worst-case points at the maximum speed
+    (:mod:`hydraulics.capacity`).  Everything of ``stage`` is passed on unchanged (the same
+    objects).
     """
     first = stage.solution
     project, system = first.project, stage.system

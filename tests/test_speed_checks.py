@@ -206,3 +206,13 @@ def test_hilltop_design_flow_beyond_the_fixed_speed_pump_is_a_critical_shortfall
     assert data["capacity"]["meets_design"] is False
     assert data["capacity"]["shortfall_all_duty_m3_s"] == pytest.approx(0.042 - solution.capacity.flow_all_duty_m3_s)
     assert all({"basis", "findings", "flow_m3_s", "speed_ratio"} <= set(p) for p in data["speed_points"])
+
+
+def test_a_ratio_that_rounds_to_a_region_bound_is_shown_with_one_decimal():
+    from hydraulics.checks import _ratio_text
+    from hydraulics.model import Criteria
+
+    criteria = Criteria()  # allowable 40–130 %, preferred 70–120 % (defaults, ANSI/HI 9.6.3 as in the checks)
+    assert _ratio_text(0.398, criteria) == "39.8"  # would read "40", the allowable bound itself
+    assert _ratio_text(0.46, criteria) == "46"
+    assert _ratio_text(1.204, criteria) == "120.4"
