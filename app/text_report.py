@@ -113,6 +113,30 @@ def _specific_speed_section(solution: Solution, system: str) -> list[str]:
     return out
 
 
+def _capacity_section(solution: Solution, system: str) -> list[str]:
+    """The design capacity at the worst case, with every duty pump and with one pump out."""
+    cap = solution.capacity
+    if cap is None:
+        return []
+    fl = unit_label("flow", system)
+
+    def q(value: float) -> str:
+        return f"{fixed_decimals(to_display(value, 'flow', system), 1)} {fl}"
+
+    def short(flow: float, fraction: float) -> str:
+        return "meets the design flow" if flow <= 0.0 else f"short by {q(flow)} ({percent_number(fraction, 1)} %)"
+
+    pumps = "1 pump" if cap.duty_count == 1 else f"{cap.duty_count} pumps"
+    out_pumps = "1 pump" if cap.pumps_one_out == 1 else f"{cap.pumps_one_out} pumps"
+    how = "standby running" if cap.standby_count >= 1 else "no standby"
+    return ["", f"Capacity (design flow {q(cap.design_flow_m3_s)}; {cap.static} static, {cap.pipe} pipe, "
+                f"{percent_number(cap.speed_ratio)} % speed):",
+            f"  all duty pumps ({pumps}): {q(cap.flow_all_duty_m3_s)}, "
+            f"{short(cap.shortfall_all_duty_m3_s, cap.shortfall_all_duty_fraction)}",
+            f"  one pump out of service ({out_pumps}, {how}): {q(cap.flow_one_out_m3_s)}, "
+            f"{short(cap.shortfall_one_out_m3_s, cap.shortfall_one_out_fraction)}"]
+
+
 def summary_text(solution: Solution, system: str = "SI") -> str:
     """A plain-text report of one solved project in the chosen unit system."""
     def d(value: float | None, quantity: str, decimals: int = 2) -> str:
@@ -196,6 +220,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
         if vs.minimum_lift_speed_ratio is not None:
             out.append(f"  lowest speed that lifts against the maximum static head: "
                        f"{percent_number(vs.minimum_lift_speed_ratio, 1)} %")
+    out += _capacity_section(solution, system)
     e = solution.energy
     if e is not None:
         out += ["", "Energy (normal duty: aged pipe, mean of the static extremes):"]

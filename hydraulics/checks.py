@@ -34,6 +34,18 @@ Stable codes (never renamed; scripts and tests rely on them):
 ``profile_length_mismatch``  the profile's chainages do not match the length of the main
 ========================  =========================================================
 
+Capacity codes are raised by :func:`hydraulics.capacity.capacity_findings`:
+
+==========================  =======================================================
+``design_flow_not_met``     the duty pumps at maximum speed fall short of the design flow at the worst case
+``no_standby``              no standby pump; the capacity with one pump out
+==========================  =======================================================
+
+The point checks (operating region, NPSH, extrapolation) run at every solved point: the
+arrangement's speed, the drive's minimum and maximum speeds and the speeds found for the
+design flow (:func:`point_findings`); the same finding at several points is given once,
+naming every scenario (:func:`group_scenario_findings`).
+
 Speed-control codes are raised by :func:`hydraulics.variable_speed.variable_speed_findings`:
 
 ========================  =========================================================
@@ -64,6 +76,7 @@ from hydraulics.results import (
     Finding,
     FindingTarget,
     OperatingPoint,
+    ScenarioKey,
     SegmentResult,
     control_label,
     finding,
@@ -75,11 +88,16 @@ if TYPE_CHECKING:  # imported by the solve only where a pump is fitted
     from hydraulics.system_curve import SystemHydraulics
 
 
-def _scenario_label(point: OperatingPoint) -> str:
-    n = point.pumps_running
+def scenario_label(point: OperatingPoint) -> str:
+    """``"2 pumps at 70 % speed, max static, aged pipe"`` (the speed left out at 100 %)."""
+    return _key_label((point.static, point.pipe, point.pumps_running, point.speed_ratio))
+
+
+def _key_label(key: ScenarioKey) -> str:
+    static, pipe, n, speed_ratio = key
     pumps = "1 pump" if n == 1 else f"{n} pumps"
-    speed = "" if abs(point.speed_ratio - 1.0) < 1e-9 else f" at {percent_number(point.speed_ratio)} % speed"
-    return f"{pumps}{speed}, {point.static} static, {point.pipe} pipe"
+    speed = "" if abs(speed_ratio - 1.0) < 1e-9 else f" at {percent_number(speed_ratio)} % speed"
+    return f"{pumps}{speed}, {static} static, {pipe} pipe"
 
 
 FLANGE_PIECE_MAX_DIAMETERS = 5.0
@@ -104,7 +122,9 @@ def pump_flange_pieces(project: Project) -> frozenset[int]:
 
 def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
                       at_highest_flow: Sequence[SegmentResult] | None = None,
-                      at_lowest_flow: Sequence[SegmentResult] | None = None) -> list[Finding]:
+                      at_lowest_flow: Sequence[SegmentResult] | None = None,
+                      lowest_where: Mapping[int, str] | None = None,
+                      highest_where: Mapping[int, str] | None = None) -> list[Finding]:
     """Velocity limits per side (common practice; every limit editable in the criteria).
 
     The minimum is checked at the lowest expected flow (design flow when no pump) and the
@@ -113,7 +133,8 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
     of each pump's own branch is checked at the flow of one running pump, and the message
     says that the flow quoted is per pump.  A pump's flange piece (:func:`pump_flange_pieces`)
     is not checked: its bore is the pump's flange, set by the pump, and the velocity limits
-    are pipe-sizing criteria for the pipework.
+    are pipe-sizing criteria for the pipework.  ``lowest_where``/``highest_where`` name,
+    per segment index, the scenario of the extreme flow; it is added to the finding's place.
     """
     c = project.criteria
     out: list[Finding] = []
@@ -134,18 +155,22 @@ def velocity_findings(project: Project, at_design: Sequence[SegmentResult],
         per_pump = " per pump" if seg_low.carries == "pump" else ""
         if seg_low.velocity_m_s < v_min:
             why = " (self-cleansing minimum for sewage)" if c.sewage and seg_low.side == "delivery" else ""
+            scenario = (lowest_where or {}).get(seg_low.index)
             out.append(finding(
                 "warning", "velocity_low",
                 "Velocity {v} at {q}" + per_pump + " is below the minimum {limit}" + why + ".",
                 {"v": (seg_low.velocity_m_s, "velocity"), "q": (seg_low.flow_m3_s, "flow"),
                  "limit": (v_min, "velocity")},
-                where, "Try a smaller diameter, or plan flushing flows.", target))
+                where if scenario is None else f"{where}, {scenario}",
+                "Try a smaller diameter, or plan flushing flows.", target))
         if seg_high.velocity_m_s > v_max:
+            scenario = (highest_where or {}).get(seg_high.index)
             out.append(finding(
                 "warning", "velocity_high", "Velocity {v} at {q}" + per_pump + " is above the maximum {limit}.",
                 {"v": (seg_high.velocity_m_s, "velocity"), "q": (seg_high.flow_m3_s, "flow"),
                  "limit": (v_max, "velocity")},
-                where, "Try a larger diameter; high velocity costs energy and raises surge.", target))
+                where if scenario is None else f"{where}, {scenario}",
+                "Try a larger diameter; high velocity costs energy and raises surge.", target))
     return out
 
 
@@ -447,11 +472,28 @@ def pump_findings(project: Project, fitted: FittedPump, points: Sequence[Operati
             f"Impeller trim of {percent_number(trim)} % is beyond {percent_number(criteria.trim_warning_limit)} %; "
             "the affinity laws for trim are only approximate for small trims.",
             pump_where, "Ask the manufacturer for the tested curve of the trimmed impeller.", pump_target))
+    out.extend(point_findings(project, fitted, points))
+    return out
+
+
+def point_findings(project: Project, fitted: FittedPump, points: Sequence[OperatingPoint],
+                   missing: bool = True) -> list[Finding]:
+    """The checks of each operating point: found or not, extrapolation, NPSH margin, operating region.
+
+    Each finding's target is the point's scenario.  ``missing`` False leaves out the
+    ``no_operating_point`` findings (at the drive's minimum speed the lift is checked by
+    ``minimum_speed_cannot_lift`` instead).
+    """
+    criteria = project.criteria
+    pump_where = f"pump '{fitted.pump.name}'"
+    out: list[Finding] = []
     for point in points:
-        label = _scenario_label(point)
+        label = scenario_label(point)
         where = f"{pump_where}, {label}"
-        target = ("scenario", (point.static, point.pipe, point.pumps_running, point.speed_ratio))
+        target: FindingTarget = ("scenario", (point.static, point.pipe, point.pumps_running, point.speed_ratio))
         if not point.found:
+            if not missing:
+                continue
             remedy = "Check the static head, the pump curve and the number of pumps running."
             if point.reason_template is not None:  # quoted heads follow the display units
                 out.append(finding("critical", "no_operating_point", f"No operating point: {point.reason_template}.",
@@ -494,6 +536,15 @@ def _npsh_findings(point: OperatingPoint, criteria: Criteria, where: str, target
     return []
 
 
+def _ratio_text(ratio: float, criteria: Criteria) -> str:
+    """The best-efficiency flow ratio as a whole percentage, with one decimal where that would
+    equal a region bound (39.8 % against a 40 % bound must not read "40 %")."""
+    whole = percent_number(ratio)
+    bounds = (criteria.allowable_region_low, criteria.allowable_region_high,
+              criteria.preferred_region_low, criteria.preferred_region_high)
+    return percent_number(ratio, 1) if whole in {percent_number(b) for b in bounds} else whole
+
+
 def _region_findings(point: OperatingPoint, criteria: Criteria, where: str, target: FindingTarget) -> list[Finding]:
     ratio = point.bep_flow_ratio
     if ratio is None:
@@ -501,16 +552,50 @@ def _region_findings(point: OperatingPoint, criteria: Criteria, where: str, targ
     if not criteria.allowable_region_low <= ratio <= criteria.allowable_region_high:
         return [Finding(
             "critical", "outside_allowable",
-            f"Runs at {percent_number(ratio)} % of best-efficiency flow, outside the allowable region "
+            f"Runs at {_ratio_text(ratio, criteria)} % of best-efficiency flow, outside the allowable region "
             f"{percent_number(criteria.allowable_region_low)}–{percent_number(criteria.allowable_region_high)} %.",
             where, "Change the number of pumps, the speed or the pump selection.", target)]
     if not criteria.preferred_region_low <= ratio <= criteria.preferred_region_high:
         return [Finding(
             "warning", "outside_preferred",
-            f"Runs at {percent_number(ratio)} % of best-efficiency flow, outside the preferred region "
+            f"Runs at {_ratio_text(ratio, criteria)} % of best-efficiency flow, outside the preferred region "
             f"{percent_number(criteria.preferred_region_low)}–{percent_number(criteria.preferred_region_high)} %.",
             where, "Consider variable speed or a pump whose best-efficiency point is nearer the duty.", target)]
     return []
+
+
+def group_scenario_findings(findings: Iterable[Finding]) -> list[Finding]:
+    """The same finding at several scenarios given once, naming every scenario where it occurs.
+
+    Findings about a scenario (target ``("scenario", key)``) with the same severity, code,
+    message and remedy are one finding: its place is the pump and the scenarios in turn,
+    its target the first scenario.  Other findings pass unchanged, in their order.
+    """
+    out: list[Finding] = []
+    groups: dict[tuple[str, ...], list[Finding]] = {}
+    slots: dict[tuple[str, ...], int] = {}
+    for item in findings:
+        if item.target is None or item.target[0] != "scenario":
+            out.append(item)
+            continue
+        key: tuple[str, ...] = (item.severity, item.code, item.message, item.remedy)
+        if key not in groups:
+            groups[key] = []
+            slots[key] = len(out)
+            out.append(item)
+        groups[key].append(item)
+    for key, members in groups.items():
+        if len(members) < 2:
+            continue
+        first = members[0]
+        scenario_keys = list(dict.fromkeys(m.target[1] for m in members if m.target is not None))
+        labels = "; ".join(_key_label(k) for k in scenario_keys if isinstance(k, tuple))
+        suffix = ", " + _key_label(scenario_keys[0]) if isinstance(scenario_keys[0], tuple) else ""
+        pump_part = first.where[:-len(suffix)] if suffix and first.where.endswith(suffix) else first.where
+        where = f"{pump_part}, {len(scenario_keys)} scenarios: {labels}"
+        out[slots[key]] = Finding(first.severity, first.code, first.message, where, first.remedy, first.target,
+                                  template=first.template, values=first.values)
+    return out
 
 
 def sort_findings(findings: Iterable[Finding]) -> tuple[Finding, ...]:

@@ -30,8 +30,8 @@ __all__ = [
     "FloatArray", "Severity", "Regime", "QuotedValue", "ScenarioKey", "FindingTarget",
     "FluidProperties", "SystemCurve", "SegmentResult", "Finding", "render_template", "finding",
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
-    "SpeedForFlow", "VariableSpeedResult", "ScenarioEnergy", "EnergyResult", "Solution",
-    "ProfileLine", "ProfileResult", "control_label", "PumpSpecificSpeeds", "NpshWorstCase",
+    "SpeedForFlow", "VariableSpeedResult", "SpeedPoint", "CapacityResult", "ScenarioEnergy", "EnergyResult",
+    "Solution", "ProfileLine", "ProfileResult", "control_label", "PumpSpecificSpeeds", "NpshWorstCase",
 ]
 
 FloatArray: TypeAlias = NDArray[np.float64]
@@ -396,6 +396,67 @@ class VariableSpeedResult:
 
 
 @dataclass(frozen=True)
+class SpeedPoint:
+    """One checked operating point and why it was solved, with the codes of its findings.
+
+    ``basis`` names each reason the point was solved: ``"fixed speed"`` (the arrangement's
+    own speed), ``"minimum speed"``, ``"maximum speed"`` (the drive's range) or
+    ``"design flow with 1 pump"`` / ``"design flow with 2 pumps"`` (the speed found for the
+    design flow in this scenario).  ``finding_codes`` lists the codes of the point checks
+    raised there (operating region, NPSH, extrapolation; each code once).
+    """
+
+    point: OperatingPoint
+    basis: tuple[str, ...]
+    finding_codes: tuple[str, ...]
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {**self.point.to_json_dict(), "basis": list(self.basis), "findings": list(self.finding_codes)}
+
+
+@dataclass(frozen=True)
+class CapacityResult:
+    """What the station delivers at the worst case against the design flow.
+
+    The worst case is the maximum static head with aged pipe at the drive's maximum speed
+    ratio.  ``flow_all_duty_m3_s`` is the station flow with every duty pump running;
+    ``flow_one_out_m3_s`` the flow with the largest pump out of service: the pumps being
+    identical, ``pumps_one_out`` = ``duty_count`` when a standby pump can take the place of
+    the one out, else ``duty_count − 1`` (0 pumps deliver nothing).  A flow is 0 where the
+    pumps cannot lift against the system at all.  Shortfalls are design flow less the flow,
+    never negative; the fractions are shares of the design flow.
+    """
+
+    design_flow_m3_s: float
+    static: str
+    pipe: str
+    speed_ratio: float
+    duty_count: int
+    standby_count: int
+    flow_all_duty_m3_s: float
+    shortfall_all_duty_m3_s: float
+    shortfall_all_duty_fraction: float
+    pumps_one_out: int
+    flow_one_out_m3_s: float
+    shortfall_one_out_m3_s: float
+    shortfall_one_out_fraction: float
+
+    @property
+    def meets_design(self) -> bool:
+        """The duty pumps deliver the design flow at the worst case."""
+        return self.shortfall_all_duty_m3_s <= 0.0
+
+    @property
+    def meets_design_one_out(self) -> bool:
+        """The design flow is still delivered with the largest pump out of service."""
+        return self.shortfall_one_out_m3_s <= 0.0
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {**asdict(self), "meets_design": self.meets_design,
+                "meets_design_one_out": self.meets_design_one_out}
+
+
+@dataclass(frozen=True)
 class ScenarioEnergy:
     """Annual energy if the station ran all year at one operating point."""
 
@@ -524,7 +585,9 @@ class Solution:
 
     ``complete`` is False for the first stage of a solve
     (:func:`hydraulics.solve.solve_curves`): curves, pump curves, operating points, NPSH
-    and energy are final, but the checks (``findings``) and the variable-speed results
+    and energy are final, but the checks (``findings``), the variable-speed results, the
+    design ``capacity`` and the checked ``speed_points`` (every point the checks saw: the
+    arrangement's speed, the drive's minimum and maximum, the speeds for the design flow)
     are not computed yet.
     """
 
@@ -549,6 +612,8 @@ class Solution:
     """Per entry of ``pump_fits``: its specific speeds (``None`` without a best-efficiency point)."""
     npsh_worst_case: NpshWorstCase | None = None
     """The conservative NPSH case (``None`` without a pump, NPSH data or a found point)."""
+    capacity: CapacityResult | None = None
+    speed_points: tuple[SpeedPoint, ...] = ()
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

@@ -12,6 +12,15 @@ without a best-efficiency point), and ``npsh_worst_case`` is the conservative NP
 :class:`hydraulics.results.NpshWorstCase`, ``None`` without NPSH data).  Each operating
 point's ``npsh_available_m`` is at its own scenario's suction level (the highest suction
 level at minimum static head, the lowest at maximum static head).
+Since the checks at every speed: ``capacity`` and ``speed_points``.
+
+``capacity`` (``None`` without a pump) is the station's flow at the worst case (maximum
+static, aged pipe, the drive's maximum speed) against the design flow, with every duty pump
+and with the largest pump out of service, and the shortfalls as flows and shares of the
+design flow (:class:`hydraulics.results.CapacityResult`).  ``speed_points`` lists every
+operating point the checks saw — at the arrangement's speed, the drive's minimum and
+maximum speeds and the speeds found for the design flow — each an operating point's keys
+plus ``basis`` (why it was solved) and ``findings`` (the codes of its point checks).
 
 ``segments`` lists every segment at the design flow with the duty pumps running (each entry
 also says what it ``carries`` and its ``flow_m3_s``); ``branches`` lists the segments of
@@ -140,5 +149,7 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
         "profile": _to_dict(solution.profile),
         "control_point": _control_points(solution),
         "npsh_worst_case": _to_dict(solution.npsh_worst_case),
+        "capacity": _to_dict(solution.capacity),
+        "speed_points": [p.to_json_dict() for p in solution.speed_points],
     }
     return {key: _clean(value) for key, value in data.items()}

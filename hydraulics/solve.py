@@ -22,7 +22,7 @@ from hydraulics import checks, range_guards
 from hydraulics.atmosphere import standard_atmosphere_pressure
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.fluid import fluid_properties
-from hydraulics.model import Project, PumpModel
+from hydraulics.model import Arrangement, Project, PumpModel
 from hydraulics.profile_solution import solved_profile
 from hydraulics.results import (
     FloatArray,
@@ -32,12 +32,14 @@ from hydraulics.results import (
     PumpCurve,
     SegmentResult,
     Solution,
+    SpeedPoint,
 )
 from hydraulics.system_curve import SystemHydraulics, flow_grid, prepare_system, segment_results, system_curves
 from hydraulics.validation import validate_project
 
 if TYPE_CHECKING:
     from hydraulics.pump_fit import FittedPump
+    from hydraulics.variable_speed import SpeedSearch
 
 DEFAULT_FLOW_POINTS = 256
 
@@ -158,9 +160,14 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
 def complete_solution(stage: CurvesStage) -> Solution:
     """The finished :class:`Solution`: ``stage``'s results with the checks and variable speed.
 
-    Variable speed: the speeds that deliver the design flow are searched and the
-    operating points intersected afresh at those speeds (those at the arrangement's own
-    speed are reused).  Everything of ``stage`` is passed on unchanged (the same objects).
+    Variable speed: the speeds that deliver the design flow are searched, with the duty
+    pumps and with one pump, and the operating points intersected afresh, in one batch, at
+    those speeds and at the drive's minimum and maximum speeds (those at the arrangement's
+    own speed are reused).  The point checks (region, NPSH, extrapolation) and the
+    velocities run over all of them (:func:`_checked_points`), identical scenario findings
+    grouped; the design capacity comes from the worst-case points at the maximum speed
+    (:mod:`hydraulics.capacity`).  Everything of ``stage`` is passed on unchanged (the same
+    objects).
     """
     first = stage.solution
     project, system = first.project, stage.system
@@ -178,28 +185,88 @@ def complete_solution(stage: CurvesStage) -> Solution:
         findings += range_guards.range_guard_findings(project, first.fluid, at_design, None, ())
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
+    from hydraulics.capacity import capacity_findings, station_capacity
     from hydraulics.npsh_worst_case import npsh_worst_case_findings
     from hydraulics.operating_points import operating_points
     from hydraulics.specific_speed import criteria_findings
     from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
 
-    search = search_speeds(system, fitted, arrangement, project.site.design_flow_m3_s)
-    other_speeds = tuple(s for s in dict.fromkeys(search.speeds_to_intersect) if s != float(arrangement.speed_ratio))
+    design_flow = project.site.design_flow_m3_s
+    search = search_speeds(system, fitted, arrangement, design_flow)
+    searches = [search]
+    if arrangement.duty_count > 1:  # one pump on variable speed as well as the full duty set
+        searches.append(search_speeds(system, fitted, arrangement, design_flow, pumps_running=1))
+    own = float(arrangement.speed_ratio)
+    wanted = (float(arrangement.min_speed_ratio), float(arrangement.max_speed_ratio)) + tuple(
+        s for item in searches for s in item.speeds_to_intersect)
+    other_speeds = tuple(s for s in dict.fromkeys(wanted) if s != own)
     at_speeds = points
-    if other_speeds:
+    if other_speeds:  # one batch: every speed re-intersected with the system curves, never scaled
         at_speeds += operating_points(system, fitted, arrangement, stage.npsh_static_by_case_m,
                                       first.fluid.density_kg_m3, speed_ratios=other_speeds)
     speed = variable_speed_points(search, at_speeds)
+    checked = _checked_points(arrangement, at_speeds, searches)
 
-    found = [p for p in points if p.found and p.flow_m3_s is not None]
-    lowest = _segments_at_extreme(system, found, highest=False) if found else None
-    highest = _segments_at_extreme(system, found, highest=True) if found else None
-    findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
-    findings += checks.pump_findings(project, fitted, points, system.lift_head(system.static_head_m["max"]))
+    pump_where, pump_target = f"pump '{fitted.pump.name}'", ("pump", fitted.pump.pump_id)
+    at_points = checks.pump_findings(project, fitted, points, system.lift_head(system.static_head_m["max"]))
+    extra = [point for point, _ in checked if point.speed_ratio != own]
+    at_points += checks.point_findings(project, fitted, extra, missing=False)
+    codes: dict[tuple[str, str, int, float], list[str]] = {}
+    for item in at_points:
+        if item.target is not None and item.target[0] == "scenario" and isinstance(item.target[1], tuple):
+            codes.setdefault(item.target[1], []).append(item.code)
+    speed_points = tuple(SpeedPoint(p, basis, tuple(dict.fromkeys(codes.get(_key(p), ()))))
+                         for p, basis in checked)
+
+    found = [p for p, _ in checked if p.found and p.flow_m3_s is not None]
+    lowest, low_where = _segments_at_extreme(system, found, highest=False) if found else (None, None)
+    highest, high_where = _segments_at_extreme(system, found, highest=True) if found else (None, None)
+    findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest,
+                                         lowest_where=low_where, highest_where=high_where)
+    findings += checks.group_scenario_findings(at_points)
     findings += variable_speed_findings(speed, fitted)
     findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, (fitted,))
     findings += criteria_findings(project.criteria, fitted) + npsh_worst_case_findings(project, first.npsh_worst_case)
-    return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True)
+    capacity = station_capacity(arrangement, design_flow, at_speeds)
+    findings += capacity_findings(capacity, pump_where, pump_target)
+    return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True,
+                   capacity=capacity, speed_points=speed_points)
+
+
+def _key(point: OperatingPoint) -> tuple[str, str, int, float]:
+    return (point.static, point.pipe, point.pumps_running, point.speed_ratio)
+
+
+def _checked_points(arrangement: Arrangement, points: tuple[OperatingPoint, ...],
+                    searches: list[SpeedSearch]) -> list[tuple[OperatingPoint, tuple[str, ...]]]:
+    """The points the checks see, each with why it was solved (see :class:`~hydraulics.results.SpeedPoint`).
+
+    Every point at the arrangement's speed and at the drive's minimum and maximum speeds
+    (all pumps running 1..N); at a speed found for the design flow only the scenario that
+    found it (that static extreme, pipe state and number of pumps).
+    """
+    own, s_min, s_max = (float(arrangement.speed_ratio), float(arrangement.min_speed_ratio),
+                         float(arrangement.max_speed_ratio))
+    design: dict[tuple[str, str, int, float], list[str]] = {}
+    for search in searches:
+        n = search.pumps_running
+        label = "design flow with 1 pump" if n == 1 else f"design flow with {n} pumps"
+        for item in search.scenarios:
+            if item.achievable and item.speed_ratio is not None:
+                design.setdefault((item.static, item.pipe, n, item.speed_ratio), []).append(label)
+    out = []
+    for p in points:
+        basis = []
+        if p.speed_ratio == own:
+            basis.append("fixed speed")
+        if p.speed_ratio == s_min:
+            basis.append("minimum speed")
+        if p.speed_ratio == s_max:
+            basis.append("maximum speed")
+        basis += design.get(_key(p), [])
+        if basis:
+            out.append((p, tuple(dict.fromkeys(basis))))
+    return out
 
 
 @lru_cache(maxsize=16)
@@ -290,19 +357,23 @@ def _curves_at_manifold(system: SystemHydraulics, curves: tuple[PumpCurve, ...])
 
 
 def _segments_at_extreme(system: SystemHydraulics, points: list[OperatingPoint],
-                         highest: bool) -> tuple[SegmentResult, ...]:
+                         highest: bool) -> tuple[tuple[SegmentResult, ...], dict[int, str]]:
     """The segment table at the highest (or lowest) flow each segment sees over ``points``.
 
     A common segment sees its extreme at the extreme station flow; a pump-branch segment
     at the extreme per-pump flow Q/N, which need not be the same operating point (one
-    pump alone runs further out on its curve than each of two).
+    pump alone runs further out on its curve than each of two).  With it, per segment
+    index, the scenario of that flow.
     """
     pick = max if highest else min
     by_station = pick(points, key=lambda p: float(p.flow_m3_s or 0.0))
     station_rows = segment_results(system, float(by_station.flow_m3_s or 0.0),
                                    pumps_running=by_station.pumps_running)
+    station_label = checks.scenario_label(by_station)
     if not system.has_branches:
-        return station_rows
+        return station_rows, {row.index: station_label for row in station_rows}
     by_pump = pick(points, key=lambda p: float(p.flow_m3_s or 0.0) / p.pumps_running)
     branch_rows = segment_results(system, float(by_pump.flow_m3_s or 0.0), pumps_running=by_pump.pumps_running)
-    return tuple(b if b.carries == "pump" else s for s, b in zip(station_rows, branch_rows, strict=True))
+    pump_label = checks.scenario_label(by_pump)
+    rows = tuple(b if b.carries == "pump" else s for s, b in zip(station_rows, branch_rows, strict=True))
+    return rows, {row.index: pump_label if row.carries == "pump" else station_label for row in rows}

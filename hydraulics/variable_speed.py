@@ -91,13 +91,14 @@ class SpeedSearch:
 
 
 def search_speeds(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrangement,
-                  target_flow_m3_s: float) -> SpeedSearch:
-    """Speed ratios that deliver ``target_flow_m3_s`` with the duty pumps, per static extreme and pipe state.
+                  target_flow_m3_s: float, pumps_running: int | None = None) -> SpeedSearch:
+    """Speed ratios that deliver ``target_flow_m3_s`` with N pumps, per static extreme and pipe state.
 
     Solves S (s t)² H_rated(Q_t / (N s t)) = H_system(Q_t) for s in
     [min_speed_ratio, max_speed_ratio] (affinity laws; see the module docstring) and the
     lowest lifting speed; the operating points at those speeds are left to
-    :func:`variable_speed_points`.
+    :func:`variable_speed_points`.  N is ``pumps_running`` (1..duty_count), by default
+    the arrangement's duty pumps.
     """
     if not (math.isfinite(target_flow_m3_s) and target_flow_m3_s > 0.0):
         raise ModelError("site.design_flow_m3_s", "must be a positive flow", target_flow_m3_s)
@@ -105,7 +106,9 @@ def search_speeds(system: SystemHydraulics, fitted: FittedPump, arrangement: Arr
     if not (0.0 < s_lo <= s_hi):
         raise ModelError("arrangement.min_speed_ratio",
                          "must be positive and not above the maximum speed ratio", s_lo)
-    n = int(arrangement.duty_count)
+    n = int(arrangement.duty_count) if pumps_running is None else int(pumps_running)
+    if not 1 <= n <= int(arrangement.duty_count):
+        raise ModelError("arrangement.duty_count", "the pumps running must be 1..duty_count", n)
     stages, trim = int(arrangement.series_stages), float(arrangement.trim_ratio)
 
     labels = [(static, pipe) for static in STATIC_CASES for pipe in PIPE_STATES]
@@ -134,12 +137,13 @@ def search_speeds(system: SystemHydraulics, fitted: FittedPump, arrangement: Arr
             limit, reason = None, None
         elif too_little[i]:
             limit = LIMITED_BY_MAX
-            reason = (f"the duty pumps cannot deliver the target flow even at the maximum speed ratio "
-                      f"{percent_number(s_hi)} %")
+            reason = (f"{_pumps_phrase(n, arrangement)} cannot deliver the target flow even at the maximum speed "
+                      f"ratio {percent_number(s_hi)} %")
         elif too_much[i]:
             limit = LIMITED_BY_MIN
-            reason = (f"even at the minimum speed ratio {percent_number(s_lo)} % the duty pumps deliver more than "
-                      "the target flow")
+            verb = "delivers" if n == 1 and n != arrangement.duty_count else "deliver"
+            reason = (f"even at the minimum speed ratio {percent_number(s_lo)} % {_pumps_phrase(n, arrangement)} "
+                      f"{verb} more than the target flow")
         else:
             limit, reason = None, "no speed found (the pump head does not vary steadily with speed)"
         scenarios.append(SpeedForFlow(
@@ -157,6 +161,13 @@ def search_speeds(system: SystemHydraulics, fitted: FittedPump, arrangement: Arr
         scenarios=tuple(scenarios), minimum_lift_speed_ratio=s_lift, minimum_lift_reason=lift_reason,
         speeds_solved=tuple(sorted({float(s) for s in speed[achievable].tolist()}, reverse=True)),
     )
+
+
+def _pumps_phrase(n: int, arrangement: Arrangement) -> str:
+    """"the duty pumps" for the full duty set, else "1 pump" / "n pumps"."""
+    if n == int(arrangement.duty_count):
+        return "the duty pumps"
+    return "1 pump" if n == 1 else f"{n} pumps"
 
 
 def variable_speed_points(search: SpeedSearch, points: tuple[OperatingPoint, ...]) -> VariableSpeedResult:

@@ -16,7 +16,7 @@ PUMP_FILES = sorted((ROOT / "sample_projects" / "pumps").glob("*.csv"))
 
 ENGINE_KEYS = {"format", "version", "project", "cautions", "fluid", "static_head_m", "design_flow_m3_s",
                "system_curves", "segments", "findings", "branches", "profile", "control_point"}
-PUMP_KEYS = {"pumps", "operating_points", "variable_speed", "energy"}
+PUMP_KEYS = {"pumps", "operating_points", "variable_speed", "energy", "capacity", "speed_points"}
 SEGMENT_KEYS = {"name", "side", "length_m", "internal_diameter_m", "roughness_m", "parallel_pipes",
                 "velocity_m_s", "reynolds", "friction_factor", "friction_loss_m", "minor_k_total", "minor_loss_m",
                 "carries", "flow_m3_s"}

@@ -1,0 +1,118 @@
+"""Design capacity: what the station delivers at the worst case, with every duty pump and with one out.
+
+The worst case for capacity is the highest system curve: the maximum static head with
+aged pipe, the pumps at the drive's maximum speed ratio.  The station must deliver the
+design flow there with its duty pumps, and still deliver it with the largest pump out of
+service — the purpose of a standby pump (firm capacity: "Recommended Standards for
+Wastewater Facilities", Great Lakes–Upper Mississippi River Board, 2014, §42.3 — from
+memory, verify; the same rule is common practice for water stations).
+
+With identical pumps the largest pump out of service is any one of them: with at least
+one standby installed, ``duty_count`` pumps still run (the standby takes the place of the
+one out); without a standby ``duty_count − 1`` run.
+
+Codes (stable, listed with the others in :mod:`hydraulics.checks`):
+
+* ``design_flow_not_met`` (critical): the duty pumps at the maximum speed deliver less
+  than the design flow at the worst case; the shortfall is quoted as a flow and a share.
+* ``no_standby`` (warning, info when the remaining pumps still meet the design flow):
+  no standby pump is installed; the message gives the capacity with one pump out.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+from hydraulics.model import Arrangement
+from hydraulics.number_format import percent_number
+from hydraulics.results import CapacityResult, Finding, FindingTarget, OperatingPoint, finding
+
+WORST_STATIC = "max"
+WORST_PIPE = "aged"
+
+SHORTFALL_TOLERANCE = 1e-6
+"""A shortfall below this share of the design flow is numerical noise (the duty-point solve
+converges to far better than this), not a shortfall."""
+
+
+def _flow_with(points: Sequence[OperatingPoint], pumps_running: int, speed_ratio: float) -> float:
+    """The station flow of ``pumps_running`` pumps at the worst case (0 without pumps or without a point)."""
+    if pumps_running < 1:
+        return 0.0
+    for p in points:
+        if (p.static == WORST_STATIC and p.pipe == WORST_PIPE and p.pumps_running == pumps_running
+                and p.speed_ratio == speed_ratio):
+            return float(p.flow_m3_s) if p.found and p.flow_m3_s is not None else 0.0
+    raise ValueError(f"no operating point with {pumps_running} pump(s) at speed ratio {speed_ratio}")
+
+
+def _shortfall(design_flow_m3_s: float, flow_m3_s: float) -> tuple[float, float]:
+    short = design_flow_m3_s - flow_m3_s
+    if short <= SHORTFALL_TOLERANCE * design_flow_m3_s:
+        return 0.0, 0.0
+    return short, short / design_flow_m3_s
+
+
+def station_capacity(arrangement: Arrangement, design_flow_m3_s: float,
+                     points: Sequence[OperatingPoint]) -> CapacityResult:
+    """The capacity at the worst case from ``points`` solved at ``arrangement.max_speed_ratio``.
+
+    ``points`` must hold the worst-case points (maximum static, aged pipe) at the maximum
+    speed ratio with ``duty_count`` pumps and, without a standby, ``duty_count − 1`` pumps
+    (as :func:`hydraulics.operating_points.operating_points` solves 1..N at once).  The flows
+    are those re-intersected with the system curve at that speed, never scaled.
+    """
+    speed = float(arrangement.max_speed_ratio)
+    duty, standby = int(arrangement.duty_count), int(arrangement.standby_count)
+    design = float(design_flow_m3_s)
+    flow_all = _flow_with(points, duty, speed)
+    pumps_one_out = duty if standby >= 1 else duty - 1
+    flow_one_out = flow_all if pumps_one_out == duty else _flow_with(points, pumps_one_out, speed)
+    short_all, share_all = _shortfall(design, flow_all)
+    short_out, share_out = _shortfall(design, flow_one_out)
+    return CapacityResult(
+        design_flow_m3_s=design, static=WORST_STATIC, pipe=WORST_PIPE, speed_ratio=speed,
+        duty_count=duty, standby_count=standby,
+        flow_all_duty_m3_s=flow_all, shortfall_all_duty_m3_s=short_all, shortfall_all_duty_fraction=share_all,
+        pumps_one_out=pumps_one_out, flow_one_out_m3_s=flow_one_out,
+        shortfall_one_out_m3_s=short_out, shortfall_one_out_fraction=share_out,
+    )
+
+
+def _pumps(n: int) -> str:
+    return "1 pump" if n == 1 else f"{n} pumps"
+
+
+def capacity_findings(capacity: CapacityResult, where: str, target: FindingTarget | None) -> list[Finding]:
+    """The findings of :func:`station_capacity`'s result (codes in the module docstring)."""
+    case = (f"at the maximum speed ratio {percent_number(capacity.speed_ratio)} %, maximum static head and aged "
+            "pipe")
+    out: list[Finding] = []
+    if not capacity.meets_design:
+        out.append(finding(
+            "critical", "design_flow_not_met",
+            f"With {_pumps(capacity.duty_count)} running {case} the station delivers {{q}}, short of the design "
+            f"flow {{design}} by {{short}} ({percent_number(capacity.shortfall_all_duty_fraction, 1)} %).",
+            {"q": (capacity.flow_all_duty_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),
+             "short": (capacity.shortfall_all_duty_m3_s, "flow")},
+            where, "Choose a larger pump, more duty pumps, a higher maximum speed or a larger main.", target))
+    if capacity.standby_count >= 1:  # identical pumps: the standby restores the full duty set
+        return out
+    values = {"q": (capacity.flow_one_out_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),
+              "short": (capacity.shortfall_one_out_m3_s, "flow")}
+    if capacity.meets_design_one_out:
+        out.append(finding(
+            "info", "no_standby",
+            f"No standby pump is installed; with one pump out of service and {_pumps(capacity.pumps_one_out)} "
+            f"running {case} the station still delivers {{q}}, at least the design flow {{design}}.",
+            values, where, "Keep a spare pump or rotating assembly in store.", target))
+        return out
+    share = percent_number(capacity.shortfall_one_out_fraction, 1)
+    running = ("no pump is left to run" if capacity.pumps_one_out == 0
+               else f"{_pumps(capacity.pumps_one_out)} running {case}")
+    out.append(finding(
+        "warning", "no_standby",
+        f"No standby pump is installed; with one pump out of service and {running} the station delivers {{q}}, "
+        f"short of the design flow {{design}} by {{short}} ({share} %).",
+        values, where, "Install a standby pump able to replace the largest duty pump.", target))
+    return out
