@@ -38,8 +38,23 @@ def findings_of(project, code):
     return [f for f in solve(project).findings if f.code == code]
 
 
-def test_clean_sample_raises_no_guard():
-    assert not GUARD_CODES & set(codes(hilltop()))
+def fixed_speed(project):
+    """The sample run at its rated speed only (no drive range below it)."""
+    return replace(project, arrangement=replace(project.arrangement, min_speed_ratio=1.0, max_speed_ratio=1.0))
+
+
+def test_clean_sample_at_fixed_speed_raises_no_guard():
+    assert not GUARD_CODES & set(codes(fixed_speed(hilltop())))
+
+
+def test_at_its_minimum_drive_speed_the_sample_check_valve_is_not_fully_open():
+    # At 88 % speed and maximum static head one pump delivers about 20 L/s (the engine's speed points), so
+    # the swing check in the discharge branch runs below Crane's full-lift velocity: a real finding.
+    solution = solve(hilltop())
+    found = [f for f in solution.findings if f.code == "check_valve_not_fully_open"]
+    lowest = min(p.point.flow_per_pump_m3_s for p in solution.speed_points if p.point.found)
+    assert len(found) == 1
+    assert dict((n, v) for n, v, _ in found[0].values)["q"] == pytest.approx(lowest, rel=1e-9)
 
 
 def test_clean_under_hazen_williams_with_ordinary_water_raises_no_guard():
@@ -160,8 +175,8 @@ def test_check_valve_below_full_lift_is_a_warning_per_pump():
     assert len(found) == 1 and found[0].severity == "warning"
     assert found[0].target == ("segment", index)
     assert "per pump" in found[0].message and "lowest operating flow" in found[0].message
-    solution = solve(project)
-    lowest_branch_flow = min(p.flow_per_pump_m3_s for p in solution.operating_points if p.found)
+    solution = solve(project)  # the lowest flow over every point the checks see, reduced speeds included
+    lowest_branch_flow = min(p.point.flow_per_pump_m3_s for p in solution.speed_points if p.point.found)
     quoted = dict((name, value) for name, value, _ in found[0].values)
     assert quoted["q"] == pytest.approx(lowest_branch_flow, rel=1e-9)
 
