@@ -30,7 +30,8 @@ __all__ = [
     "FloatArray", "Severity", "Regime", "QuotedValue", "ScenarioKey", "FindingTarget",
     "FluidProperties", "SystemCurve", "SegmentResult", "Finding", "render_template", "finding",
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
-    "SpeedForFlow", "VariableSpeedResult", "ScenarioEnergy", "EnergyResult", "Solution",
+    "SpeedForFlow", "VariableSpeedResult", "SpeedCurve", "IsoEfficiencyLine", "SpeedMap", "ScenarioEnergy",
+    "EnergyResult", "Solution",
     "ProfileLine", "ProfileResult", "control_label",
 ]
 
@@ -388,6 +389,68 @@ class VariableSpeedResult:
         }
 
 
+@dataclass(frozen=True, eq=False)
+class SpeedCurve:
+    """The pump-set curve at one speed ratio, for the variable-speed view (station flow).
+
+    ``kind``: ``"maximum"`` / ``"minimum"`` (the drive's limits), ``"design"`` (a speed
+    found for the design flow), ``"step"`` (a speed between).  ``head_m`` is the head at
+    the manifold (net of one pump's branch loss at Q/N with ``pipe`` pipe) where the
+    project has pump branches, else ``plain_head_m``.  ``efficiency`` per pump, ``None``
+    without data.
+    """
+
+    speed_ratio: float
+    kind: str
+    pipe: str
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+    plain_head_m: FloatArray
+    efficiency: FloatArray | None
+
+
+@dataclass(frozen=True, eq=False)
+class IsoEfficiencyLine:
+    """The station points corresponding to one rated point over the drive's speed range.
+
+    By the affinity laws a parabola H ∝ Q² through the origin (at the manifold less the
+    branch loss).  ``side``: ``"below"`` or ``"above"`` the best-efficiency flow, ``"best"``
+    (the best-efficiency line) or ``"minimum flow"``.  ``rated_flow_m3_s`` is one pump's
+    flow at rated speed and full impeller.
+    """
+
+    efficiency: float
+    side: str
+    rated_flow_m3_s: float
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+
+
+@dataclass(frozen=True, eq=False)
+class SpeedMap:
+    """The duty pump set over its speed range (:func:`hydraulics.speed_map.speed_map`).
+
+    ``design_speed_range`` is the lowest and highest speed ratio found for the design flow
+    over the static extremes and pipe states (``None`` when none is achievable);
+    ``design_flow_met_everywhere`` is True when every one of them is achievable.
+    ``minimum_flow_per_pump_m3_s`` is the minimum continuous stable flow of one pump at
+    rated speed, ``minimum_flow_source`` says where its value comes from.
+    """
+
+    pumps_running: int
+    min_speed_ratio: float
+    max_speed_ratio: float
+    curves: tuple[SpeedCurve, ...]
+    equal_efficiency: tuple[IsoEfficiencyLine, ...]
+    best_efficiency: IsoEfficiencyLine | None
+    minimum_flow_per_pump_m3_s: float | None
+    minimum_flow_fraction: float | None
+    minimum_flow_source: str
+    minimum_flow_line: IsoEfficiencyLine | None
+    design_speed_range: tuple[float, float] | None
+    design_flow_met_everywhere: bool
+
+
 @dataclass(frozen=True)
 class ScenarioEnergy:
     """Annual energy if the station ran all year at one operating point."""
@@ -462,7 +525,7 @@ class Solution:
     ``complete`` is False for the first stage of a solve
     (:func:`hydraulics.solve.solve_curves`): curves, pump curves, operating points, NPSH
     and energy are final, but the checks (``findings``) and the variable-speed results
-    are not computed yet.
+    are not computed yet; nor is ``speed_map`` (the pump set over its speed range).
     """
 
     project: Project
@@ -482,6 +545,7 @@ class Solution:
     npsh_available_curve: NpshCurve | None = None
     complete: bool = True
     profile: ProfileResult | None = None
+    speed_map: SpeedMap | None = None
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

@@ -134,7 +134,7 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
 
 
 def complete_solution(stage: CurvesStage) -> Solution:
-    """The finished :class:`Solution`: ``stage``'s results with the checks and variable speed.
+    """The finished :class:`Solution`: ``stage``'s results with the checks, variable speed and the speed map.
 
     Variable speed: the speeds that deliver the design flow are searched and the
     operating points intersected afresh at those speeds (those at the arrangement's own
@@ -156,6 +156,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
     from hydraulics.operating_points import operating_points
+    from hydraulics.speed_map import speed_map
     from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
 
     search = search_speeds(system, fitted, arrangement, project.site.design_flow_m3_s)
@@ -172,7 +173,8 @@ def complete_solution(stage: CurvesStage) -> Solution:
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest)
     findings += checks.pump_findings(project, fitted, points, system.lift_head(system.static_head_m["max"]))
     findings += variable_speed_findings(speed, fitted)
-    return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True)
+    return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True,
+                   speed_map=speed_map(system, fitted, arrangement, speed))
 
 
 @lru_cache(maxsize=16)
