@@ -30,8 +30,8 @@ __all__ = [
     "FloatArray", "Severity", "Regime", "QuotedValue", "ScenarioKey", "FindingTarget",
     "FluidProperties", "SystemCurve", "SegmentResult", "Finding", "render_template", "finding",
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
-    "SpeedForFlow", "VariableSpeedResult", "SpeedCurve", "IsoEfficiencyLine", "SpeedMap", "ScenarioEnergy",
-    "EnergyResult", "Solution",
+    "SpeedForFlow", "VariableSpeedResult", "SpeedCurve", "IsoEfficiencyLine", "DesignFlowPoint", "SpeedMap",
+    "ScenarioEnergy", "EnergyResult", "Solution",
     "ProfileLine", "ProfileResult", "control_label",
 ]
 
@@ -426,6 +426,22 @@ class IsoEfficiencyLine:
     head_m: FloatArray
 
 
+@dataclass(frozen=True)
+class DesignFlowPoint:
+    """The design flow at one static extreme and pipe state, on the axes of the speed map.
+
+    ``head_m`` is the head the common pipework needs (at the manifold: the system head
+    less one pump's branch loss at Q/N where the pumps have their own branches);
+    ``speed_ratio`` the speed found for it, ``None`` when none in the drive's range.
+    """
+
+    static: str
+    pipe: str
+    flow_m3_s: float
+    head_m: float
+    speed_ratio: float | None
+
+
 @dataclass(frozen=True, eq=False)
 class SpeedMap:
     """The duty pump set over its speed range (:func:`hydraulics.speed_map.speed_map`).
@@ -434,7 +450,8 @@ class SpeedMap:
     over the static extremes and pipe states (``None`` when none is achievable);
     ``design_flow_met_everywhere`` is True when every one of them is achievable.
     ``minimum_flow_per_pump_m3_s`` is the minimum continuous stable flow of one pump at
-    rated speed, ``minimum_flow_source`` says where its value comes from.
+    rated speed, ``minimum_flow_source`` says where its value comes from.  ``heads_at_manifold``
+    is True when the heads are net of the pumps' own branches.
     """
 
     pumps_running: int
@@ -449,6 +466,8 @@ class SpeedMap:
     minimum_flow_line: IsoEfficiencyLine | None
     design_speed_range: tuple[float, float] | None
     design_flow_met_everywhere: bool
+    heads_at_manifold: bool = False
+    design_points: tuple[DesignFlowPoint, ...] = ()
 
 
 @dataclass(frozen=True)

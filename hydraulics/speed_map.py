@@ -35,11 +35,18 @@ import numpy as np
 from hydraulics.model import Arrangement
 from hydraulics.pump_arrangement import arrangement_performance
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import FloatArray, IsoEfficiencyLine, SpeedCurve, SpeedMap, VariableSpeedResult
+from hydraulics.results import (
+    DesignFlowPoint,
+    FloatArray,
+    IsoEfficiencyLine,
+    SpeedCurve,
+    SpeedMap,
+    VariableSpeedResult,
+)
 from hydraulics.system_curve import SystemHydraulics
 
-__all__ = ["SpeedCurve", "IsoEfficiencyLine", "SpeedMap", "speed_map", "map_speeds", "efficiency_levels",
-           "equal_efficiency_flows", "DEFAULT_MINIMUM_FLOW_FRACTION", "MINIMUM_FLOW_SOURCE",
+__all__ = ["SpeedCurve", "IsoEfficiencyLine", "DesignFlowPoint", "SpeedMap", "speed_map", "map_speeds",
+           "efficiency_levels", "equal_efficiency_flows", "DEFAULT_MINIMUM_FLOW_FRACTION", "MINIMUM_FLOW_SOURCE",
            "SPEED_STEP", "CURVE_POINTS", "LINE_POINTS"]
 
 DEFAULT_MINIMUM_FLOW_FRACTION = 0.35
@@ -169,7 +176,8 @@ def speed_map(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrange
     :func:`~hydraulics.pump_arrangement.arrangement_performance`), lines of equal
     efficiency at :func:`efficiency_levels` and the best-efficiency line (parabolas
     through the origin, see the module docstring), the minimum continuous stable flow
-    line, and the range of the speeds found for the design flow in ``variable_speed``.
+    line, and the range of the speeds found for the design flow in ``variable_speed`` with
+    the head the common pipework needs at the design flow per static extreme and pipe state.
     """
     n, stages, t = int(arrangement.duty_count), int(arrangement.series_stages), float(arrangement.trim_ratio)
     s_lo, s_hi = float(arrangement.min_speed_ratio), float(arrangement.max_speed_ratio)
@@ -216,6 +224,13 @@ def speed_map(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrange
         minimum_line = IsoEfficiencyLine(efficiency=float(fitted.efficiency(minimum_flow)), side="minimum flow",
                                          rated_flow_m3_s=minimum_flow, flow_m3_s=flows, head_m=heads)
 
+    design_points = () if variable_speed is None else tuple(
+        DesignFlowPoint(static=item.static, pipe=item.pipe, flow_m3_s=item.target_flow_m3_s,
+                        head_m=float(_station_heads(system, np.array([item.target_flow_m3_s]),
+                                                    np.array([item.system_head_m]), item.pumps_running,
+                                                    item.pipe == "aged")[0]),
+                        speed_ratio=item.speed_ratio)
+        for item in variable_speed.scenarios)
     return SpeedMap(
         pumps_running=n, min_speed_ratio=s_lo, max_speed_ratio=s_hi, curves=tuple(curves),
         equal_efficiency=tuple(lines), best_efficiency=best_line,
@@ -224,4 +239,5 @@ def speed_map(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrange
         "no best-efficiency flow (the pump data have no efficiency or power)",
         minimum_flow_line=minimum_line,
         design_speed_range=(min(found), max(found)) if found else None, design_flow_met_everywhere=all_met,
+        heads_at_manifold=bool(system.has_branches), design_points=design_points,
     )

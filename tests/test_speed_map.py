@@ -84,6 +84,7 @@ def test_curve_at_80_percent_follows_the_affinity_laws(fitted):
     # shut-off head 0.64 × 60 = 38.4 m
     assert curve.head_m[0] == pytest.approx(38.4, rel=1e-9)
     assert np.array_equal(curve.head_m, curve.plain_head_m)  # no branches: heads at the manifold are the plain ones
+    assert not result.heads_at_manifold
 
 
 def test_equal_efficiency_flows_of_the_parabolic_efficiency(fitted):
@@ -172,10 +173,17 @@ def test_the_solve_fills_the_map_in_its_second_stage_with_heads_at_the_manifold(
     solution = complete_solution(stage)
     result = solution.speed_map
     assert result is not None and result.pumps_running == project.arrangement.duty_count
-    assert stage.system.has_branches  # the sample has its pumps' own pipework
+    assert stage.system.has_branches and result.heads_at_manifold  # the sample has its pumps' own pipework
     for curve in result.curves:
         loss = stage.system.branch_loss(curve.flow_m3_s / result.pumps_running, curve.pipe == "aged")
         assert np.allclose(curve.head_m, curve.plain_head_m - loss, rtol=1e-12)
     # the drive's limits 70 % and 100 % of the sample are drawn
     kinds = {c.kind: c.speed_ratio for c in result.curves}
     assert kinds["minimum"] == 0.7 and kinds["maximum"] == 1.0
+    # the design flow at each extreme: the system head less one pump's branch loss at Q_t / N
+    speed = solution.variable_speed
+    assert [(d.static, d.pipe) for d in result.design_points] == [(s.static, s.pipe) for s in speed.scenarios]
+    for point, item in zip(result.design_points, speed.scenarios, strict=True):
+        loss = float(stage.system.branch_loss(item.target_flow_m3_s / item.pumps_running, item.pipe == "aged"))
+        assert point.head_m == pytest.approx(item.system_head_m - loss, rel=1e-12)
+        assert point.flow_m3_s == item.target_flow_m3_s and point.speed_ratio == item.speed_ratio
