@@ -56,7 +56,7 @@ CURVE_NAMES: dict[str, str] = {
 EQUAL_EFFICIENCY_NAME = "Equal efficiency (labelled)"
 BEST_EFFICIENCY_NAME = "Best efficiency"
 MINIMUM_FLOW_NAME = "Minimum continuous stable flow"
-DESIGN_POINTS_NAME = "Design flow at each system extreme"
+DESIGN_POINTS_NAME = "Head needed at the design flow"
 
 
 def _curve_pen(kind: str) -> QPen:
@@ -67,6 +67,10 @@ def _curve_pen(kind: str) -> QPen:
     if kind == "design":
         return style.make_pen(style.BLUISH_GREEN, 2.0, Qt.PenStyle.DashDotLine)
     return style.make_pen(style.GREY, 1.3)
+
+
+def _design_tip(_x: float, _y: float, data: object) -> str:
+    return str(data)
 
 
 class VariableSpeedPlot(QWidget):
@@ -123,8 +127,8 @@ class VariableSpeedPlot(QWidget):
         self.minimum_flow_item.setZValue(13)
         self.plot_item.addItem(self.minimum_flow_item)
         self.design_points = pg.ScatterPlotItem(pxMode=True, symbol="d", size=9, name=DESIGN_POINTS_NAME,
-                                                brush=pg.mkBrush(style.BLUISH_GREEN),
-                                                pen=style.make_pen(style.BLACK, 1.0))
+                                                brush=pg.mkBrush(style.GREY), pen=style.make_pen(style.GREY, 1.0),
+                                                hoverable=True, tip=_design_tip)
         self.design_points.setZValue(40)
         self.plot_item.addItem(self.design_points)
         self.design_flow_line = pg.InfiniteLine(
@@ -352,18 +356,22 @@ class VariableSpeedPlot(QWidget):
         return "  ".join(parts)
 
     def _follow_data(self) -> None:
-        xs, ys = [0.0], [0.0]
+        xs, ys, lows = [0.0], [0.0], []
         for item in [*self._speed_items, *self.system_items.values()]:
             x, y = item.getData()
             if item.isVisible() and x is not None and len(x):
                 xs.append(float(np.nanmax(x)))
                 ys.append(float(np.nanmax(y)))
+                lows.append(float(np.nanmin(y)))
         if len(xs) == 1:
             return
+        # from zero, unless every curve lies high above it (a booster): then from below the lowest curve
+        low = min(lows)
+        y_min = 0.0 if low < 0.3 * max(ys) else low - 0.1 * (max(ys) - low)
         pump_x = [float(np.nanmax(i.getData()[0])) for i in self._speed_items
                   if i.isVisible() and i.getData()[0] is not None and len(i.getData()[0])]
         x_max = 1.15 * max(pump_x) if pump_x else max(xs)
-        self._view.follow(nice_range(0.0, x_max, headroom=0.02), nice_range(0.0, max(ys), headroom=0.08))
+        self._view.follow(nice_range(0.0, x_max, headroom=0.02), nice_range(y_min, max(ys), headroom=0.08))
 
     def _apply_titles(self) -> None:
         set_axis_title(self.plot_item, "bottom", f"Station flow ({unit_label('flow', self._unit_system)})")
