@@ -32,6 +32,7 @@ __all__ = [
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
     "SpeedForFlow", "VariableSpeedResult", "SpeedPoint", "CapacityResult", "ScenarioEnergy", "EnergyResult",
     "Solution", "ProfileLine", "ProfileResult", "control_label", "PumpSpecificSpeeds", "NpshWorstCase",
+    "SpeedCurve", "IsoEfficiencyLine", "DesignFlowPoint", "SpeedMap",
 ]
 
 FloatArray: TypeAlias = NDArray[np.float64]
@@ -395,6 +396,87 @@ class VariableSpeedResult:
         }
 
 
+@dataclass(frozen=True, eq=False)
+class SpeedCurve:
+    """The pump-set curve at one speed ratio, for the variable-speed view (station flow).
+
+    ``kind``: ``"maximum"`` / ``"minimum"`` (the drive's limits), ``"design"`` (a speed
+    found for the design flow), ``"step"`` (a speed between).  ``head_m`` is the head at
+    the manifold (net of one pump's branch loss at Q/N with ``pipe`` pipe) where the
+    project has pump branches, else ``plain_head_m``.  ``efficiency`` per pump, ``None``
+    without data.
+    """
+
+    speed_ratio: float
+    kind: str
+    pipe: str
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+    plain_head_m: FloatArray
+    efficiency: FloatArray | None
+
+
+@dataclass(frozen=True, eq=False)
+class IsoEfficiencyLine:
+    """The station points corresponding to one rated point over the drive's speed range.
+
+    By the affinity laws a parabola H ∝ Q² through the origin (at the manifold less the
+    branch loss).  ``side``: ``"below"`` or ``"above"`` the best-efficiency flow, ``"best"``
+    (the best-efficiency line) or ``"minimum flow"``.  ``rated_flow_m3_s`` is one pump's
+    flow at rated speed and full impeller.
+    """
+
+    efficiency: float
+    side: str
+    rated_flow_m3_s: float
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+
+
+@dataclass(frozen=True)
+class DesignFlowPoint:
+    """The design flow at one static extreme and pipe state, on the axes of the speed map.
+
+    ``head_m`` is the head the common pipework needs (at the manifold: the system head
+    less one pump's branch loss at Q/N where the pumps have their own branches);
+    ``speed_ratio`` the speed found for it, ``None`` when none in the drive's range.
+    """
+
+    static: str
+    pipe: str
+    flow_m3_s: float
+    head_m: float
+    speed_ratio: float | None
+
+
+@dataclass(frozen=True, eq=False)
+class SpeedMap:
+    """The duty pump set over its speed range (:func:`hydraulics.speed_map.speed_map`).
+
+    ``design_speed_range`` is the lowest and highest speed ratio found for the design flow
+    over the static extremes and pipe states (``None`` when none is achievable);
+    ``design_flow_met_everywhere`` is True when every one of them is achievable.
+    ``minimum_flow_per_pump_m3_s`` is the minimum continuous stable flow of one pump at
+    rated speed, ``minimum_flow_source`` says where its value comes from.  ``heads_at_manifold``
+    is True when the heads are net of the pumps' own branches.
+    """
+
+    pumps_running: int
+    min_speed_ratio: float
+    max_speed_ratio: float
+    curves: tuple[SpeedCurve, ...]
+    equal_efficiency: tuple[IsoEfficiencyLine, ...]
+    best_efficiency: IsoEfficiencyLine | None
+    minimum_flow_per_pump_m3_s: float | None
+    minimum_flow_fraction: float | None
+    minimum_flow_source: str
+    minimum_flow_line: IsoEfficiencyLine | None
+    design_speed_range: tuple[float, float] | None
+    design_flow_met_everywhere: bool
+    heads_at_manifold: bool = False
+    design_points: tuple[DesignFlowPoint, ...] = ()
+
+
 @dataclass(frozen=True)
 class SpeedPoint:
     """One checked operating point and why it was solved, with the codes of its findings.
@@ -588,7 +670,7 @@ class Solution:
     and energy are final, but the checks (``findings``), the variable-speed results, the
     design ``capacity`` and the checked ``speed_points`` (every point the checks saw: the
     arrangement's speed, the drive's minimum and maximum, the speeds for the design flow)
-    are not computed yet.
+    are not computed yet; nor is ``speed_map`` (the pump set over its speed range).
     """
 
     project: Project
@@ -614,6 +696,7 @@ class Solution:
     """The conservative NPSH case (``None`` without a pump, NPSH data or a found point)."""
     capacity: CapacityResult | None = None
     speed_points: tuple[SpeedPoint, ...] = ()
+    speed_map: SpeedMap | None = None
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

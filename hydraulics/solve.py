@@ -158,7 +158,7 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
 
 
 def complete_solution(stage: CurvesStage) -> Solution:
-    """The finished :class:`Solution`: ``stage``'s results with the checks and variable speed.
+    """The finished :class:`Solution`: ``stage``'s results with the checks, variable speed and the speed map.
 
     Variable speed: the speeds that deliver the design flow are searched, with the duty
     pumps and with one pump, and the operating points intersected afresh, in one batch, at
@@ -189,6 +189,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
     from hydraulics.npsh_worst_case import npsh_worst_case_findings
     from hydraulics.operating_points import operating_points
     from hydraulics.specific_speed import criteria_findings
+    from hydraulics.speed_map import speed_map
     from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
 
     design_flow = project.site.design_flow_m3_s
@@ -230,7 +231,8 @@ def complete_solution(stage: CurvesStage) -> Solution:
     capacity = station_capacity(arrangement, design_flow, at_speeds)
     findings += capacity_findings(capacity, pump_where, pump_target)
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True,
-                   capacity=capacity, speed_points=speed_points)
+                   capacity=capacity, speed_points=speed_points,
+                   speed_map=speed_map(system, fitted, arrangement, speed))
 
 
 def _key(point: OperatingPoint) -> tuple[str, str, int, float]:

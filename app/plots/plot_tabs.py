@@ -1,4 +1,5 @@
-"""The plot area of the main window: head–flow, efficiency and power, NPSH, profile of the main, as tabs."""
+"""The plot area of the main window: head–flow, efficiency and power, NPSH, variable speed, profile of the main,
+as tabs."""
 
 from __future__ import annotations
 
@@ -10,14 +11,15 @@ from app.plots.head_flow_plot import HeadFlowPlot
 from app.plots.npsh_plot import NpshPlot
 from app.plots.plot_base import PlotCanvas
 from app.plots.profile_plot import ProfilePlot
+from app.plots.speed_plot import VariableSpeedPlot
 from hydraulics.results import Solution
 
-Plot = HeadFlowPlot | EfficiencyPowerPlot | NpshPlot | ProfilePlot
+Plot = HeadFlowPlot | EfficiencyPowerPlot | NpshPlot | VariableSpeedPlot | ProfilePlot
 
 
 class PlotTabs(QTabWidget):
-    """Tabs holding :class:`HeadFlowPlot`, :class:`EfficiencyPowerPlot`, :class:`NpshPlot` and
-    :class:`ProfilePlot`."""
+    """Tabs holding :class:`HeadFlowPlot`, :class:`EfficiencyPowerPlot`, :class:`NpshPlot`,
+    :class:`VariableSpeedPlot` and :class:`ProfilePlot`."""
 
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent)
@@ -25,21 +27,25 @@ class PlotTabs(QTabWidget):
         self.head_flow = HeadFlowPlot()
         self.efficiency_power = EfficiencyPowerPlot()
         self.npsh = NpshPlot()
+        self.variable_speed = VariableSpeedPlot()
         self.profile = ProfilePlot()
         self.addTab(self.head_flow, "Head – flow")
         self.addTab(self.efficiency_power, "Efficiency and power")
         self.addTab(self.npsh, "NPSH")
+        self.addTab(self.variable_speed, "Variable speed")
         self.addTab(self.profile, "Profile")
         self.setTabToolTip(0, "System curves, pump curves and operating points")
         self.setTabToolTip(1, "Efficiency and shaft power of one pump against its flow")
         self.setTabToolTip(2, "NPSH available against NPSH required, with the margin at each point")
-        self.setTabToolTip(3, "Pipe elevation and hydraulic grade lines along the main, with its high points")
+        self.setTabToolTip(3, "Pump-set curves over the drive's speed range, lines of equal efficiency, the system "
+                              "band and the speeds that meet the design flow")
+        self.setTabToolTip(4, "Pipe elevation and hydraulic grade lines along the main, with its high points")
         self._pending: dict[int, tuple[Solution | None, str]] = {}
         self.currentChanged.connect(self._draw_pending)
 
     def plots(self) -> tuple[Plot, ...]:
         """The plot widgets, in tab order."""
-        return self.head_flow, self.efficiency_power, self.npsh, self.profile
+        return self.head_flow, self.efficiency_power, self.npsh, self.variable_speed, self.profile
 
     def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` in the visible tab now and in the others when they are shown.

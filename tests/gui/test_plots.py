@@ -372,7 +372,8 @@ def test_npsh_plot_without_pump(qtbot):
 def test_plot_tabs_pass_everything_on(qtbot):
     tabs = PlotTabs()
     qtbot.addWidget(tabs)
-    assert [tabs.tabText(i) for i in range(tabs.count())] == ["Head – flow", "Efficiency and power", "NPSH", "Profile"]
+    assert [tabs.tabText(i) for i in range(tabs.count())] == [
+        "Head – flow", "Efficiency and power", "NPSH", "Variable speed", "Profile"]
     tabs.show_solution(make_solution(), "US")
     assert tabs.head_flow.unit_system == "US"
     assert tabs.efficiency_power.efficiency_data()[0].size > 0
