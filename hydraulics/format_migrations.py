@@ -25,6 +25,13 @@ Registered steps:
   project has a profile of its main (``"profile"``, a list of chainage/elevation points).  A
   version-1 file knew only common pipework and no profile, so every segment becomes
   ``"station"`` and the profile is empty: the file solves exactly as before.
+* 2 → 3 (:func:`v2_to_v3`): speed control and the motor.  The arrangement says whether its pump
+  runs at fixed or variable speed (``"variable_speed"``) and may give a motor rating
+  (``"motor_rating"``) and a service factor (``"service_factor"``).  A version-2 arrangement
+  searched speeds in its [min, max] range, so it becomes variable speed when that range is more
+  than its own speed ratio (min and max differ, or differ from it); otherwise fixed speed.  The
+  version-2 defaults (min 0.6, max 1.0, speed 1.0, drive efficiency 1.0) are written out, no
+  motor rating is given and the service factor is 1.0: the file solves exactly as before.
 
 ``sample_projects/README.md`` explains how to add a migration.
 """
@@ -113,4 +120,27 @@ def v1_to_v2(data: Mapping[str, Any]) -> dict[str, Any]:
     if isinstance(segments, list):
         upgraded["segments"] = [{**s, "carries": "station"} if isinstance(s, dict) else s for s in segments]
     upgraded.setdefault("profile", [])
+    return upgraded
+
+
+@migration(2)
+def v2_to_v3(data: Mapping[str, Any]) -> dict[str, Any]:
+    """Format 2 → 3: the arrangement's speed control, motor rating and service factor.
+
+    >>> v2_to_v3({"version": 2, "arrangement": {"pump": "P", "min_speed_ratio": 0.7}})["arrangement"]
+    ... # doctest: +NORMALIZE_WHITESPACE
+    {'pump': 'P', 'min_speed_ratio': 0.7, 'speed_ratio': 1.0, 'max_speed_ratio': 1.0,
+     'drive_efficiency': 1.0, 'variable_speed': True, 'service_factor': 1.0}
+    """
+    upgraded = dict(data)
+    arrangement = data.get("arrangement")
+    if isinstance(arrangement, dict):
+        new = dict(arrangement)
+        speed = new.setdefault("speed_ratio", 1.0)  # the version-2 defaults, written out
+        low = new.setdefault("min_speed_ratio", 0.6)
+        high = new.setdefault("max_speed_ratio", 1.0)
+        new.setdefault("drive_efficiency", 1.0)
+        new["variable_speed"] = not (low == high == speed)
+        new["service_factor"] = 1.0
+        upgraded["arrangement"] = new
     return upgraded

@@ -200,6 +200,14 @@ class Arrangement:
     ``duty_count`` identical pumps run in parallel (1..N); ``standby_count`` are
     installed but not counted as duty.  ``series_stages`` pumps of the set in series
     per duty line.  ``speed_ratio`` is n/n_rated; ``trim_ratio`` D/D_rated.
+
+    ``variable_speed`` False (the default) is a fixed-speed pump: it runs only at
+    ``speed_ratio`` (``min_speed_ratio`` = ``max_speed_ratio`` = ``speed_ratio``) and no
+    speed is searched.  A variable-speed pump runs in [min, max] behind a drive of
+    ``drive_efficiency`` (default for a new drive :data:`DEFAULT_DRIVE_EFFICIENCY`).
+    ``motor_rating_w`` is the motor's rated output power (None: not given);
+    ``service_factor`` its service factor (NEMA MG 1 motors 1.0 or 1.15, IEC motors 1.0;
+    common practice).  A fixed-speed motor on line has no drive: drive efficiency 1.0.
     """
 
     pump_id: str
@@ -208,10 +216,26 @@ class Arrangement:
     series_stages: int = 1
     speed_ratio: float = 1.0
     trim_ratio: float = 1.0
-    min_speed_ratio: float = 0.6
+    min_speed_ratio: float = 1.0
     max_speed_ratio: float = 1.0
     motor_efficiency: float = 0.95
     drive_efficiency: float = 1.0
+    variable_speed: bool = False
+    motor_rating_w: float | None = None
+    service_factor: float = 1.0
+
+    def __post_init__(self) -> None:
+        if not self.variable_speed:  # a fixed-speed pump's range is its own speed, whatever was passed
+            object.__setattr__(self, "min_speed_ratio", self.speed_ratio)
+            object.__setattr__(self, "max_speed_ratio", self.speed_ratio)
+
+
+DEFAULT_DRIVE_EFFICIENCY = 0.97
+"""Efficiency of a variable-speed drive at full load when none is given (common practice for a
+VFD at full load (from memory; verify))."""
+
+DEFAULT_SPEED_RANGE = (0.6, 1.0)
+"""Speed range a pump is given when it is switched to variable speed (common practice)."""
 
 
 # --------------------------------------------------------------------------- criteria

@@ -23,6 +23,8 @@ from hydraulics.atmosphere import standard_atmosphere_pressure
 from hydraulics.catalogue import PipeSeries
 from hydraulics.fluid import fluid_properties
 from hydraulics.model import (
+    DEFAULT_DRIVE_EFFICIENCY,
+    DEFAULT_SPEED_RANGE,
     Arrangement,
     ModelError,
     PressurisedDelivery,
@@ -266,6 +268,28 @@ def with_arrangement_changes(project: Project, **changes: Any) -> Project:
     if project.arrangement is None:
         raise ModelError("arrangement", "the project has no pump arrangement yet; choose or add a pump first")
     return replace(project, arrangement=replace(project.arrangement, **changes))
+
+
+def with_speed_control(project: Project, variable_speed: bool) -> Project:
+    """The arrangement at fixed speed (min = max = its speed ratio) or on variable speed.
+
+    Switching to variable speed gives the range :data:`~hydraulics.model.DEFAULT_SPEED_RANGE`
+    widened to hold the speed ratio, and a drive efficiency of
+    :data:`~hydraulics.model.DEFAULT_DRIVE_EFFICIENCY` where none was given (100 %); switching
+    to fixed speed keeps the efficiencies as given.
+    """
+    if project.arrangement is None:
+        raise ModelError("arrangement", "the project has no pump arrangement yet; choose or add a pump first")
+    a = project.arrangement
+    if a.variable_speed == variable_speed:
+        return project
+    if not variable_speed:
+        return replace(project, arrangement=replace(a, variable_speed=False))  # range: its speed
+    low, high = DEFAULT_SPEED_RANGE
+    drive = DEFAULT_DRIVE_EFFICIENCY if a.drive_efficiency >= 1.0 else a.drive_efficiency
+    return replace(project, arrangement=replace(
+        a, variable_speed=True, min_speed_ratio=min(low, a.speed_ratio), max_speed_ratio=max(high, a.speed_ratio),
+        drive_efficiency=drive))
 
 
 def example_pump(project: Project, solution: Solution | None) -> PumpModel:

@@ -47,7 +47,7 @@ from hydraulics.model import (
 from hydraulics.validation import validate_project
 
 FORMAT_NAME = "pumpsketch-project"
-FORMAT_VERSION = 2
+FORMAT_VERSION = 3
 FILE_SUFFIX = ".pumpsketch.json"
 
 
@@ -354,18 +354,23 @@ class _Reader:
         node = self.obj(node, path, frozenset({
             "pump", "duty_count", "standby_count", "series_stages", "speed_ratio", "trim_ratio",
             "min_speed_ratio", "max_speed_ratio", "motor_efficiency", "drive_efficiency",
+            "variable_speed", "motor_rating", "service_factor",
         }))
+        speed = self.number(node, "speed_ratio", path, default=1.0)
         return Arrangement(
             pump_id=self.text(node, "pump", path),
             duty_count=self.integer(node, "duty_count", path, default=1),
             standby_count=self.integer(node, "standby_count", path, default=0),
             series_stages=self.integer(node, "series_stages", path, default=1),
-            speed_ratio=self.number(node, "speed_ratio", path, default=1.0),
+            speed_ratio=speed,
             trim_ratio=self.number(node, "trim_ratio", path, default=1.0),
-            min_speed_ratio=self.number(node, "min_speed_ratio", path, default=0.6),
-            max_speed_ratio=self.number(node, "max_speed_ratio", path, default=1.0),
+            min_speed_ratio=self.number(node, "min_speed_ratio", path, default=speed),
+            max_speed_ratio=self.number(node, "max_speed_ratio", path, default=speed),
             motor_efficiency=self.number(node, "motor_efficiency", path, default=0.95),
             drive_efficiency=self.number(node, "drive_efficiency", path, default=1.0),
+            variable_speed=self.boolean(node, "variable_speed", path, default=False),
+            motor_rating_w=self.optional_quantity(node, "motor_rating", path, "power"),
+            service_factor=self.number(node, "service_factor", path, default=1.0),
         )
 
     def criteria(self, node: object, path: str = "criteria") -> Criteria:
@@ -686,6 +691,9 @@ def project_to_dict(project: Project) -> dict[str, object]:
         "series_stages": a.series_stages, "speed_ratio": a.speed_ratio, "trim_ratio": a.trim_ratio,
         "min_speed_ratio": a.min_speed_ratio, "max_speed_ratio": a.max_speed_ratio,
         "motor_efficiency": a.motor_efficiency, "drive_efficiency": a.drive_efficiency,
+        "variable_speed": a.variable_speed,
+        "motor_rating": None if a.motor_rating_w is None else _q(a.motor_rating_w, "power"),
+        "service_factor": a.service_factor,
     }
     c = project.criteria
     criteria = {

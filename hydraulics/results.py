@@ -32,7 +32,7 @@ __all__ = [
     "SEVERITY_ORDER", "FitQuality", "FittedPump", "PumpCurve", "OperatingPoint", "NpshCurve",
     "SpeedForFlow", "VariableSpeedResult", "SpeedPoint", "CapacityResult", "ScenarioEnergy", "EnergyResult",
     "Solution", "ProfileLine", "ProfileResult", "control_label", "PumpSpecificSpeeds", "NpshWorstCase",
-    "SpeedCurve", "IsoEfficiencyLine", "DesignFlowPoint", "SpeedMap",
+    "SpeedCurve", "IsoEfficiencyLine", "DesignFlowPoint", "SpeedMap", "MotorResult",
 ]
 
 FloatArray: TypeAlias = NDArray[np.float64]
@@ -539,6 +539,36 @@ class CapacityResult:
 
 
 @dataclass(frozen=True)
+class MotorResult:
+    """Shaft power per pump against the motor (see :mod:`hydraulics.motor`; W, SI).
+
+    ``rating_w`` is the motor's rated output (None: not given), ``rating_with_service_factor_w``
+    the rating times the service factor.  Maximum shaft power per pump: over the solved operating
+    points (every speed), over the allowable operating region and to the end of the pump curve
+    (run-out) at the arrangement's speed and at the maximum speed.  ``non_overloading_size_w`` is
+    the smallest standard motor output (IEC 60072-1 series) not below the run-out power.
+    """
+
+    rating_w: float | None
+    service_factor: float
+    rating_with_service_factor_w: float | None
+    speed_ratio: float
+    max_speed_ratio: float
+    max_shaft_power_at_points_w: float | None
+    max_shaft_power_allowable_w: float | None
+    max_shaft_power_allowable_at_max_speed_w: float | None
+    max_shaft_power_run_out_w: float | None
+    max_shaft_power_run_out_at_max_speed_w: float | None
+    non_overloading_size_w: float | None
+    motor_efficiency: float
+    drive_efficiency: float
+    variable_speed: bool
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return asdict(self)
+
+
+@dataclass(frozen=True)
 class ScenarioEnergy:
     """Annual energy if the station ran all year at one operating point."""
 
@@ -697,6 +727,7 @@ class Solution:
     capacity: CapacityResult | None = None
     speed_points: tuple[SpeedPoint, ...] = ()
     speed_map: SpeedMap | None = None
+    motor: MotorResult | None = None
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

@@ -151,5 +151,6 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
         "npsh_worst_case": _to_dict(solution.npsh_worst_case),
         "capacity": _to_dict(solution.capacity),
         "speed_points": [p.to_json_dict() for p in solution.speed_points],
+        "motor": _to_dict(solution.motor),
     }
     return {key: _clean(value) for key, value in data.items()}

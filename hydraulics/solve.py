@@ -186,6 +186,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
     from hydraulics.capacity import capacity_findings, station_capacity
+    from hydraulics.motor import motor_check, motor_findings
     from hydraulics.npsh_worst_case import npsh_worst_case_findings
     from hydraulics.operating_points import operating_points
     from hydraulics.specific_speed import criteria_findings
@@ -225,13 +226,16 @@ def complete_solution(stage: CurvesStage) -> Solution:
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest,
                                          lowest_where=low_where, highest_where=high_where)
     findings += checks.group_scenario_findings(at_points)
-    findings += variable_speed_findings(speed, fitted)
+    if arrangement.variable_speed:  # a fixed-speed pump has no speed to find
+        findings += variable_speed_findings(speed, fitted)
     findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, (fitted,))
     findings += criteria_findings(project.criteria, fitted) + npsh_worst_case_findings(project, first.npsh_worst_case)
     capacity = station_capacity(arrangement, design_flow, at_speeds)
     findings += capacity_findings(capacity, pump_where, pump_target)
+    motor = motor_check(fitted, arrangement, project.criteria, at_speeds)
+    findings += motor_findings(motor, pump_where, pump_target)
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True,
-                   capacity=capacity, speed_points=speed_points,
+                   capacity=capacity, motor=motor, speed_points=speed_points,
                    speed_map=speed_map(system, fitted, arrangement, speed))
 
 

@@ -121,6 +121,8 @@ LIMITS: dict[str, Limit] = {
     "arrangement.speed_ratio": Limit("speed ratio", "dimensionless", 0.2, 1.2),
     "arrangement.trim_ratio": Limit("impeller trim ratio", "dimensionless", 0.5, 1.0),
     "arrangement.efficiency": Limit("efficiency", "dimensionless", 0.1, 1.0),
+    "arrangement.motor_rating_w": Limit("motor rating", "power", 10.0, 50_000_000.0),
+    "arrangement.service_factor": Limit("service factor", "dimensionless", 1.0, 1.5),
     # pumps
     "pump.rated_speed_rpm": Limit("rated speed", "speed", 100.0, 10_000.0),
     "pump.flow_m3_s": Limit("pump flow", "flow", 0.0, 50.0),
@@ -312,6 +314,9 @@ def validate_arrangement(arrangement: Arrangement, project: Project, path: str =
         check("arrangement.speed_ratio", getattr(arrangement, name), f"{path}.{name}")
     if arrangement.min_speed_ratio > arrangement.max_speed_ratio:
         raise ModelError(f"{path}.min_speed_ratio", "minimum speed ratio is above the maximum")
+    if arrangement.motor_rating_w is not None:
+        check("arrangement.motor_rating_w", arrangement.motor_rating_w, f"{path}.motor_rating_w")
+    check("arrangement.service_factor", arrangement.service_factor, f"{path}.service_factor")
     check("arrangement.trim_ratio", arrangement.trim_ratio, f"{path}.trim_ratio")
     check("arrangement.efficiency", arrangement.motor_efficiency, f"{path}.motor_efficiency")
     check("arrangement.efficiency", arrangement.drive_efficiency, f"{path}.drive_efficiency")

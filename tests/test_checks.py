@@ -57,7 +57,8 @@ def clean_project() -> Project:
         pumps=(pump(),),
         # the drive's minimum 95 %: the checks also see the points at the minimum speed, where 90 % would
         # bring the suction velocity below its 0.6 m/s minimum (common practice) at max static, aged pipe
-        arrangement=Arrangement("T1", duty_count=1, standby_count=1, min_speed_ratio=0.95, max_speed_ratio=1.0),
+        arrangement=Arrangement("T1", duty_count=1, standby_count=1,
+                                variable_speed=True, drive_efficiency=0.97, min_speed_ratio=0.95, max_speed_ratio=1.0),
         criteria=Criteria(),
     )
 

@@ -58,7 +58,7 @@ def ridge_project(vented: bool = True, duty_count: int = 2) -> Project:
                   design_flow_m3_s=0.08),
         fluid=WaterFluid(15.0), segments=segments,
         pumps=(quadratic_pump(a=45.0, b=2500.0, q_max=0.12, n_points=7, pump_id="R"),),
-        arrangement=Arrangement("R", duty_count=duty_count, standby_count=1, min_speed_ratio=0.6),
+        arrangement=Arrangement("R", duty_count=duty_count, standby_count=1, variable_speed=True, min_speed_ratio=0.6),
         profile=profile,
     )
 

@@ -85,7 +85,7 @@ def test_one_pump_speed_search_closed_form():
     system = QuadraticSystem(static_min_m=20.0, static_max_m=30.0, k_new=4000.0, k_aged=6000.0)
     fitted = fit_pump(quadratic_pump(a, b, q_max=0.05, n_points=6, efficiency=parabolic_efficiency(0.03, 0.8)),
                       1000.0)
-    arrangement = Arrangement("Q", duty_count=2, min_speed_ratio=0.6, max_speed_ratio=1.1)
+    arrangement = Arrangement("Q", duty_count=2, variable_speed=True, min_speed_ratio=0.6, max_speed_ratio=1.1)
     search = search_speeds(system, fitted, arrangement, 0.03, pumps_running=1)
     assert search.pumps_running == 1
     for item in search.scenarios:

@@ -33,7 +33,7 @@ from tests.pump_fakes import QuadraticSystem, parabolic_efficiency, quadratic_pu
 
 A, B = 60.0, 20000.0
 RHO = 1000.0
-ARR = Arrangement("Q", duty_count=2, min_speed_ratio=0.6, max_speed_ratio=1.1)
+ARR = Arrangement("Q", duty_count=2, variable_speed=True, min_speed_ratio=0.6, max_speed_ratio=1.1)
 
 
 @dataclass(frozen=True, eq=False)
@@ -69,7 +69,8 @@ def test_speeds_drawn_are_the_drive_limits_the_steps_and_the_design_speeds():
 
 
 def test_curve_at_80_percent_follows_the_affinity_laws(fitted):
-    result = speed_map(SYSTEM, fitted, Arrangement("Q", duty_count=2, min_speed_ratio=0.6, max_speed_ratio=1.0), None)
+    result = speed_map(SYSTEM, fitted, Arrangement(
+        "Q", duty_count=2, variable_speed=True, min_speed_ratio=0.6, max_speed_ratio=1.0), None)
     by_speed = {round(c.speed_ratio, 6): c for c in result.curves}
     assert sorted(by_speed) == [0.6, 0.7, 0.8, 0.9, 1.0]
     curve = by_speed[0.8]
@@ -151,7 +152,7 @@ def test_design_speed_range_and_its_curves_come_from_the_speed_search(fitted, sp
 
 
 def test_unreachable_design_flow_leaves_the_range_open(fitted):
-    slow = Arrangement("Q", duty_count=2, min_speed_ratio=0.6, max_speed_ratio=1.0)
+    slow = Arrangement("Q", duty_count=2, variable_speed=True, min_speed_ratio=0.6, max_speed_ratio=1.0)
     result = speed_map(SYSTEM, fitted, slow, variable_speed(SYSTEM, fitted, slow, 0.06, 9.0, RHO))
     # at max static the design flow needs 1.04 and 1.077 > 1.0: only the min-static speeds are found
     assert not result.design_flow_met_everywhere

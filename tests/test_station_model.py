@@ -36,7 +36,7 @@ def test_a_station_round_trips_through_its_file(tmp_path):
     save_project(project, path)
     assert load_project(path) == project
     data = project_to_dict(project)
-    assert data["version"] == 2
+    assert data["version"] == 3
     assert [s["carries"] for s in data["segments"]] == ["pump", "pump", "station"]
     assert data["segments"][1]["fittings"][0] == {
         "type": "reducer_conical", "count": 1, "angle_deg": 20.0, "other_diameter": {"value": 0.2, "unit": "m"}}

@@ -31,7 +31,7 @@ from tests.pump_fakes import QuadraticSystem, parabolic_efficiency, quadratic_pu
 A, B = 60.0, 20000.0
 RHO = 1000.0
 SYSTEM = QuadraticSystem(static_min_m=20.0, static_max_m=30.0, k_new=4000.0, k_aged=6000.0)
-ARR = Arrangement("Q", duty_count=2, min_speed_ratio=0.6, max_speed_ratio=1.1)
+ARR = Arrangement("Q", duty_count=2, variable_speed=True, min_speed_ratio=0.6, max_speed_ratio=1.1)
 
 
 @pytest.fixture(scope="module")
