@@ -137,6 +137,31 @@ def _capacity_section(solution: Solution, system: str) -> list[str]:
             f"{short(cap.shortfall_one_out_m3_s, cap.shortfall_one_out_fraction)}"]
 
 
+def _motor_section(solution: Solution, system: str) -> list[str]:
+    """The motor against the shaft power per pump (points, allowable region, run-out)."""
+    m = solution.motor
+    if m is None:
+        return []
+    pl = unit_label("power", system)
+
+    def p(value: float | None) -> str:
+        return "not known" if value is None else f"{fixed_decimals(to_display(value, 'power', system), 1)} {pl}"
+
+    control = (f"variable speed {percent_number(solution.project.arrangement.min_speed_ratio)}–"
+               f"{percent_number(m.max_speed_ratio)} %" if m.variable_speed and solution.project.arrangement
+               else f"fixed speed {percent_number(m.speed_ratio)} %")
+    rating = "not given" if m.rating_w is None else f"{p(m.rating_w)} × service factor {m.service_factor:g}"
+    return ["", f"Motor ({control}; motor efficiency {percent_number(m.motor_efficiency)} %, "
+                f"drive efficiency {percent_number(m.drive_efficiency)} %):",
+            f"  rating: {rating}",
+            f"  shaft power per pump: operating points up to {p(m.max_shaft_power_at_points_w)}; "
+            f"allowable region up to {p(m.max_shaft_power_allowable_w)} "
+            f"({p(m.max_shaft_power_allowable_at_max_speed_w)} at maximum speed)",
+            f"  to the end of the curve: {p(m.max_shaft_power_run_out_w)} "
+            f"({p(m.max_shaft_power_run_out_at_max_speed_w)} at maximum speed); "
+            f"non-overloading motor {p(m.non_overloading_size_w)} (IEC 60072-1 series)"]
+
+
 def summary_text(solution: Solution, system: str = "SI") -> str:
     """A plain-text report of one solved project in the chosen unit system."""
     def d(value: float | None, quantity: str, decimals: int = 2) -> str:
@@ -221,6 +246,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
             out.append(f"  lowest speed that lifts against the maximum static head: "
                        f"{percent_number(vs.minimum_lift_speed_ratio, 1)} %")
     out += _capacity_section(solution, system)
+    out += _motor_section(solution, system)
     e = solution.energy
     if e is not None:
         out += ["", "Energy (normal duty: aged pipe, mean of the static extremes):"]

@@ -100,3 +100,14 @@ def test_step_2_to_3_is_pure_and_keeps_the_speed_range():
     assert out["arrangement"] == {**v2["arrangement"], "variable_speed": True, "service_factor": 1.0}
     fixed = v2_to_v3({"version": 2, "arrangement": {"pump": "P", "min_speed_ratio": 1.0}})["arrangement"]
     assert fixed["variable_speed"] is False and fixed["drive_efficiency"] == 1.0  # the version-2 default
+
+
+def test_json_and_report_carry_the_motor():
+    from app.text_report import summary_text
+    from hydraulics.results_json import solution_to_json_dict
+
+    solution = solve(with_arrangement_changes(clean_project(), motor_rating_w=30_000.0))
+    data = solution_to_json_dict(solution)["motor"]
+    assert data["rating_w"] == 30_000.0 and data["service_factor"] == 1.0
+    assert data["non_overloading_size_w"] == solution.motor.non_overloading_size_w
+    assert "\nMotor (" in summary_text(solution)
