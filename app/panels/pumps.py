@@ -7,6 +7,7 @@ parallel (duty), how many stand by, series stages, speed and impeller trim.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
@@ -24,7 +25,7 @@ from PySide6.QtWidgets import (
 )
 
 from app.document import ProjectDocument
-from app.panels.form import FormPanel, NumberField, Section, TextField
+from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
 from app.panels.table_view import SpreadsheetView
 from app.table_models.pump_points import PumpPointsModel
 from hydraulics import project_edits
@@ -58,12 +59,20 @@ def _pump_field(key: str, label: str, quantity: str, limit: str, attribute: str,
 
 
 def _arrangement_field(key: str, label: str, quantity: str, limit: str, attribute: str,
-                       tooltip: str = "") -> NumberField:
+                       tooltip: str = "", optional: bool = False,
+                       enabled: Callable[[Project], bool] = _has_pump) -> NumberField:
     return NumberField(
         key, label, quantity, limit,
         lambda p: getattr(p.arrangement, attribute) if p.arrangement is not None else None,
         lambda p, v: project_edits.with_arrangement_changes(p, **{attribute: v}),
-        visible=_has_pump, tooltip=tooltip)
+        visible=_has_pump, tooltip=tooltip, optional=optional, enabled=enabled)
+
+
+def _variable_speed(project: Project) -> bool:
+    return project.arrangement is not None and project.arrangement.variable_speed
+
+
+SPEED_CONTROL_CHOICES = [(False, "Fixed speed"), (True, "Variable speed (drive)")]
 
 
 PUMP_SECTIONS = (
@@ -90,18 +99,25 @@ ARRANGEMENT_SECTIONS = (
                            "standby_count"),
         _arrangement_field("series_stages", "Pumps in series per line", "dimensionless",
                            "arrangement.series_stages", "series_stages"),
+        ChoiceField("speed_control", "Speed control", lambda _p: SPEED_CONTROL_CHOICES,
+                    lambda p: _variable_speed(p), project_edits.with_speed_control, visible=_has_pump,
+                    tooltip="Fixed speed runs only at the running speed; variable speed searches the drive's range."),
         _arrangement_field("speed_ratio", "Running speed (% of rated)", "ratio_percent", "arrangement.speed_ratio",
                            "speed_ratio"),
         _arrangement_field("min_speed_ratio", "Variable speed from (% of rated)", "ratio_percent",
-                           "arrangement.speed_ratio", "min_speed_ratio"),
+                           "arrangement.speed_ratio", "min_speed_ratio", enabled=_variable_speed),
         _arrangement_field("max_speed_ratio", "Variable speed to (% of rated)", "ratio_percent",
-                           "arrangement.speed_ratio", "max_speed_ratio"),
+                           "arrangement.speed_ratio", "max_speed_ratio", enabled=_variable_speed),
         _arrangement_field("trim_ratio", "Impeller trim (% of tested diameter)", "ratio_percent",
                            "arrangement.trim_ratio", "trim_ratio"),
         _arrangement_field("motor_efficiency", "Motor efficiency", "ratio_percent", "arrangement.efficiency",
                            "motor_efficiency"),
         _arrangement_field("drive_efficiency", "Drive (VSD) efficiency", "ratio_percent", "arrangement.efficiency",
                            "drive_efficiency", tooltip="100 % for a direct-on-line motor."),
+        _arrangement_field("motor_rating", "Motor rating", "power", "arrangement.motor_rating_w", "motor_rating_w",
+                           optional=True, tooltip="Rated output power of the motor (blank: not given)."),
+        _arrangement_field("service_factor", "Service factor", "dimensionless", "arrangement.service_factor",
+                           "service_factor", tooltip="1.0 for IEC motors; NEMA MG 1 motors 1.0 or 1.15."),
     ), visible=_has_pump),
 )
 
