@@ -72,8 +72,12 @@ def test_a_new_arrangement_is_fixed_speed_and_raises_no_speed_finding():
     arrangement = Arrangement("T1", speed_ratio=0.9, min_speed_ratio=0.6)
     assert not arrangement.variable_speed
     assert arrangement.min_speed_ratio == arrangement.max_speed_ratio == 0.9
-    project = replace(clean_project(), arrangement=replace(clean_project().arrangement, variable_speed=False))
-    assert not [c for c in codes(project) if c.startswith("speed_")]
+    base = clean_project()
+    out_of_reach = replace(base, site=replace(base.site, design_flow_m3_s=0.06))  # beyond the pump at full speed
+    assert "speed_target_unreachable" in codes(out_of_reach)  # on variable speed the search reports it
+    fixed = replace(out_of_reach, arrangement=replace(out_of_reach.arrangement, variable_speed=False))
+    found = codes(fixed)
+    assert not [c for c in found if c.startswith("speed_")] and "design_flow_not_met" in found
 
 
 def test_switching_speed_control():
