@@ -11,25 +11,21 @@ from __future__ import annotations
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QVBoxLayout, QWidget
+from PySide6.QtWidgets import QWidget
 
 from app import style
 from app.plots.plot_base import (
     HoverReadout,
-    LegendSync,
     PointKey,
-    ViewFollower,
-    add_legend_row,
-    add_plot,
     completes_drawn,
+    drawn_xy,
     empty_array,
-    make_canvas,
     make_points_item,
-    make_readout_label,
     nice_range,
     point_spots,
     set_axis_title,
 )
+from app.plots.solution_plot import SolutionPlot
 from app.results import scenarios
 from hydraulics.number_format import readout_number
 from hydraulics.results import FloatArray, OperatingPoint, PumpCurve, Solution
@@ -39,28 +35,12 @@ IDLE_READOUT = "Point at a plot to read flow per pump and efficiency or shaft po
 PREFERRED_BRUSH = (86, 180, 233, 40)
 
 
-class EfficiencyPowerPlot(QWidget):
+class EfficiencyPowerPlot(SolutionPlot):
     """Efficiency (%) and shaft power per pump against flow per pump."""
 
     def __init__(self, parent: QWidget | None = None):
-        super().__init__(parent)
-        self._solution: Solution | None = None
-        self._unit_system = "SI"
-        self.readout = make_readout_label(self)
-        self.canvas = make_canvas()
-        self.efficiency_plot = add_plot(self.canvas, row=0)
-        self.power_plot = add_plot(self.canvas, row=1)
-        self.power_plot.setXLink(self.efficiency_plot)
-        for plot_item in (self.efficiency_plot, self.power_plot):
-            plot_item.getAxis("left").setWidth(64)  # keeps the two flow axes aligned
-        self.legend = add_legend_row(self.canvas, row=2, columns=4)
-        self._legend_sync = LegendSync(self.legend)
-        self._views = (ViewFollower(self.efficiency_plot), ViewFollower(self.power_plot))
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.setSpacing(2)
-        layout.addWidget(self.readout)
-        layout.addWidget(self.canvas, 1)
+        super().__init__(parent, plot_rows=2, legend_columns=4)
+        self.efficiency_plot, self.power_plot = self.plot_items
 
         # Preferred region as filled rectangles (a legend sample shows the fill).
         self._preferred = []
@@ -97,11 +77,6 @@ class EfficiencyPowerPlot(QWidget):
         self._sync_legend()
 
     # ------------------------------------------------------------------ public API
-    @property
-    def drawn_solution(self) -> Solution | None:
-        """The solution drawn now (a first-stage one until the finished solve arrives)."""
-        return self._solution
-
     def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plots) in ``unit_system``."""
         if completes_drawn(self._solution, self._unit_system, solution, unit_system):
@@ -137,18 +112,13 @@ class EfficiencyPowerPlot(QWidget):
         self._sync_legend()
         self.hover.refresh()
 
-    def fit_view(self) -> None:
-        """Return to the automatic view of the data after the user zoomed or panned."""
-        for view in self._views:
-            view.reset()
-
     def efficiency_data(self) -> tuple[np.ndarray, np.ndarray]:
         """(flow per pump, efficiency %) drawn, flow in display units."""
-        return _data(self.efficiency_curve)
+        return drawn_xy(self.efficiency_curve)
 
     def power_data(self) -> tuple[np.ndarray, np.ndarray]:
         """(flow per pump, shaft power per pump) drawn, in display units."""
-        return _data(self.power_curve)
+        return drawn_xy(self.power_curve)
 
     def marked_points(self) -> list[tuple[float, float, float, str]]:
         """(flow per pump, efficiency %, shaft power, label) of each point marked, display units."""
@@ -251,10 +221,3 @@ class EfficiencyPowerPlot(QWidget):
 
 def _times(value: float | None, factor: float) -> float | None:
     return None if value is None else value * factor
-
-
-def _data(item: pg.PlotDataItem) -> tuple[np.ndarray, np.ndarray]:
-    x, y = item.getData()
-    if not item.isVisible() or x is None:
-        return empty_array(), empty_array()
-    return np.array(x, dtype=float), np.array(y, dtype=float)

@@ -17,27 +17,23 @@ from __future__ import annotations
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6.QtWidgets import QVBoxLayout, QWidget
+from PySide6.QtWidgets import QWidget
 
 from app import style
 from app.plots.plot_base import (
     BandItem,
     HoverReadout,
-    LegendSync,
-    ViewFollower,
-    add_legend_row,
-    add_plot,
     completes_drawn,
     empty_array,
-    make_canvas,
     make_points_item,
-    make_readout_label,
     nice_range,
     place_labels,
     set_axis_title,
     set_curve_data,
+    set_visible,
     update_label_pool,
 )
+from app.plots.solution_plot import SolutionPlot
 from app.results import scenarios
 from hydraulics.number_format import readout_number
 from hydraulics.results import FloatArray, OperatingPoint, PumpCurve, Solution, SystemCurve
@@ -101,7 +97,7 @@ class _PumpCurveItems:
             self.tested.opts["name"] = None
 
 
-class HeadFlowPlot(QWidget):
+class HeadFlowPlot(SolutionPlot):
     """Live plot of head against flow with a hover readout and a pinnable snapshot.
 
     Call :meth:`show_solution` whenever the engine produces a new solution or the unit
@@ -109,24 +105,9 @@ class HeadFlowPlot(QWidget):
     """
 
     def __init__(self, parent: QWidget | None = None):
-        super().__init__(parent)
-        self._solution: Solution | None = None
-        self._unit_system = "SI"
+        super().__init__(parent, plot_rows=1, legend_columns=3)
         self._snapshot_si: list[tuple[np.ndarray, np.ndarray]] = []
-
-        self.readout = make_readout_label(self)
-        self.canvas = make_canvas()
-        self.plot_item: pg.PlotItem = add_plot(self.canvas, row=0)
         self.view_box: pg.ViewBox = self.plot_item.getViewBox()
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.setSpacing(2)
-        layout.addWidget(self.readout)
-        layout.addWidget(self.canvas, 1)
-
-        self.legend = add_legend_row(self.canvas, row=1, columns=3)
-        self._legend_sync = LegendSync(self.legend)
-        self._view = ViewFollower(self.plot_item)
 
         # System curves and the band between the lowest and the highest of them.
         self.system_band = BandItem(style.SYSTEM_BAND_BRUSH)
@@ -175,11 +156,6 @@ class HeadFlowPlot(QWidget):
         """True while a pinned snapshot is drawn."""
         return bool(self._snapshot_si)
 
-    @property
-    def drawn_solution(self) -> Solution | None:
-        """The solution drawn now (a first-stage one until the finished solve arrives)."""
-        return self._solution
-
     def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
         if completes_drawn(self._solution, self._unit_system, solution, unit_system):
@@ -196,10 +172,6 @@ class HeadFlowPlot(QWidget):
         self._sync_legend()
         self._follow_data()
         self.hover.refresh()
-
-    def fit_view(self) -> None:
-        """Return to the automatic view of the data after the user zoomed or panned."""
-        self._view.reset()
 
     def pin_snapshot(self) -> None:
         """Keep a faint grey copy of the system and pump curves now drawn, to compare against."""
@@ -260,10 +232,6 @@ class HeadFlowPlot(QWidget):
                 out.append((_copy_or_empty(x), _copy_or_empty(y)))
         return out
 
-    def legend_names(self) -> list[str]:
-        """The legend entries now listed, top to bottom."""
-        return self._legend_sync.names()
-
     # ------------------------------------------------------------------ drawing
     def _flow(self, values: FloatArray) -> FloatArray:
         return np.asarray(to_display(values, "flow", self._unit_system), dtype=float)
@@ -291,11 +259,11 @@ class HeadFlowPlot(QWidget):
             curve = by_case.get(case)
             if curve is None or not curve.flow_m3_s.size:
                 set_curve_data(item, empty_array(), empty_array())
-                _set_visible(item, False)
+                set_visible(item, False)
                 continue
             x, y = self._flow(curve.flow_m3_s), self._head(curve.head_m)
             set_curve_data(item, x, y)
-            _set_visible(item, True)
+            set_visible(item, True)
             drawn.append((x, y))
         self._update_band(drawn)
 
@@ -344,19 +312,19 @@ class HeadFlowPlot(QWidget):
                 set_curve_data(items.tested, x, self._head(pump_curve.head_m))
             else:
                 set_curve_data(items.tested, empty_array(), empty_array())
-            _set_visible(items.tested, at_manifold)
+            set_visible(items.tested, at_manifold)
             bounds = scenarios.preferred_flow_bounds(pump_curve)
             if bounds is not None:
                 rx, ry = self._region_stroke(flow, head, bounds)
                 set_curve_data(items.region, self._flow(rx), self._head(ry))
-                _set_visible(items.region, rx.size > 0)
+                set_visible(items.region, rx.size > 0)
                 if region_name_holder is None and items.region.isVisible():
                     region_name_holder = items
             else:
                 set_curve_data(items.region, empty_array(), empty_array())
-                _set_visible(items.region, False)
-            _set_visible(items.curve, True)
-            _set_visible(items.end_label, True)
+                set_visible(items.region, False)
+            set_visible(items.curve, True)
+            set_visible(items.end_label, True)
             shown.add(pumps)
         for pumps, items in self._pump_items.items():
             if pumps not in shown:
@@ -441,10 +409,10 @@ class HeadFlowPlot(QWidget):
             if index < len(self._snapshot_si):
                 flow, head = self._snapshot_si[index]
                 set_curve_data(item, self._flow(flow), self._head(head))
-                _set_visible(item, True)
+                set_visible(item, True)
             else:
                 set_curve_data(item, empty_array(), empty_array())
-                _set_visible(item, False)
+                set_visible(item, False)
 
     def _follow_data(self) -> None:
         """Flow from zero to the end of the curves; head up to a margin above the pump curves.
@@ -502,11 +470,6 @@ class HeadFlowPlot(QWidget):
 def _acting_head(pump_curve: PumpCurve) -> FloatArray:
     """The head the pumps give the common pipework: at the manifold where the engine gives it."""
     return pump_curve.head_m if pump_curve.head_at_manifold_m is None else pump_curve.head_at_manifold_m
-
-
-def _set_visible(item: pg.GraphicsObject, visible: bool) -> None:
-    if item.isVisible() != visible:
-        item.setVisible(visible)
 
 
 def _sorted_xy(x: np.ndarray, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:

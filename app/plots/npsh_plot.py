@@ -12,27 +12,23 @@ from __future__ import annotations
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QVBoxLayout, QWidget
+from PySide6.QtWidgets import QWidget
 
 from app import style
 from app.plots.plot_base import (
     HoverReadout,
-    LegendSync,
     PointKey,
-    ViewFollower,
-    add_legend_row,
-    add_plot,
     completes_drawn,
+    drawn_xy,
     empty_array,
-    make_canvas,
     make_points_item,
-    make_readout_label,
     nice_range,
     place_labels,
     point_spots,
     set_axis_title,
     update_label_pool,
 )
+from app.plots.solution_plot import SolutionPlot
 from app.results import scenarios
 from hydraulics.number_format import readout_number
 from hydraulics.results import FloatArray, NpshCurve, OperatingPoint, Solution
@@ -41,24 +37,11 @@ from hydraulics.units import to_display, unit_label
 IDLE_READOUT = "Point at the plot to read flow and NPSH."
 
 
-class NpshPlot(QWidget):
+class NpshPlot(SolutionPlot):
     """NPSH available (new and aged pipe) and NPSH required (1..N pumps) against flow."""
 
     def __init__(self, parent: QWidget | None = None):
-        super().__init__(parent)
-        self._solution: Solution | None = None
-        self._unit_system = "SI"
-        self.readout = make_readout_label(self)
-        self.canvas = make_canvas()
-        self.plot_item = add_plot(self.canvas, row=0)
-        self.legend = add_legend_row(self.canvas, row=1, columns=3)
-        self._legend_sync = LegendSync(self.legend)
-        self._view = ViewFollower(self.plot_item)
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.setSpacing(2)
-        layout.addWidget(self.readout)
-        layout.addWidget(self.canvas, 1)
+        super().__init__(parent, plot_rows=1, legend_columns=3)
 
         self.available_items: dict[str, pg.PlotDataItem] = {}
         for pipe in ("new", "aged"):
@@ -90,11 +73,6 @@ class NpshPlot(QWidget):
         self._sync_legend()
 
     # ------------------------------------------------------------------ public API
-    @property
-    def drawn_solution(self) -> Solution | None:
-        """The solution drawn now (a first-stage one until the finished solve arrives)."""
-        return self._solution
-
     def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
         if completes_drawn(self._solution, self._unit_system, solution, unit_system):
@@ -118,18 +96,14 @@ class NpshPlot(QWidget):
         self._sync_legend()
         self.hover.refresh()
 
-    def fit_view(self) -> None:
-        """Return to the automatic view of the data after the user zoomed or panned."""
-        self._view.reset()
-
     def available_data(self, pipe: str) -> tuple[np.ndarray, np.ndarray]:
         """(flow, NPSH available) drawn for ``pipe`` ("new" or "aged"), display units."""
-        return _data(self.available_items[pipe])
+        return drawn_xy(self.available_items[pipe])
 
     def required_data(self, pumps_running: int) -> tuple[np.ndarray, np.ndarray]:
         """(station flow, NPSH required) drawn for ``pumps_running`` pumps, display units."""
         item = self._required_items.get(pumps_running)
-        return (empty_array(), empty_array()) if item is None else _data(item)
+        return (empty_array(), empty_array()) if item is None else drawn_xy(item)
 
     def margin_marks(self) -> list[tuple[float, float, str]]:
         """(flow, NPSH available, text) of each margin written on the plot, display units."""
@@ -253,10 +227,3 @@ class NpshPlot(QWidget):
     def _describe_position(self, _index: int, x: float, y: float) -> str:
         return (f"Pointer: flow {readout_number(x)} {unit_label('flow', self._unit_system)}   ·   "
                 f"NPSH {readout_number(y)} {unit_label('head', self._unit_system)}")
-
-
-def _data(item: pg.PlotDataItem) -> tuple[np.ndarray, np.ndarray]:
-    x, y = item.getData()
-    if not item.isVisible() or x is None:
-        return empty_array(), empty_array()
-    return np.array(x, dtype=float), np.array(y, dtype=float)

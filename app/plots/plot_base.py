@@ -250,6 +250,20 @@ def empty_array() -> np.ndarray:
     return np.empty(0, dtype=float)
 
 
+def drawn_xy(item: pg.PlotDataItem) -> tuple[np.ndarray, np.ndarray]:
+    """Copies of the (x, y) arrays ``item`` shows; empty arrays while it is hidden or empty."""
+    x, y = item.getData()
+    if not item.isVisible() or x is None:
+        return empty_array(), empty_array()
+    return np.array(x, dtype=float), np.array(y, dtype=float)
+
+
+def set_visible(item: pg.GraphicsObject, visible: bool) -> None:
+    """Show or hide ``item``, calling ``setVisible`` only when that changes it."""
+    if item.isVisible() != visible:
+        item.setVisible(visible)
+
+
 class ViewFollower(QObject):
     """Sets a plot's range to what the data needs, until the user zooms or pans.
 

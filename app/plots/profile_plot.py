@@ -21,25 +21,22 @@ import math
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QVBoxLayout, QWidget
+from PySide6.QtWidgets import QWidget
 
 from app import style
 from app.plots.plot_base import (
     HoverReadout,
-    LegendSync,
-    ViewFollower,
-    add_legend_row,
-    add_plot,
     completes_drawn,
+    drawn_xy,
     empty_array,
-    make_canvas,
-    make_readout_label,
     nice_range,
     place_labels,
     set_axis_title,
     set_curve_data,
+    set_visible,
     update_label_pool,
 )
+from app.plots.solution_plot import SolutionPlot
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.main_profile import DELIVERY_CONTROL, ProfileLine, ProfileResult
 from hydraulics.number_format import readout_number
@@ -68,24 +65,11 @@ def _line_pen(line: ProfileLine) -> object:
     return style.make_pen(colour, 2.0, style.PIPE_LINE_STYLES.get(line.pipe, Qt.PenStyle.DashDotLine))
 
 
-class ProfilePlot(QWidget):
+class ProfilePlot(SolutionPlot):
     """Pipe elevation and hydraulic grade lines along the main (see the module docstring)."""
 
     def __init__(self, parent: QWidget | None = None):
-        super().__init__(parent)
-        self._solution: Solution | None = None
-        self._unit_system = "SI"
-        self.readout = make_readout_label(self)
-        self.canvas = make_canvas()
-        self.plot_item = add_plot(self.canvas, row=0)
-        self.legend = add_legend_row(self.canvas, row=1, columns=3)
-        self._legend_sync = LegendSync(self.legend)
-        self._view = ViewFollower(self.plot_item)
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.setSpacing(2)
-        layout.addWidget(self.readout)
-        layout.addWidget(self.canvas, 1)
+        super().__init__(parent, plot_rows=1, legend_columns=3)
 
         self.rating_item = pg.PlotDataItem(empty_array(), empty_array(), connect="finite",
                                            name=RATING_NAME,
@@ -119,11 +103,6 @@ class ProfilePlot(QWidget):
         self._sync_legend()
 
     # ------------------------------------------------------------------ public API
-    @property
-    def drawn_solution(self) -> Solution | None:
-        """The solution drawn now (a first-stage one until the finished solve arrives)."""
-        return self._solution
-
     def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution``'s profile (``None``, or a solution without one, shows a message)."""
         if (completes_drawn(self._solution, self._unit_system, solution, unit_system)
@@ -146,37 +125,29 @@ class ProfilePlot(QWidget):
         self._sync_legend()
         self.hover.refresh()
 
-    def fit_view(self) -> None:
-        """Return to the automatic view of the data after the user zoomed or panned."""
-        self._view.reset()
-
     def message(self) -> str:
         """The plot's title: the no-profile message, or empty."""
         return str(self.plot_item.titleLabel.text or "")
 
     def elevation_data(self) -> tuple[np.ndarray, np.ndarray]:
         """(chainage, pipe elevation) drawn, display units."""
-        return _data(self.elevation_item)
+        return drawn_xy(self.elevation_item)
 
     def scenario_data(self) -> list[tuple[str, np.ndarray, np.ndarray]]:
         """(legend name, chainage, grade line) of each operating point drawn, display units."""
-        return [(str(item.name()), *_data(item)) for item in self._scenario_items if item.isVisible()]
+        return [(str(item.name()), *drawn_xy(item)) for item in self._scenario_items if item.isVisible()]
 
     def rest_data(self) -> list[tuple[str, np.ndarray, np.ndarray]]:
         """(legend name, chainage, grade line) of each line at rest drawn, display units."""
-        return [(str(item.name()), *_data(item)) for item in self._rest_items if item.isVisible()]
+        return [(str(item.name()), *drawn_xy(item)) for item in self._rest_items if item.isVisible()]
 
     def rating_data(self) -> tuple[np.ndarray, np.ndarray]:
         """(chainage, rating envelope) drawn (NaN between unrated segments), display units."""
-        return _data(self.rating_item)
+        return drawn_xy(self.rating_item)
 
     def marks(self) -> list[tuple[float, float, str]]:
         """(chainage, elevation, text) of each label written on the plot, display units."""
         return list(self._marks)
-
-    def legend_names(self) -> list[str]:
-        """The legend entries now listed, top to bottom."""
-        return self._legend_sync.names()
 
     # ------------------------------------------------------------------ drawing
     def _x(self, values: FloatArray) -> FloatArray:
@@ -188,10 +159,10 @@ class ProfilePlot(QWidget):
     def _update_elevation(self, profile: ProfileResult | None) -> None:
         if profile is None:
             set_curve_data(self.elevation_item, empty_array(), empty_array())
-            _set_visible(self.elevation_item, False)
+            set_visible(self.elevation_item, False)
             return
         set_curve_data(self.elevation_item, self._x(profile.chainage_m), self._y(profile.elevation_m))
-        _set_visible(self.elevation_item, True)
+        set_visible(self.elevation_item, True)
 
     def _update_lines(self, pool: list[pg.PlotDataItem], lines: tuple[ProfileLine, ...]) -> None:
         while len(pool) < len(lines):
@@ -206,15 +177,15 @@ class ProfilePlot(QWidget):
                 item.setPen(_line_pen(line))
                 item.opts["name"] = f"{LINE_PREFIX} {line.label}"
                 set_curve_data(item, self._x(profile.chainage_m), self._y(line.grade_line_m))
-                _set_visible(item, True)
+                set_visible(item, True)
             else:
                 set_curve_data(item, empty_array(), empty_array())
-                _set_visible(item, False)
+                set_visible(item, False)
 
     def _update_rating(self, profile: ProfileResult | None) -> None:
         x, y = (empty_array(), empty_array()) if profile is None else self._rating_envelope(profile)
         set_curve_data(self.rating_item, x, y)
-        _set_visible(self.rating_item, bool(np.isfinite(y).any()))
+        set_visible(self.rating_item, bool(np.isfinite(y).any()))
 
     def _rating_envelope(self, profile: ProfileResult) -> tuple[np.ndarray, np.ndarray]:
         """Pipe elevation plus each segment's rating as a head, ρ g from the solved fluid (display units).
@@ -328,15 +299,3 @@ class ProfilePlot(QWidget):
         if px.size and px[0] <= x <= px[-1]:
             text += f"   ·   pipe at {readout_number(float(np.interp(x, px, pz)))} {unit}"
         return text
-
-
-def _set_visible(item: pg.GraphicsObject, visible: bool) -> None:
-    if item.isVisible() != visible:
-        item.setVisible(visible)
-
-
-def _data(item: pg.PlotDataItem) -> tuple[np.ndarray, np.ndarray]:
-    x, y = item.getData()
-    if not item.isVisible() or x is None:
-        return empty_array(), empty_array()
-    return np.array(x, dtype=float), np.array(y, dtype=float)

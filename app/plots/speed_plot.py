@@ -17,25 +17,20 @@ import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
 from PySide6.QtGui import QPen
-from PySide6.QtWidgets import QLabel, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QLabel, QWidget
 
 from app import style
 from app.plots.plot_base import (
     BandItem,
     HoverReadout,
-    LegendSync,
-    ViewFollower,
-    add_legend_row,
-    add_plot,
     empty_array,
-    make_canvas,
-    make_readout_label,
     nice_range,
     place_labels,
     set_axis_title,
     set_curve_data,
     update_label_pool,
 )
+from app.plots.solution_plot import SolutionPlot
 from hydraulics.model import PipeState, StaticCase
 from hydraulics.number_format import percent_number, readout_number
 from hydraulics.results import FloatArray, IsoEfficiencyLine, Solution, SpeedCurve, SpeedMap
@@ -73,30 +68,17 @@ def _design_tip(_x: float, _y: float, data: object) -> str:
     return str(data)
 
 
-class VariableSpeedPlot(QWidget):
+class VariableSpeedPlot(SolutionPlot):
     """Pump-set curves at several speeds, lines of equal efficiency and the system band."""
 
     def __init__(self, parent: QWidget | None = None):
-        super().__init__(parent)
-        self._solution: Solution | None = None
-        self._unit_system = "SI"
-        self.readout = make_readout_label(self)
-        self.canvas = make_canvas()
-        self.plot_item = add_plot(self.canvas, row=0)
-        self.legend = add_legend_row(self.canvas, row=1, columns=3)
-        self._legend_sync = LegendSync(self.legend)
-        self._view = ViewFollower(self.plot_item)
+        super().__init__(parent, plot_rows=1, legend_columns=3)
         self.note = QLabel(self)
         self.note.setObjectName("speedMapNote")
         self.note.setWordWrap(True)
         self.note.setContentsMargins(6, 2, 6, 4)
         self.note.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
-        layout = QVBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.setSpacing(2)
-        layout.addWidget(self.readout)
-        layout.addWidget(self.canvas, 1)
-        layout.addWidget(self.note)
+        self._column.addWidget(self.note)
 
         self.system_band = BandItem(style.SYSTEM_BAND_BRUSH)
         self.system_band.setVisible(False)
@@ -146,11 +128,6 @@ class VariableSpeedPlot(QWidget):
         self._sync_legend()
 
     # ------------------------------------------------------------------ public API
-    @property
-    def drawn_solution(self) -> Solution | None:
-        """The solution drawn now (the speed map comes with the finished solve only)."""
-        return self._solution
-
     def show_solution(self, solution: Solution | None, unit_system: str = "SI") -> None:
         """Draw ``solution`` (``None`` clears the plot) in ``unit_system``.
 
@@ -181,10 +158,6 @@ class VariableSpeedPlot(QWidget):
         self._follow_data()
         self._sync_legend()
         self.hover.refresh()
-
-    def fit_view(self) -> None:
-        """Return to the automatic view of the data after the user zoomed or panned."""
-        self._view.reset()
 
     def speed_curve_data(self) -> list[tuple[float, str, np.ndarray, np.ndarray]]:
         """(speed ratio, kind, flow, head) of each speed curve drawn, display units."""
