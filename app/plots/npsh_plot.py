@@ -38,7 +38,8 @@ IDLE_READOUT = "Point at the plot to read flow and NPSH."
 
 
 class NpshPlot(SolutionPlot):
-    """NPSH available (new and aged pipe) and NPSH required (1..N pumps) against flow."""
+    """NPSH available (new and aged pipe; at the lowest suction level, and thinner at the highest,
+    where the minimum-static points take it) and NPSH required (1..N pumps) against flow."""
 
     def __init__(self, parent: QWidget | None = None):
         super().__init__(parent, plot_rows=1, legend_columns=3)
@@ -49,6 +50,14 @@ class NpshPlot(SolutionPlot):
                                    pen=style.make_pen(style.NPSH_AVAILABLE_COLOUR, 2.0, style.PIPE_LINE_STYLES[pipe]))
             self.plot_item.addItem(item)
             self.available_items[pipe] = item
+        # Minimum-static points take NPSH available at the highest suction level: its curves too.
+        self.available_high_items: dict[str, pg.PlotDataItem] = {}
+        for pipe in ("new", "aged"):
+            item = pg.PlotDataItem(empty_array(), empty_array(),
+                                   name=f"NPSH available, highest suction level, {pipe} pipe",
+                                   pen=style.make_pen(style.NPSH_AVAILABLE_COLOUR, 1.0, style.PIPE_LINE_STYLES[pipe]))
+            self.plot_item.addItem(item)
+            self.available_high_items[pipe] = item
         self._required_items: dict[int, pg.PlotDataItem] = {}
         self.margin_bars = pg.PlotDataItem(empty_array(), empty_array(), connect="pairs",
                                            pen=style.make_pen(style.GREY, 1.5),
@@ -86,6 +95,10 @@ class NpshPlot(SolutionPlot):
                         None if npsh is None else npsh.available_new_m)
         self._set_curve(self.available_items["aged"], None if npsh is None else npsh.flow_m3_s,
                         None if npsh is None else npsh.available_aged_m)
+        self._set_curve(self.available_high_items["new"], None if npsh is None else npsh.flow_m3_s,
+                        None if npsh is None else npsh.available_highest_level_new_m)
+        self._set_curve(self.available_high_items["aged"], None if npsh is None else npsh.flow_m3_s,
+                        None if npsh is None else npsh.available_highest_level_aged_m)
         self._update_required(npsh)
         self._update_points()
         has_data = any(item.isVisible() for item in self.available_items.values()) or any(
@@ -203,7 +216,8 @@ class NpshPlot(SolutionPlot):
 
     def _follow_data(self) -> None:
         xs, ys = [0.0], [0.0]
-        for item in [*self.available_items.values(), *self._required_items.values()]:
+        for item in [*self.available_items.values(), *self.available_high_items.values(),
+                     *self._required_items.values()]:
             x, y = item.getData()
             if item.isVisible() and x is not None and len(x):
                 xs.append(float(np.nanmax(x)))
@@ -218,6 +232,7 @@ class NpshPlot(SolutionPlot):
 
     def _sync_legend(self) -> None:
         ordered = [self.available_items["new"], self.available_items["aged"]]
+        ordered += [item for item in self.available_high_items.values() if item.isVisible()]
         ordered += [self._required_items[n] for n in sorted(self._required_items)]
         if len(self.margin_bars.getData()[0] if self.margin_bars.getData()[0] is not None else ()):
             ordered.append(self.margin_bars)

@@ -456,3 +456,24 @@ def test_an_axis_title_already_shown_is_not_set_again(qtbot):
     set_axis_title(plot_item, "left", "Head (ft)")
     assert relabelled[first:] and set(relabelled[first:]) == {"Head (ft)"}
     assert "Head (ft)" in axis.label.toHtml()
+
+
+def test_npsh_plot_draws_the_available_curves_at_both_suction_levels(qtbot):
+    # Each operating point takes NPSH available at its own scenario's suction level (minimum static:
+    # the highest level), so both levels' curves are drawn; they are the engine's arrays as given.
+    from app.plots.npsh_plot import NpshPlot
+    from app.samples import sample_path
+    from hydraulics.project_io import load_project
+    from hydraulics.solve import solve
+
+    solution = solve(load_project(sample_path("sewage_wet_well")))
+    plot = NpshPlot()
+    qtbot.addWidget(plot)
+    plot.show_solution(solution, "SI")
+    npsh = solution.npsh_available_curve
+    assert npsh is not None and npsh.available_highest_level_new_m is not None
+    for pipe, values in (("new", npsh.available_highest_level_new_m), ("aged", npsh.available_highest_level_aged_m)):
+        x, y = plot.available_high_items[pipe].getData()
+        assert np.allclose(y, values) and plot.available_high_items[pipe].isVisible()
+    # the highest level lies above the lowest by the suction-level range (23.5 − 21 m, from the sample file)
+    assert np.allclose(npsh.available_highest_level_new_m - npsh.available_new_m, 2.5)
