@@ -46,7 +46,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, replace
-from functools import cached_property
+from functools import cached_property, lru_cache
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
@@ -501,7 +501,19 @@ def resolve_segments(project: Project) -> None:
 
 
 def _segment_arrays(project: Project) -> tuple[tuple[str, ...], tuple[str, ...], tuple[Carries, ...], FloatArray]:
-    """Catalogue look-ups per segment (materials, fittings); done once per solve.
+    """Catalogue look-ups per segment (materials, fittings), reused while the segments are unchanged.
+
+    The window checks a candidate project (:func:`resolve_segments`) and then solves it; both
+    need these terms, so they are cached on the immutable segments (the catalogues do not
+    change while the program runs).  The table is read-only: callers copy its columns.
+    """
+    return _segment_terms(project.segments)
+
+
+@lru_cache(maxsize=32)
+def _segment_terms(segments: tuple[Segment, ...]) -> tuple[tuple[str, ...], tuple[str, ...], tuple[Carries, ...],
+                                                              FloatArray]:
+    """The work of :func:`_segment_arrays`.
 
     A reducer or expander row without its own other bore takes the bore of the segment
     upstream of it in flow order (:func:`upstream_diameters`).
@@ -510,8 +522,8 @@ def _segment_arrays(project: Project) -> tuple[tuple[str, ...], tuple[str, ...],
     sides: list[str] = []
     carries: list[Carries] = []
     rows = []
-    upstream = upstream_diameters(project.segments)
-    for i, seg in enumerate(project.segments):
+    upstream = upstream_diameters(segments)
+    for i, seg in enumerate(segments):
         path = f"segments[{i}]"
         try:
             mat = catalogue.material(seg.material_id)
@@ -534,6 +546,7 @@ def _segment_arrays(project: Project) -> tuple[tuple[str, ...], tuple[str, ...],
         sides.append(seg.side)
         carries.append(seg.carries)
     table = np.array(rows, dtype=float).reshape(len(rows), 8)
+    table.flags.writeable = False
     return tuple(names), tuple(sides), tuple(carries), table
 
 
