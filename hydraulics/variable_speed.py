@@ -225,7 +225,8 @@ def variable_speed_findings(result: VariableSpeedResult, fitted: FittedPump) -> 
     maximum speed), ``speed_below_minimum`` (info: even the minimum speed delivers more
     than the target), ``speed_extrapolated`` (warning: the speed found puts the pumps
     outside their tested data), ``minimum_speed_cannot_lift`` (warning: at the drive's
-    minimum speed the pumps cannot lift against the maximum static head).
+    minimum speed the pumps cannot lift against the system head at zero flow: the maximum
+    static head, or the head to a vented summit where that governs).
     """
     pump = fitted.pump
     where = f"pump '{pump.name}'"
@@ -258,6 +259,7 @@ def variable_speed_findings(result: VariableSpeedResult, fitted: FittedPump) -> 
         out.append(Finding(
             "warning", "minimum_speed_cannot_lift",
             f"At the minimum speed ratio {percent_number(result.min_speed_ratio)} % the shut-off head is below the "
-            f"maximum static head; the pumps need at least {percent_number(s_lift, 1)} % to deliver at all.",
+            f"system head at zero flow (the maximum static head, or the head to a vented summit where that governs); "
+            f"the pumps need at least {percent_number(s_lift, 1)} % to deliver at all.",
             where, f"Set the minimum speed above {percent_number(s_lift)} % with a margin for a stable flow.", target))
     return out

@@ -61,3 +61,12 @@ def test_a_reducer_contradicting_its_bores_is_refused_by_the_one_rules_home():
     with pytest.raises(ProjectFileError) as from_file:
         project_from_dict(project_to_dict(bad))
     assert from_file.value.field_path == caught.value.field_path
+
+
+def test_the_lowest_lifting_speed_message_names_the_head_a_vented_summit_sets():
+    # The sewage sample: 44.5 m ridge with an air valve over a 38 m delivery (sample file); at zero
+    # flow the summit governs, so the 70 % drive minimum cannot lift (the pumps need 76.6 %, as worked
+    # out in tests/test_crest_control.py).
+    solution = solve(load_project(SAMPLES / "sewage_wet_well.pumpsketch.json"))
+    (found,) = [f for f in solution.findings if f.code == "minimum_speed_cannot_lift"]
+    assert "vented summit" in found.message and "76.6 %" in found.message
