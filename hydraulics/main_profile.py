@@ -466,7 +466,8 @@ class ProfileResult:
     ``chainage_m``/``elevation_m`` shape ``(n_x,)``; ``air_valve_chainage_m`` shape ``(n_vented,)``;
     ``segment_start_m``/``segment_end_m`` shape ``(n_segments,)``.  ``segment_rating_pa`` is the
     pressure rating of each segment (PN or allowable operating pressure of its pipe series, gauge),
-    NaN where the catalogue gives none; ``None`` when not looked up.
+    NaN where the catalogue gives none; ``None`` when not looked up.  ``density_kg_m3`` and
+    ``gravity_m_s2`` are those the pressures were computed with.
     """
 
     chainage_m: FloatArray
@@ -477,6 +478,32 @@ class ProfileResult:
     scenarios: tuple[ProfileLine, ...]
     at_rest: tuple[ProfileLine, ...]
     segment_rating_pa: FloatArray | None = None
+    density_kg_m3: float = math.nan
+    gravity_m_s2: float = STANDARD_GRAVITY_M_S2
+
+    def rating_envelope(self) -> tuple[FloatArray, FloatArray]:
+        """(chainage, head) of the highest grade line each segment's rating allows: pipe elevation
+        plus the rating as a head of the fluid, z + p_rating/(ρ g) (hydrostatics).
+
+        Segments follow each other along the chainage, so the line steps at a boundary where
+        the rating changes; a segment without a known rating leaves a gap (one NaN point).
+        Empty without ratings.
+        """
+        rating = self.segment_rating_pa
+        if rating is None or not len(rating):
+            return np.zeros(0), np.zeros(0)
+        rho_g = self.density_kg_m3 * self.gravity_m_s2
+        xs: list[FloatArray] = []
+        heads: list[FloatArray] = []
+        for start, end, pa in zip(self.segment_start_m, self.segment_end_m, rating, strict=True):
+            inside = (self.chainage_m >= start) & (self.chainage_m <= end)
+            if not (math.isfinite(float(pa)) and inside.any()):
+                xs.append(np.array([math.nan]))
+                heads.append(np.array([math.nan]))
+            else:
+                xs.append(self.chainage_m[inside])
+                heads.append(self.elevation_m[inside] + float(pa) / rho_g)
+        return np.concatenate(xs), np.concatenate(heads)
 
     def to_json_dict(self) -> dict[str, Any]:
         """Plain lists and numbers for a JSON document."""
@@ -529,7 +556,8 @@ def profile_result(profile: PipeProfile, lengths_m: ArrayLike, operating: Sequen
     start, end = segment_chainages(lengths)
     return ProfileResult(chainage_m=x, elevation_m=profile_elevation(profile, x),
                          air_valve_chainage_m=profile.chainage_m[profile.vented_index],
-                         segment_start_m=start, segment_end_m=end, scenarios=scenarios, at_rest=at_rest)
+                         segment_start_m=start, segment_end_m=end, scenarios=scenarios, at_rest=at_rest,
+                         density_kg_m3=density_kg_m3, gravity_m_s2=gravity_m_s2)
 
 
 # --------------------------------------------------------------------------- findings data

@@ -293,6 +293,18 @@ def test_profile_result_holds_lines_and_json():
     assert doc["at_rest"][0]["pipe"] is None
 
 
+def test_the_rating_envelope_is_the_pipe_plus_each_rating_as_a_head():
+    from dataclasses import replace
+
+    res = replace(result(), segment_rating_pa=np.array([1.0e6, np.nan]))  # PN 10 on the first segment only (demo)
+    x, head = res.rating_envelope()
+    # hand: 1e6 Pa / (1000 kg/m³ · 9.80665 m/s²) = 101.972 m above the pipe (hydrostatics), at the
+    # chainages of the first segment (0 and 600 m); the unrated second segment is one NaN gap
+    assert x[:2].tolist() == [0.0, 600.0] and np.isnan(x[-1]) and np.isnan(head[-1])
+    assert head[:2] == pytest.approx([19.0 + 101.97162129779283, 44.5 + 101.97162129779283], rel=1e-12)
+    assert [a.size for a in replace(res, segment_rating_pa=None).rating_envelope()] == [0, 0]
+
+
 def test_low_pressures_flag_sub_atmospheric_lines():
     atmospheric = 101_325.0 / (RHO * G)  # 10.332 m of water (standard atmosphere, ISO 2533)
     vapour = 1705.0 / (RHO * G)  # 0.174 m: water at 15 °C (IAPWS-IF97 saturation pressure 1.7057 kPa)

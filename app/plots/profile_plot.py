@@ -16,8 +16,6 @@ Where the pipe rises above a grade line the pressure there is below atmospheric.
 
 from __future__ import annotations
 
-import math
-
 import numpy as np
 import pyqtgraph as pg
 from PySide6.QtCore import Qt
@@ -37,7 +35,6 @@ from app.plots.plot_base import (
     update_label_pool,
 )
 from app.plots.solution_plot import SolutionPlot
-from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.main_profile import DELIVERY_CONTROL, ProfileLine, ProfileResult
 from hydraulics.number_format import readout_number
 from hydraulics.results import FloatArray, Solution
@@ -188,29 +185,11 @@ class ProfilePlot(SolutionPlot):
         set_visible(self.rating_item, bool(np.isfinite(y).any()))
 
     def _rating_envelope(self, profile: ProfileResult) -> tuple[np.ndarray, np.ndarray]:
-        """Pipe elevation plus each segment's rating as a head, ρ g from the solved fluid (display units).
-
-        Segments follow each other along the chainage, so the line steps at a boundary
-        where the rating changes; an unrated segment leaves a gap (NaN).
-        """
-        rating = profile.segment_rating_pa
-        if rating is None or self._solution is None:
+        """The engine's rating envelope (:meth:`ProfileResult.rating_envelope`) in display units."""
+        x, head = profile.rating_envelope()
+        if not x.size:
             return empty_array(), empty_array()
-        rho_g = self._solution.fluid.density_kg_m3 * STANDARD_GRAVITY_M_S2
-        x_all, z_all = profile.chainage_m, profile.elevation_m
-        xs: list[np.ndarray] = []
-        ys: list[np.ndarray] = []
-        for start, end, pa in zip(profile.segment_start_m, profile.segment_end_m, rating, strict=True):
-            inside = (x_all >= start) & (x_all <= end)
-            if not (math.isfinite(float(pa)) and inside.any()):
-                xs.append(np.array([math.nan]))
-                ys.append(np.array([math.nan]))
-                continue
-            xs.append(x_all[inside])
-            ys.append(z_all[inside] + float(pa) / rho_g)
-        if not xs:
-            return empty_array(), empty_array()
-        return self._x(np.concatenate(xs)), self._y(np.concatenate(ys))
+        return self._x(x), self._y(head)
 
     def _update_marks(self, profile: ProfileResult | None) -> None:
         self._marks = []

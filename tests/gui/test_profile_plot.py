@@ -100,7 +100,7 @@ def test_the_rating_envelope_steps_with_the_segments(profile_plot, unit_system):
     f = LENGTH_FACTOR[unit_system]
     x, y = profile_plot.rating_data()
     first = result.chainage_m <= 600.0
-    head = 1.0e6 / (solution.fluid.density_kg_m3 * STANDARD_GRAVITY_M_S2)  # p / (ρ g), hydrostatics
+    head = 1.0e6 / (1000.0 * STANDARD_GRAVITY_M_S2)  # p / (ρ g), hydrostatics, ρ of the profile (1000 kg/m³)
     np.testing.assert_allclose(x[np.isfinite(y)], result.chainage_m[first] * f, rtol=1e-12)
     np.testing.assert_allclose(y[np.isfinite(y)], (result.elevation_m[first] + head) * f, rtol=1e-12)
     assert np.isnan(y[-1])  # no rating known on the second segment: a gap, not a line at the pipe
