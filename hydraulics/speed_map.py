@@ -46,7 +46,8 @@ from hydraulics.results import (
 from hydraulics.system_curve import SystemHydraulics
 
 __all__ = ["SpeedCurve", "IsoEfficiencyLine", "DesignFlowPoint", "SpeedMap", "speed_map", "map_speeds",
-           "efficiency_levels", "equal_efficiency_flows", "DEFAULT_MINIMUM_FLOW_FRACTION", "MINIMUM_FLOW_SOURCE",
+           "efficiency_levels", "equal_efficiency_flows", "equal_efficiency_flows_at",
+           "DEFAULT_MINIMUM_FLOW_FRACTION", "MINIMUM_FLOW_SOURCE",
            "SPEED_STEP", "CURVE_POINTS", "LINE_POINTS"]
 
 DEFAULT_MINIMUM_FLOW_FRACTION = 0.35
@@ -117,35 +118,46 @@ def equal_efficiency_flows(fitted: FittedPump, level: float) -> tuple[float | No
     """Rated flows (m³/s, one pump, rated speed) where the fitted efficiency equals ``level``.
 
     One below and one above the best-efficiency flow, inside the data range; ``None`` on a
-    side where the curve does not fall to ``level``.  A sign change on a fine grid brackets
-    each crossing, bisection refines it.
+    side where the curve does not fall to ``level`` (:func:`equal_efficiency_flows_at`).
     """
+    below, above = equal_efficiency_flows_at(fitted, np.array([level], dtype=np.float64))
+    return (None if math.isnan(below[0]) else float(below[0]), None if math.isnan(above[0]) else float(above[0]))
+
+
+def equal_efficiency_flows_at(fitted: FittedPump, levels: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """For every efficiency in ``levels`` the rated flows below and above the best-efficiency flow
+    where the fitted efficiency equals it (NaN where the curve does not fall to it).
+
+    All levels at once: a sign change on a fine grid brackets each crossing (the one nearest
+    the best-efficiency flow), then bisection refines every bracket together.
+    """
+    levels = np.asarray(levels, dtype=np.float64)
     q_bep = fitted.bep_flow_m3_s
+    nan = np.full(levels.shape, np.nan)
     if q_bep is None:
-        return None, None
-    out: list[float | None] = []
+        return nan, nan.copy()
+    out: list[FloatArray] = []
     for below, lo, hi in ((True, fitted.flow_min_m3_s, q_bep), (False, q_bep, fitted.flow_max_m3_s)):
         if hi <= lo:
-            out.append(None)
+            out.append(nan.copy())
             continue
         grid = np.linspace(lo, hi, _SEARCH_POINTS)
-        excess = fitted.efficiency(grid) - level
-        crossing = np.nonzero(np.isfinite(excess[:-1]) & np.isfinite(excess[1:])
-                              & (np.sign(excess[:-1]) != np.sign(excess[1:])))[0]
-        if not crossing.size:
-            out.append(None)
-            continue
-        i = int(crossing[-1] if below else crossing[0])  # the crossing nearest the best-efficiency flow
-        a, b = float(grid[i]), float(grid[i + 1])
-        fa = float(excess[i])
+        excess = np.asarray(fitted.efficiency(grid), dtype=np.float64)[None, :] - levels[:, None]
+        change = (np.isfinite(excess[:, :-1]) & np.isfinite(excess[:, 1:])
+                  & (np.sign(excess[:, :-1]) != np.sign(excess[:, 1:])))
+        found = change.any(axis=1)
+        columns = np.arange(change.shape[1])
+        # the crossing nearest the best-efficiency flow: the last one below it, the first above it
+        i = np.where(change, columns, -1).max(axis=1) if below else np.where(change, columns, columns.size).min(axis=1)
+        i = np.clip(i, 0, columns.size - 1)
+        a, b = grid[i], grid[i + 1]
+        fa = excess[np.arange(levels.size), i]
         for _ in range(_BISECTIONS):
             m = 0.5 * (a + b)
-            fm = float(fitted.efficiency(m)) - level
-            if (fm > 0.0) == (fa > 0.0):
-                a, fa = m, fm
-            else:
-                b = m
-        out.append(0.5 * (a + b))
+            fm = np.asarray(fitted.efficiency(m), dtype=np.float64) - levels
+            same = (fm > 0.0) == (fa > 0.0)
+            a, fa, b = np.where(same, m, a), np.where(same, fm, fa), np.where(same, b, m)
+        out.append(np.where(found, 0.5 * (a + b), np.nan))
     return out[0], out[1]
 
 
@@ -210,9 +222,11 @@ def speed_map(system: SystemHydraulics, fitted: FittedPump, arrangement: Arrange
     minimum_line = None
     fraction = DEFAULT_MINIMUM_FLOW_FRACTION
     if fitted.has_efficiency and fitted.bep_flow_m3_s is not None and fitted.bep_efficiency is not None:
-        for level in efficiency_levels(fitted.bep_efficiency):
-            for side, q in zip(("below", "above"), equal_efficiency_flows(fitted, level), strict=True):
-                if q is not None:
+        levels = efficiency_levels(fitted.bep_efficiency)
+        below, above = equal_efficiency_flows_at(fitted, np.array(levels, dtype=np.float64))
+        for j, level in enumerate(levels):
+            for side, q in (("below", float(below[j])), ("above", float(above[j]))):
+                if not math.isnan(q):
                     flows, heads = _corresponding_line(system, fitted, arrangement, q, speeds)
                     lines.append(IsoEfficiencyLine(efficiency=level, side=side, rated_flow_m3_s=q,
                                                    flow_m3_s=flows, head_m=heads))

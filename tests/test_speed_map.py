@@ -188,3 +188,15 @@ def test_the_solve_fills_the_map_in_its_second_stage_with_heads_at_the_manifold(
         loss = float(stage.system.branch_loss(item.target_flow_m3_s / item.pumps_running, item.pipe == "aged"))
         assert point.head_m == pytest.approx(item.system_head_m - loss, rel=1e-12)
         assert point.flow_m3_s == item.target_flow_m3_s and point.speed_ratio == item.speed_ratio
+
+
+def test_equal_efficiency_flows_of_every_level_at_once(fitted):
+    # hand, as above: 0.8 (1 − ½ x²) = L ⇒ x = √(2 (1 − L/0.8)), q = 0.03 (1 ∓ x), inside the data 0..0.05 only
+    from hydraulics.speed_map import equal_efficiency_flows_at
+
+    below, above = equal_efficiency_flows_at(fitted, np.array([0.75, 0.65, 0.60, 0.99]))
+    x75, x65, x60 = (math.sqrt(2 * (1 - level / 0.8)) for level in (0.75, 0.65, 0.60))
+    assert below[:3] == pytest.approx([0.03 * (1 - x75), 0.03 * (1 - x65), 0.03 * (1 - x60)], rel=1e-9)
+    assert above[:2] == pytest.approx([0.03 * (1 + x75), 0.03 * (1 + x65)], rel=1e-9)
+    assert np.isnan(above[2])  # 0.03 (1 + 0.7071) = 0.0512 m³/s lies beyond the data
+    assert np.isnan(below[3]) and np.isnan(above[3])  # 99 % is above the best 80 %: no crossing
