@@ -33,6 +33,12 @@ Registered steps:
   version-2 defaults (min 0.6, max 1.0, speed 1.0, drive efficiency 1.0) are written out, no
   motor rating is given and the service factor is 1.0: the file solves exactly as before.
 
+* 3 → 4 (:func:`v3_to_v4`): dissimilar pumps and the duty profile.  The project may list
+  installed pumps beside the arrangement's identical ones (``"other_pumps"``: model, role,
+  speeds) and a duty over the year (``"duty_profile"``: flow bands with their time, an optional
+  annual volume, the control strategy).  A version-3 file had neither: the list is empty and
+  the profile has no bands, so the file solves exactly as before.
+
 ``sample_projects/README.md`` explains how to add a migration.
 """
 
@@ -143,4 +149,19 @@ def v2_to_v3(data: Mapping[str, Any]) -> dict[str, Any]:
         new["variable_speed"] = not (low == high == speed)
         new["service_factor"] = 1.0
         upgraded["arrangement"] = new
+    return upgraded
+
+
+@migration(3)
+def v3_to_v4(data: Mapping[str, Any]) -> dict[str, Any]:
+    """Format 3 → 4: no other installed pumps, a duty profile without bands.
+
+    >>> v3_to_v4({"version": 3})
+    {'version': 3, 'other_pumps': [], 'duty_profile': {'bands': [], 'time_basis': 'hours', \
+'strategy': 'fixed_staging', 'pipe': 'aged'}}
+    """
+    upgraded = dict(data)
+    upgraded.setdefault("other_pumps", [])
+    upgraded.setdefault("duty_profile", {"bands": [], "time_basis": "hours", "strategy": "fixed_staging",
+                                         "pipe": "aged"})
     return upgraded

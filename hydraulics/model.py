@@ -23,6 +23,15 @@ discharge branch); ``"station"``, the station flow (common suction header, manif
 FrictionMethod = Literal["darcy_weisbach", "hazen_williams"]
 PipeState = Literal["new", "aged"]
 StaticCase = Literal["min", "max"]
+PumpRole = Literal["duty", "assist", "standby"]
+"""What an installed pump is for: ``"duty"`` runs in normal operation, ``"assist"`` is switched
+in when the duty pumps cannot meet the flow, ``"standby"`` runs only in place of a pump out of
+service."""
+ControlStrategy = Literal["fixed_staging", "variable_speed"]
+"""How the station meets a flow below its capacity: ``"fixed_staging"`` runs the fewest pumps
+whose flow reaches it, at their own speeds, and stops and starts them (the pumped volume is the
+band's); ``"variable_speed"`` slows the variable-speed pumps of that stage until the flow matches."""
+TimeBasis = Literal["hours", "share"]
 
 
 class ModelError(ValueError):
@@ -230,6 +239,29 @@ class Arrangement:
             object.__setattr__(self, "max_speed_ratio", self.speed_ratio)
 
 
+@dataclass(frozen=True)
+class InstalledPump:
+    """A pump installed beside the arrangement's identical duty and standby pumps.
+
+    A pump of another model (a smaller jockey pump, a larger assist) or one more of the same,
+    with its own branch built like the others (the ``"pump"`` segments).  ``role`` says when it
+    runs (:data:`PumpRole`).  ``speed_ratio`` is the speed it runs at in the station's
+    operating points (a fixed-speed pump always); a ``variable_speed`` pump may be slowed down
+    to ``min_speed_ratio``, together with the arrangement's variable-speed pumps (one common
+    speed ratio for every variable-speed pump running; common practice for parallel pumps on
+    drives).  Motor and drive efficiencies as for :class:`Arrangement`.
+    """
+
+    pump_id: str
+    role: PumpRole = "assist"
+    variable_speed: bool = False
+    speed_ratio: float = 1.0
+    min_speed_ratio: float = 1.0
+    trim_ratio: float = 1.0
+    motor_efficiency: float = 0.95
+    drive_efficiency: float = 1.0
+
+
 DEFAULT_DRIVE_EFFICIENCY = 0.97
 """Efficiency of a variable-speed drive at full load when none is given (common practice for a
 VFD at full load (from memory; verify))."""
@@ -269,6 +301,36 @@ class EnergyInputs:
 
 
 @dataclass(frozen=True)
+class DutyBand:
+    """One band of the station's duty: a flow and the time it is needed.
+
+    ``time`` is hours per year, or the share of the year (a fraction, 0–1), as the profile's
+    :data:`TimeBasis` says.
+    """
+
+    flow_m3_s: float
+    time: float
+
+
+@dataclass(frozen=True)
+class DutyProfile:
+    """The station's duty over a year: flow bands, and how the station meets them.
+
+    Without bands there is no profile (the energy is then only the simple estimate of
+    :class:`EnergyInputs`).  With ``annual_volume_m3`` the band flows are an inflow pattern:
+    they are scaled by one common factor so that the year's volume Σ Q t is that volume.
+    ``pipe`` is the pipe state the year is computed for (aged: the condition over most of a
+    main's life).
+    """
+
+    bands: tuple[DutyBand, ...] = ()
+    time_basis: TimeBasis = "hours"
+    annual_volume_m3: float | None = None
+    strategy: ControlStrategy = "fixed_staging"
+    pipe: PipeState = "aged"
+
+
+@dataclass(frozen=True)
 class Project:
     """A whole pumping-station scheme."""
 
@@ -284,6 +346,10 @@ class Project:
     flow_grid_max_factor: float = 1.6
     notes: str = ""
     profile: tuple[ProfilePoint, ...] = ()
+    other_pumps: tuple[InstalledPump, ...] = ()
+    """Installed pumps beyond the arrangement's identical duty and standby pumps (see
+    :func:`hydraulics.pump_set.installed_pumps` for the whole list)."""
+    duty_profile: DutyProfile = field(default_factory=DutyProfile)
 
     def pump(self, pump_id: str) -> PumpModel | None:
         """The pump model with ``pump_id``, or ``None``."""

@@ -22,32 +22,40 @@ import tempfile
 from collections.abc import Mapping
 from dataclasses import replace
 from pathlib import Path
+from typing import Any
 
 from hydraulics import units
 from hydraulics.format_migrations import MigrationError, migrate
 from hydraulics.model import (
     Arrangement,
     Carries,
+    ControlStrategy,
     Criteria,
+    DutyBand,
+    DutyProfile,
     EnergyInputs,
     Fitting,
     FrictionMethod,
+    InstalledPump,
     ModelError,
+    PipeState,
     PressurisedDelivery,
     ProfilePoint,
     Project,
     PumpModel,
+    PumpRole,
     Segment,
     Side,
     Site,
     TankDelivery,
+    TimeBasis,
     UserFluid,
     WaterFluid,
 )
 from hydraulics.validation import validate_project
 
 FORMAT_NAME = "pumpsketch-project"
-FORMAT_VERSION = 3
+FORMAT_VERSION = 4
 FILE_SUFFIX = ".pumpsketch.json"
 
 
@@ -373,6 +381,48 @@ class _Reader:
             service_factor=self.number(node, "service_factor", path, default=1.0),
         )
 
+    def other_pump(self, node: object, path: str) -> InstalledPump:
+        node = self.obj(node, path, frozenset({
+            "pump", "role", "variable_speed", "speed_ratio", "min_speed_ratio", "trim_ratio",
+            "motor_efficiency", "drive_efficiency",
+        }))
+        speed = self.number(node, "speed_ratio", path, default=1.0)
+        role: PumpRole = _choice(self.text(node, "role", path, default="assist"), ("duty", "assist", "standby"),
+                                 f"{path}.role")
+        return InstalledPump(
+            pump_id=self.text(node, "pump", path),
+            role=role,
+            variable_speed=self.boolean(node, "variable_speed", path, default=False),
+            speed_ratio=speed,
+            min_speed_ratio=self.number(node, "min_speed_ratio", path, default=speed),
+            trim_ratio=self.number(node, "trim_ratio", path, default=1.0),
+            motor_efficiency=self.number(node, "motor_efficiency", path, default=0.95),
+            drive_efficiency=self.number(node, "drive_efficiency", path, default=1.0),
+        )
+
+    def duty_profile(self, node: object, path: str = "duty_profile") -> DutyProfile:
+        node = self.obj(node, path, frozenset({"bands", "time_basis", "annual_volume", "strategy", "pipe"}))
+        basis: TimeBasis = _choice(self.text(node, "time_basis", path, default="hours"), ("hours", "share"),
+                                   f"{path}.time_basis")
+        bands_node = node.get("bands") or []
+        if not isinstance(bands_node, list):
+            raise ProjectFileError(f"{path}.bands", f"expected a list, got {_kind(bands_node)}")
+        bands = []
+        for i, band in enumerate(bands_node):
+            bpath = f"{path}.bands[{i}]"
+            band = self.obj(band, bpath, frozenset({"flow", "hours", "share"}))
+            key = "hours" if basis == "hours" else "share"
+            other = "share" if basis == "hours" else "hours"
+            if other in band:
+                raise ProjectFileError(f"{bpath}.{other}", f"the profile's time basis is {basis!r}: give {key!r}")
+            bands.append(DutyBand(flow_m3_s=self.quantity(band, "flow", bpath, "flow"),
+                                  time=self.number(band, key, bpath)))
+        strategy: ControlStrategy = _choice(self.text(node, "strategy", path, default="fixed_staging"),
+                                            ("fixed_staging", "variable_speed"), f"{path}.strategy")
+        pipe: PipeState = _choice(self.text(node, "pipe", path, default="aged"), ("new", "aged"), f"{path}.pipe")
+        return DutyProfile(bands=tuple(bands), time_basis=basis, strategy=strategy, pipe=pipe,
+                           annual_volume_m3=self.optional_quantity(node, "annual_volume", path, "volume"))
+
     def criteria(self, node: object, path: str = "criteria") -> Criteria:
         node = self.obj(node, path, frozenset({
             "suction_velocity_min", "suction_velocity_max", "delivery_velocity_min", "delivery_velocity_max",
@@ -416,7 +466,7 @@ class _Reader:
     def project(self, data: object) -> Project:
         root = self.obj(data, "(file)", frozenset({
             "format", "version", "name", "notes", "fluid", "site", "friction_method", "segments", "pumps",
-            "arrangement", "criteria", "energy", "flow_grid_max_factor", "profile",
+            "arrangement", "criteria", "energy", "flow_grid_max_factor", "profile", "other_pumps", "duty_profile",
         }))
         fmt = root.get("format")
         if fmt != FORMAT_NAME:
@@ -443,6 +493,9 @@ class _Reader:
         profile_node = self.get(root, "profile", "")
         if not isinstance(profile_node, list):
             raise ProjectFileError("profile", f"expected a list, got {_kind(profile_node)}")
+        others_node = root.get("other_pumps") or []
+        if not isinstance(others_node, list):
+            raise ProjectFileError("other_pumps", f"expected a list, got {_kind(others_node)}")
         return Project(
             name=self.text(root, "name", "", default="Untitled"),
             notes=self.text(root, "notes", "", default=""),
@@ -456,7 +509,17 @@ class _Reader:
             energy=self.energy(root.get("energy") or {}),
             flow_grid_max_factor=self.number(root, "flow_grid_max_factor", "", default=1.6),
             profile=tuple(self.profile_point(p, f"profile[{i}]") for i, p in enumerate(profile_node)),
+            other_pumps=tuple(self.other_pump(p, f"other_pumps[{i}]") for i, p in enumerate(others_node)),
+            duty_profile=self.duty_profile(root.get("duty_profile") or {}),
         )
+
+
+def _choice(text: str, allowed: tuple[str, ...], path: str) -> Any:
+    """``text`` when it is one of ``allowed`` (typed by the caller's annotation), else a clear refusal."""
+    if text in allowed:
+        return text
+    names = ", ".join(repr(a) for a in allowed[:-1]) + f" or {allowed[-1]!r}"
+    raise ProjectFileError(path, f"must be {names}, got {text!r}")
 
 
 def _side(text: str, path: str) -> Side:
@@ -715,6 +778,18 @@ def project_to_dict(project: Project) -> dict[str, object]:
         "annual_volume": _q(e.annual_volume_m3, "volume"),
         "tariff_per_kwh": e.tariff_per_kwh, "currency": e.currency,
     })
+    others = [{"pump": o.pump_id, "role": o.role, "variable_speed": o.variable_speed,
+               "speed_ratio": o.speed_ratio, "min_speed_ratio": o.min_speed_ratio, "trim_ratio": o.trim_ratio,
+               "motor_efficiency": o.motor_efficiency, "drive_efficiency": o.drive_efficiency}
+              for o in project.other_pumps]
+    d = project.duty_profile
+    time_key = "hours" if d.time_basis == "hours" else "share"
+    duty_profile = _drop_none({
+        "bands": [{"flow": _q(b.flow_m3_s, "flow"), time_key: b.time} for b in d.bands],
+        "time_basis": d.time_basis,
+        "annual_volume": _q(d.annual_volume_m3, "volume"),
+        "strategy": d.strategy, "pipe": d.pipe,
+    })
     return _drop_none({
         "format": FORMAT_NAME,
         "version": FORMAT_VERSION,
@@ -731,6 +806,8 @@ def project_to_dict(project: Project) -> dict[str, object]:
         "flow_grid_max_factor": project.flow_grid_max_factor,
         "profile": [{"chainage": _q(p.chainage_m, "length"), "elevation": _q(p.elevation_m, "elevation"),
                      "air_valve": p.air_valve} for p in project.profile],
+        "other_pumps": others,
+        "duty_profile": duty_profile,
     })
 
 

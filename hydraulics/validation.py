@@ -17,7 +17,9 @@ from dataclasses import dataclass
 from hydraulics.model import (
     Arrangement,
     Criteria,
+    DutyProfile,
     EnergyInputs,
+    InstalledPump,
     ModelError,
     PressurisedDelivery,
     ProfilePoint,
@@ -142,6 +144,12 @@ LIMITS: dict[str, Limit] = {
     "energy.operating_hours_per_year": Limit("operating hours per year", "dimensionless", 0.0, 8784.0),
     "energy.annual_volume_m3": Limit("annual volume", "volume", 0.0, 1e10),
     "energy.tariff_per_kwh": Limit("energy tariff", "dimensionless", 0.0, 100.0),
+    "other_pumps.count": Limit("installed pumps beside the arrangement's", "dimensionless", 0, 8, integer=True),
+    "duty_profile.bands": Limit("duty bands", "dimensionless", 0, 48, integer=True),
+    "duty_band.flow_m3_s": Limit("band flow", "flow", 0.0, 50.0),
+    "duty_band.hours": Limit("band hours per year", "dimensionless", 0.0, 8784.0),
+    "duty_band.share": Limit("band share of the year", "dimensionless", 0.0, 1.0),
+    "duty_profile.annual_volume_m3": Limit("annual volume", "volume", 0.0, 1e10),
     "project.flow_grid_max_factor": Limit("flow range factor", "dimensionless", 1.1, 5.0),
 }
 
@@ -322,6 +330,47 @@ def validate_arrangement(arrangement: Arrangement, project: Project, path: str =
     check("arrangement.efficiency", arrangement.drive_efficiency, f"{path}.drive_efficiency")
 
 
+def validate_other_pump(pump: InstalledPump, project: Project, path: str) -> None:
+    """Check one installed pump beside the arrangement's: its model, role, speeds and efficiencies."""
+    if project.pump(pump.pump_id) is None:
+        ids = ", ".join(p.pump_id for p in project.pumps) or "none defined"
+        raise ModelError(f"{path}.pump", f"no pump {pump.pump_id!r} in the project (pumps: {ids})")
+    if pump.role not in ("duty", "assist", "standby"):
+        raise ModelError(f"{path}.role", f"must be 'duty', 'assist' or 'standby', got {pump.role!r}")
+    check("arrangement.speed_ratio", pump.speed_ratio, f"{path}.speed_ratio")
+    if pump.variable_speed:
+        check("arrangement.speed_ratio", pump.min_speed_ratio, f"{path}.min_speed_ratio")
+        if pump.min_speed_ratio > pump.speed_ratio:
+            raise ModelError(f"{path}.min_speed_ratio", "minimum speed ratio is above the pump's speed ratio")
+    check("arrangement.trim_ratio", pump.trim_ratio, f"{path}.trim_ratio")
+    check("arrangement.efficiency", pump.motor_efficiency, f"{path}.motor_efficiency")
+    check("arrangement.efficiency", pump.drive_efficiency, f"{path}.drive_efficiency")
+
+
+def validate_duty_profile(profile: DutyProfile, path: str = "duty_profile") -> None:
+    """Check the duty bands, their time basis (hours ≤ a leap year's, shares summing to at most 1)."""
+    check("duty_profile.bands", len(profile.bands), f"{path}.bands")
+    if profile.time_basis not in ("hours", "share"):
+        raise ModelError(f"{path}.time_basis", f"must be 'hours' or 'share', got {profile.time_basis!r}")
+    if profile.strategy not in ("fixed_staging", "variable_speed"):
+        raise ModelError(f"{path}.strategy", f"must be 'fixed_staging' or 'variable_speed', got {profile.strategy!r}")
+    if profile.pipe not in ("new", "aged"):
+        raise ModelError(f"{path}.pipe", f"must be 'new' or 'aged', got {profile.pipe!r}")
+    time_key = "duty_band.hours" if profile.time_basis == "hours" else "duty_band.share"
+    total = 0.0
+    for i, band in enumerate(profile.bands):
+        check("duty_band.flow_m3_s", band.flow_m3_s, f"{path}.bands[{i}].flow")
+        total += check(time_key, band.time, f"{path}.bands[{i}].time")
+    limit = LIMITS[time_key]
+    if profile.bands and total > float(limit.high) * (1.0 + 1e-9):
+        whole = "hours in a leap year (8784)" if profile.time_basis == "hours" else "the whole year (100 %)"
+        raise ModelError(f"{path}.bands", f"the bands' times add up to more than {whole}", total)
+    _optional("duty_profile.annual_volume_m3", profile.annual_volume_m3, f"{path}.annual_volume")
+    if profile.annual_volume_m3 is not None and profile.bands and not any(
+            b.flow_m3_s > 0.0 and b.time > 0.0 for b in profile.bands):
+        raise ModelError(f"{path}.bands", "an annual volume needs at least one band with flow and time to scale")
+
+
 def validate_criteria(criteria: Criteria, path: str = "criteria") -> None:
     """Check the limits used by the checks, and that each lower bound is below its upper."""
     for side in ("suction", "delivery"):
@@ -381,7 +430,16 @@ def validate_project(project: Project) -> None:
     if project.arrangement is not None:
         validate_arrangement(project.arrangement, project)
     validate_criteria(project.criteria)
+    check("other_pumps.count", len(project.other_pumps), "other_pumps")
+    if project.other_pumps and project.arrangement is None:
+        raise ModelError("other_pumps", "installed pumps beside the arrangement's need an arrangement")
+    if project.other_pumps and project.arrangement is not None and project.arrangement.series_stages > 1:
+        raise ModelError("other_pumps", "installed pumps beside the arrangement's run in parallel only: "
+                         "the arrangement must have 1 series stage")
+    for i, other in enumerate(project.other_pumps):
+        validate_other_pump(other, project, f"other_pumps[{i}]")
     validate_energy(project.energy)
+    validate_duty_profile(project.duty_profile)
     check("project.flow_grid_max_factor", project.flow_grid_max_factor, "flow_grid_max_factor")
     validate_profile(project.profile)
     # Imported here: the catalogue modules below system_curve use this module's limits themselves.

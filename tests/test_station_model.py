@@ -6,7 +6,14 @@ from dataclasses import replace
 import pytest
 
 from hydraulics.model import Fitting, ModelError, ProfilePoint, Project, Segment, Site, TankDelivery
-from hydraulics.project_io import ProjectFileError, load_project, project_from_dict, project_to_dict, save_project
+from hydraulics.project_io import (
+    FORMAT_VERSION,
+    ProjectFileError,
+    load_project,
+    project_from_dict,
+    project_to_dict,
+    save_project,
+)
 from hydraulics.validation import validate_project
 
 
@@ -36,7 +43,7 @@ def test_a_station_round_trips_through_its_file(tmp_path):
     save_project(project, path)
     assert load_project(path) == project
     data = project_to_dict(project)
-    assert data["version"] == 3
+    assert data["version"] == FORMAT_VERSION
     assert [s["carries"] for s in data["segments"]] == ["pump", "pump", "station"]
     assert data["segments"][1]["fittings"][0] == {
         "type": "reducer_conical", "count": 1, "angle_deg": 20.0, "other_diameter": {"value": 0.2, "unit": "m"}}
