@@ -340,10 +340,20 @@ class SystemHydraulics:
         head to each summit (crest control, see the module description): the governing
         excess of :meth:`crest_excess` is added where it is positive.
         """
-        fric, minor = self.losses(flow_m3_s, aged)
-        total = np.asarray(static_m, dtype=float) + fric + minor
+        total = self.manifold_head(flow_m3_s, static_m, aged)
         if self.has_branches:
             total = total + self.branch_loss(self._per_pump(flow_m3_s, pumps_running), aged)
+        return total
+
+    def manifold_head(self, flow_m3_s: ArrayLike, static_m: ArrayLike, aged: ArrayLike) -> FloatArray:
+        """Head the system needs at the manifold, H_static + L_station(Q) (+ crest control), elementwise.
+
+        :meth:`head` without any pump's own branch: what every running pump must deliver
+        at its branch's downstream end, whatever its model (pumps in parallel share this
+        head; see :mod:`hydraulics.pump_set`).
+        """
+        fric, minor = self.losses(flow_m3_s, aged)
+        total: FloatArray = np.asarray(static_m, dtype=float) + fric + minor
         if self.crest is not None:
             excess = self.crest_excess(flow_m3_s, static_m, aged)
             total = total + np.maximum(np.max(excess, axis=-1), 0.0)
@@ -440,12 +450,23 @@ class SystemHydraulics:
         The common suction segments at the station flow Q plus that pump's own suction
         branch at Q/N (the same sums as :meth:`losses`; zero without suction segments).
         """
-        fric, minor = self._loss_totals(flow_m3_s, aged, self._suction_loss_constants)
-        total = fric + minor
+        total = self.common_suction_loss(flow_m3_s, aged)
         if self.has_branches:
-            b_fric, b_minor = self._loss_totals(self._per_pump(flow_m3_s, pumps_running), aged,
-                                                self._branch_suction_loss_constants)
-            total = total + (b_fric + b_minor)
+            total = total + self.branch_suction_loss(self._per_pump(flow_m3_s, pumps_running), aged)
+        return total
+
+    def common_suction_loss(self, flow_m3_s: ArrayLike, aged: ArrayLike) -> FloatArray:
+        """Friction plus minor loss of the common suction segments at the station flow Q (m)."""
+        fric, minor = self._loss_totals(flow_m3_s, aged, self._suction_loss_constants)
+        total: FloatArray = fric + minor
+        return total
+
+    def branch_suction_loss(self, flow_per_pump_m3_s: ArrayLike, aged: ArrayLike) -> FloatArray:
+        """Friction plus minor loss of one pump's own suction branch at that pump's flow (m; 0 without)."""
+        if not self.has_branches:
+            return np.zeros(np.shape(flow_per_pump_m3_s))
+        fric, minor = self._loss_totals(flow_per_pump_m3_s, aged, self._branch_suction_loss_constants)
+        total: FloatArray = fric + minor
         return total
 
     @staticmethod
