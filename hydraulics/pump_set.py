@@ -103,7 +103,9 @@ def installed_pumps(project: Project) -> tuple[SetPump, ...]:
     out: list[SetPump] = []
     own_high = float(a.max_speed_ratio if a.variable_speed else a.speed_ratio)
     own_low = float(a.min_speed_ratio if a.variable_speed else a.speed_ratio)
-    roles: list[PumpRole] = ["duty"] * int(a.duty_count) + ["standby"] * int(a.standby_count)
+    duty: list[PumpRole] = ["duty"] * int(a.duty_count)
+    standby: list[PumpRole] = ["standby"] * int(a.standby_count)
+    roles = duty + standby
     for role in roles:
         out.append(SetPump(f"P{len(out) + 1}", a.pump_id, role, bool(a.variable_speed), own_high, own_low,
                            float(a.trim_ratio), float(a.motor_efficiency), float(a.drive_efficiency), True))
