@@ -11,21 +11,34 @@ With identical pumps the largest pump out of service is any one of them: with at
 one standby installed, ``duty_count`` pumps still run (the standby takes the place of the
 one out); without a standby ``duty_count − 1`` run.
 
+With pumps of different models (:attr:`hydraulics.model.Project.other_pumps`) every duty and
+assist pump runs for the capacity, in parallel at the manifold (:mod:`hydraulics.pump_set`); the
+largest pump is the one delivering most there, and the first standby pump listed takes its
+place (:func:`pump_set_capacity`).
+
 Codes (stable, listed with the others in :mod:`hydraulics.checks`):
 
 * ``design_flow_not_met`` (critical): the duty pumps at the maximum speed deliver less
   than the design flow at the worst case; the shortfall is quoted as a flow and a share.
 * ``no_standby`` (warning, info when the remaining pumps still meet the design flow):
   no standby pump is installed; the message gives the capacity with one pump out.
+* ``standby_short`` (warning): with pumps of different models, the standby in place of the
+  largest pump does not restore the design flow.
 """
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
+from typing import TYPE_CHECKING
 
-from hydraulics.model import Arrangement
+from hydraulics.model import Arrangement, Project
 from hydraulics.number_format import percent_number
 from hydraulics.results import CapacityResult, Finding, FindingTarget, OperatingPoint, finding
+
+if TYPE_CHECKING:
+    from hydraulics.pump_fit import FittedPump
+    from hydraulics.pump_set import SetPump
+    from hydraulics.system_curve import SystemHydraulics
 
 WORST_STATIC = "max"
 WORST_PIPE = "aged"
@@ -79,6 +92,44 @@ def station_capacity(arrangement: Arrangement, design_flow_m3_s: float,
     )
 
 
+def pump_set_capacity(project: Project, system: SystemHydraulics, fitted_by_id: Mapping[str, FittedPump],
+                      design_flow_m3_s: float) -> CapacityResult | None:
+    """The capacity at the worst case with pumps of different models (``None`` without a run sequence).
+
+    Every duty and assist pump at its highest speed; then the largest out of service, the
+    first standby in its place (:func:`hydraulics.pump_set_points.largest_out_set`).
+    """
+    from hydraulics.pump_set import solve_pump_set, stage_label
+    from hydraulics.pump_set_points import largest_out_set
+
+    chosen = largest_out_set(project, system, fitted_by_id)
+    if chosen is None:
+        return None
+    full, out, instead = chosen
+    static = system.static_head_m[WORST_STATIC]
+
+    def flow(pumps: Sequence[SetPump]) -> float:
+        if not pumps:
+            return 0.0
+        solved = solve_pump_set(system, fitted_by_id, pumps, static, True)
+        return float(solved.flow_m3_s[0]) if solved.found[0] else 0.0
+
+    design = float(design_flow_m3_s)
+    flow_all, flow_out = flow(full), flow(instead)
+    short_all, share_all = _shortfall(design, flow_all)
+    short_out, share_out = _shortfall(design, flow_out)
+    standby = sum(1 for p in instead if p.role == "standby")
+    speed = max(p.speed_ratio for p in full)
+    return CapacityResult(
+        design_flow_m3_s=design, static=WORST_STATIC, pipe=WORST_PIPE, speed_ratio=speed,
+        duty_count=len(full), standby_count=standby,
+        flow_all_duty_m3_s=flow_all, shortfall_all_duty_m3_s=short_all, shortfall_all_duty_fraction=share_all,
+        pumps_one_out=len(instead), flow_one_out_m3_s=flow_out,
+        shortfall_one_out_m3_s=short_out, shortfall_one_out_fraction=share_out,
+        running_all=stage_label(full), pump_out=out.tag, running_one_out=stage_label(instead),
+    )
+
+
 def _pumps(n: int) -> str:
     return "1 pump" if n == 1 else f"{n} pumps"
 
@@ -91,11 +142,24 @@ def capacity_findings(capacity: CapacityResult, where: str, target: FindingTarge
     if not capacity.meets_design:
         out.append(finding(
             "critical", "design_flow_not_met",
-            f"With {_pumps(capacity.duty_count)} running {case} the station delivers {{q}}, short of the design "
-            f"flow {{design}} by {{short}} ({percent_number(capacity.shortfall_all_duty_fraction, 1)} %).",
+            f"With {capacity.running_all or _pumps(capacity.duty_count)} running {case} the station delivers "
+            f"{{q}}, short of the design flow {{design}} by {{short}} "
+            f"({percent_number(capacity.shortfall_all_duty_fraction, 1)} %).",
             {"q": (capacity.flow_all_duty_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),
              "short": (capacity.shortfall_all_duty_m3_s, "flow")},
             where, "Choose a larger pump, more duty pumps, a higher maximum speed or a larger main.", target))
+    if capacity.running_one_out:  # pumps of different models: the standby may not match the pump out
+        if not capacity.meets_design_one_out:
+            spare = "no standby in its place" if capacity.standby_count == 0 else "the standby in its place"
+            out.append(finding(
+                "warning", "standby_short" if capacity.standby_count else "no_standby",
+                f"With {capacity.pump_out} out of service and {spare} ({capacity.running_one_out} running {case}) "
+                f"the station delivers {{q}}, short of the design flow {{design}} by {{short}} "
+                f"({percent_number(capacity.shortfall_one_out_fraction, 1)} %).",
+                {"q": (capacity.flow_one_out_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),
+                 "short": (capacity.shortfall_one_out_m3_s, "flow")},
+                where, "Install a standby pump able to replace the largest pump.", target))
+        return out
     if capacity.standby_count >= 1:  # identical pumps: the standby restores the full duty set
         return out
     values = {"q": (capacity.flow_one_out_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),

@@ -515,7 +515,16 @@ def point_findings(project: Project, fitted: FittedPump, points: Sequence[Operat
 
 
 def _npsh_findings(point: OperatingPoint, criteria: Criteria, where: str, target: FindingTarget) -> list[Finding]:
-    npsha, npshr = point.npsh_available_m, point.npsh_required_m
+    return npsh_margin_findings(point.npsh_available_m, point.npsh_required_m, criteria, where, target)
+
+
+def npsh_margin_findings(npsha: float | None, npshr: float | None, criteria: Criteria, where: str,
+                         target: FindingTarget | None) -> list[Finding]:
+    """``npsh_insufficient`` or ``npsh_margin_low`` for one pump at one point (none when the margin holds).
+
+    The margin asked for is the larger of the ratio and the least margin of the criteria
+    (ANSI/HI 9.6.1 logic, see the module description).
+    """
     if npsha is None or npshr is None:
         return []
     required = max(criteria.npsh_margin_ratio * npshr, npshr + criteria.npsh_margin_min_m)

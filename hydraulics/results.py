@@ -522,6 +522,12 @@ class CapacityResult:
     flow_one_out_m3_s: float
     shortfall_one_out_m3_s: float
     shortfall_one_out_fraction: float
+    running_all: str = ""
+    """With pumps of different models: the tags running with every duty and assist pump ("P1+P2+P3")."""
+    pump_out: str = ""
+    """With pumps of different models: the tag of the largest pump, taken out of service."""
+    running_one_out: str = ""
+    """With pumps of different models: the tags running with it out (a standby in its place)."""
 
     @property
     def meets_design(self) -> bool:
@@ -688,6 +694,117 @@ class NpshWorstCase:
 
 
 @dataclass(frozen=True)
+class InstalledPumpRow:
+    """One installed pump as listed in the results: tag, model, role and speed control."""
+
+    tag: str
+    pump_id: str
+    pump_name: str
+    role: str
+    control: str
+    from_arrangement: bool
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return asdict(self)
+
+
+@dataclass(frozen=True)
+class PumpShare:
+    """What one running pump does at a pump-set point (SI; ``None`` where unknown).
+
+    ``head_m`` is the pump's own head (at its flanges); the manifold head is the point's.
+    ``shut_off`` marks a pump whose head cannot open its check valve against the manifold
+    head: it delivers nothing and runs at shut-off.
+    """
+
+    tag: str
+    pump_id: str
+    pump_name: str
+    role: str
+    speed_ratio: float
+    flow_m3_s: float | None
+    head_m: float | None
+    efficiency: float | None
+    shaft_power_w: float | None
+    input_power_w: float | None
+    bep_flow_ratio: float | None
+    npsh_available_m: float | None
+    npsh_required_m: float | None
+    shut_off: bool
+    extrapolated: bool
+
+    @property
+    def npsh_margin_m(self) -> float | None:
+        """NPSH available less required (m), where both are known."""
+        if self.npsh_available_m is None or self.npsh_required_m is None:
+            return None
+        return self.npsh_available_m - self.npsh_required_m
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {**asdict(self), "npsh_margin_m": self.npsh_margin_m}
+
+
+@dataclass(frozen=True)
+class PumpSetPoint:
+    """An operating point of installed pumps of different models (or roles) running in parallel.
+
+    ``running`` lists the tags of the pumps running; ``basis`` says why this set was solved
+    (a stage of the run sequence, or a pump out of service with a standby in its place);
+    ``speed`` is ``"highest speed"`` (every pump at its own speed ratio) or ``"lowest speed"``
+    (the variable-speed pumps at their minimum).  ``found`` False: ``reason`` says why.
+    """
+
+    static: str
+    pipe: str
+    running: tuple[str, ...]
+    basis: str
+    speed: str
+    found: bool
+    reason: str | None
+    flow_m3_s: float | None
+    manifold_head_m: float | None
+    input_power_w: float | None
+    specific_energy_kwh_m3: float | None
+    shares: tuple[PumpShare, ...]
+
+    @property
+    def label(self) -> str:
+        """``"P1+P2+P3"``."""
+        return "+".join(self.running)
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {"static": self.static, "pipe": self.pipe, "running": list(self.running), "basis": self.basis,
+                "speed": self.speed, "found": self.found, "reason": self.reason, "flow_m3_s": self.flow_m3_s,
+                "manifold_head_m": self.manifold_head_m, "input_power_w": self.input_power_w,
+                "specific_energy_kwh_m3": self.specific_energy_kwh_m3,
+                "pumps": [share.to_json_dict() for share in self.shares]}
+
+
+@dataclass(frozen=True)
+class PumpSetResult:
+    """The installed pumps, the run sequence and the points of pumps of different models together.
+
+    ``stages`` lists, per stage of the run sequence, the tags running (stage k: the first k
+    duty pumps, then assist pumps).  The arrangement's identical stages are the ordinary
+    operating points (``Solution.operating_points``, ``pumps_running`` = k); ``points`` holds
+    the others: stages with other pumps and the sets with a standby in service.
+    """
+
+    pumps: tuple[InstalledPumpRow, ...]
+    stages: tuple[tuple[str, ...], ...]
+    points: tuple[PumpSetPoint, ...] = ()
+
+    def running_label(self, pumps_running: int) -> str:
+        """The tags of the arrangement's first ``pumps_running`` duty pumps (``"P1+P2"``)."""
+        duty = [p.tag for p in self.pumps if p.from_arrangement and p.role == "duty"]
+        return "+".join(duty[:pumps_running])
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {"pumps": [p.to_json_dict() for p in self.pumps], "stages": [list(s) for s in self.stages],
+                "points": [p.to_json_dict() for p in self.points]}
+
+
+@dataclass(frozen=True)
 class Solution:
     """Everything the engine computed for a project.
 
@@ -728,6 +845,8 @@ class Solution:
     speed_points: tuple[SpeedPoint, ...] = ()
     speed_map: SpeedMap | None = None
     motor: MotorResult | None = None
+    pump_set: PumpSetResult | None = None
+    """The installed pumps and the points of dissimilar pumps together (``None`` without a pump)."""
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

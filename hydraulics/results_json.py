@@ -21,6 +21,13 @@ design flow (:class:`hydraulics.results.CapacityResult`).  ``speed_points`` list
 operating point the checks saw — at the arrangement's speed, the drive's minimum and
 maximum speeds and the speeds found for the design flow — each an operating point's keys
 plus ``basis`` (why it was solved) and ``findings`` (the codes of its point checks).
+Since the motor check: ``motor``.  Since dissimilar pumps: ``pump_set`` (``None`` without a
+pump; :class:`hydraulics.results.PumpSetResult`): ``pumps`` lists every installed pump (tag
+P1…, model, role, speed control), ``stages`` the tags running at each stage of the run
+sequence (stage k of the arrangement's identical pumps is the operating points' ``pumps_running``
+= k), and ``points`` the operating points of sets with pumps of other models and of the set
+with the largest pump out of service, each with the manifold head and, per running pump
+(``pumps``), its flow, head, efficiency, powers and NPSH.
 
 ``segments`` lists every segment at the design flow with the duty pumps running (each entry
 also says what it ``carries`` and its ``flow_m3_s``); ``branches`` lists the segments of
@@ -152,5 +159,6 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
         "capacity": _to_dict(solution.capacity),
         "speed_points": [p.to_json_dict() for p in solution.speed_points],
         "motor": _to_dict(solution.motor),
+        "pump_set": _to_dict(solution.pump_set),
     }
     return {key: _clean(value) for key, value in data.items()}

@@ -99,6 +99,8 @@ class CurvesStage:
     """At the lowest suction level (the NPSH-available curve)."""
     npsh_static_by_case_m: dict[str, float] | None = None
     """Per static extreme at its own suction level (the operating points)."""
+    fitted_by_id: dict[str, FittedPump] | None = None
+    """Every pump model the installed pumps use, fitted (the arrangement's first)."""
 
 
 def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> CurvesStage:
@@ -135,6 +137,12 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     from hydraulics.specific_speed import pump_specific_speeds
 
     fitted = _cached_fit(pump, fluid.density_kg_m3)
+    fitted_by_id = {pump.pump_id: fitted}
+    for other in project.other_pumps:
+        model = project.pump(other.pump_id)
+        if model is not None and other.pump_id not in fitted_by_id:
+            fitted_by_id[other.pump_id] = _cached_fit(model, fluid.density_kg_m3)
+    fits = tuple(fitted_by_id.values())
     npsh_static = npsh_static_head(project, p_atm, fluid)
     npsh_by_case = npsh_static_heads(project, p_atm, fluid)
     points = operating_points(system, fitted, arrangement, npsh_by_case, fluid.density_kg_m3)
@@ -145,16 +153,16 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     curve_max = max(float(np.max(c.flow_m3_s)) for c in pump_curves)
     flows = flow_grid(max(max_flow, 1.05 * curve_max), n_flow_points)
     solution = replace(
-        base, curves=system_curves(system, flows), pump_fits=(fitted,), operating_points=points,
+        base, curves=system_curves(system, flows), pump_fits=fits, operating_points=points,
         energy=annual_energy(points, project.energy, design_flow), pump_curves=pump_curves,
         npsh_available_curve=_npsh_curve(system, npsh_static, pump_curves[0], flows, design_pumps,
                                          npsh_by_case["min"]),
         profile=solved_profile(project, system, points, fluid.density_kg_m3),
-        specific_speeds=(pump_specific_speeds(fitted),),
+        specific_speeds=tuple(pump_specific_speeds(f) for f in fits),
         npsh_worst_case=npsh_worst_case(system, points, npsh_static, project.site.suction_level_low_m,
                                         project.criteria),
     )
-    return CurvesStage(solution, system, fitted, npsh_static, npsh_by_case)
+    return CurvesStage(solution, system, fitted, npsh_static, npsh_by_case, fitted_by_id)
 
 
 def complete_solution(stage: CurvesStage) -> Solution:
@@ -185,10 +193,11 @@ def complete_solution(stage: CurvesStage) -> Solution:
         findings += range_guards.range_guard_findings(project, first.fluid, at_design, None, ())
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
-    from hydraulics.capacity import capacity_findings, station_capacity
+    from hydraulics.capacity import capacity_findings, pump_set_capacity, station_capacity
     from hydraulics.motor import motor_check, motor_findings
     from hydraulics.npsh_worst_case import npsh_worst_case_findings
     from hydraulics.operating_points import operating_points
+    from hydraulics.pump_set_points import pump_set_findings, pump_set_result
     from hydraulics.specific_speed import criteria_findings
     from hydraulics.speed_map import speed_map
     from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
@@ -228,14 +237,20 @@ def complete_solution(stage: CurvesStage) -> Solution:
     findings += checks.group_scenario_findings(at_points)
     if arrangement.variable_speed:  # a fixed-speed pump has no speed to find
         findings += variable_speed_findings(speed, fitted)
-    findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, (fitted,))
-    findings += criteria_findings(project.criteria, fitted) + npsh_worst_case_findings(project, first.npsh_worst_case)
-    capacity = station_capacity(arrangement, design_flow, at_speeds)
+    fitted_by_id = stage.fitted_by_id or {fitted.pump.pump_id: fitted}
+    findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, first.pump_fits)
+    for each in first.pump_fits:
+        findings += criteria_findings(project.criteria, each)
+    findings += npsh_worst_case_findings(project, first.npsh_worst_case)
+    pump_set = pump_set_result(project, system, fitted_by_id, stage.npsh_static_by_case_m)
+    findings += pump_set_findings(pump_set, project.criteria)
+    capacity = (pump_set_capacity(project, system, fitted_by_id, design_flow) if project.other_pumps else None) \
+        or station_capacity(arrangement, design_flow, at_speeds)
     findings += capacity_findings(capacity, pump_where, pump_target)
     motor = motor_check(fitted, arrangement, project.criteria, at_speeds)
     findings += motor_findings(motor, pump_where, pump_target)
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True,
-                   capacity=capacity, motor=motor, speed_points=speed_points,
+                   capacity=capacity, motor=motor, speed_points=speed_points, pump_set=pump_set,
                    speed_map=speed_map(system, fitted, arrangement, speed))
 
 
