@@ -252,11 +252,11 @@ def test_sample_files_are_marked_invented_and_read_cleanly(name):
 
 def test_sample_sewage_file_uses_cubic_metres_per_hour_and_decimal_comma():
     text = (PUMPS / "sewage_sw150.csv").read_text(encoding="utf-8")
-    assert "flow [m3/h];" in text and "28,0" in text
+    assert "flow [m3/h];" in text and "32,6" in text
     pump = read_pump_csv(PUMPS / "sewage_sw150.csv", "SW150", "sewage")
     assert pump.rated_speed_rpm == 1480.0
     i = pump.flow_m3_s.index(pytest.approx(0.06, rel=1e-12))  # 216 m³/h = 216/3600 m³/s
-    assert pump.head_m[i] == 28.0 and pump.efficiency[i] == pytest.approx(0.68)
+    assert pump.head_m[i] == 32.6 and pump.efficiency[i] == pytest.approx(0.687)  # the file's row "216; 32,6; 68,7"
 
 
 def test_sample_booster_and_intake_units():

@@ -222,7 +222,7 @@ def test_json_summary_is_plain_data():
 @pytest.mark.parametrize("name, bep_flow, bep_eta, shutoff", [
     # Intended shapes of the invented demo pumps (their data were made around these values)
     ("booster_bp80.csv", 0.035, 0.76, 103.0),
-    ("sewage_sw150.csv", 0.060, 0.68, 40.0),
+    ("sewage_sw150.csv", 250.0 / 3600.0, 0.70, 41.2),  # best efficiency at 250 m³/h
     ("intake_rw250.csv", 0.150, 0.82, 42.0),
 ])
 def test_sample_pumps_fit_as_intended(name, bep_flow, bep_eta, shutoff):

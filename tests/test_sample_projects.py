@@ -260,3 +260,54 @@ def test_the_sewage_main_crosses_gallows_ridge_with_an_air_valve_at_the_summit()
     # the delivery manhole at 38 m lies 6.5 m below the summit, so a vented summit can govern
     assert project.site.delivery.level_high_m == 38.0 and summit.elevation_m - 38.0 == pytest.approx(6.5)
     assert [p for p in project.profile if p.air_valve] == [summit]
+
+
+def test_sewage_sample_worst_case_duty_meets_the_design_flow_with_margin():
+    # Worst case for capacity (hydraulics/capacity.py): wet well at its lowest 21.0 m, aged pipe, both duty
+    # pumps at full speed.  Aged roughness (resources/materials.json): ductile iron 0.15 mm, slimed sewage
+    # main 0.6 mm.  System head: the larger of the head to the manhole (38.0 − 21.0 = 17.0 m static, every
+    # loss) and to the vented summit of Gallows Ridge (44.5 − 21.0 = 23.5 m, the losses up to chainage 1908 m).
+    project = _load("sewage_wet_well")
+    solution = solve(project)
+    nu = solution.fluid.kinematic_viscosity_m2_s
+    pump = solution.pump_fits[0]
+    d_250, d_200, d_300, d_pe400 = 0.2570, 0.2066, 0.3076, 0.3526
+    eps_iron, eps_main = 0.15e-3, 0.6e-3
+
+    def heads(q: float) -> tuple[float, float]:
+        per_pump = q / 2
+        branch = (_loss(per_pump, d_250, 5.0, eps_iron, K_BELLMOUTH + (N_BEND_R_D_1 + N_GATE) * _f_t(d_250), nu)
+                  + _loss(per_pump, d_200, 0.4, eps_iron, _reducer_k(d_250, d_200), nu)
+                  + _loss(per_pump, d_200, 6.0, eps_iron,
+                          (N_SWING_CHECK + N_GATE + 2 * N_BEND_R_D_1) * _f_t(d_200) + _expander_k(0.150, d_200), nu))
+        manifold = _loss(q, d_300, 8.0, eps_iron, (N_TEE_BRANCH + N_TEE_RUN + N_GATE + N_BEND_R_D_1) * _f_t(d_300), nu)
+        to_ridge = _loss(q, d_pe400, 1900.0, eps_main, _expander_k(d_300, d_pe400) + 4 * N_ELBOW_45 * _f_t(d_pe400), nu)
+        beyond = _loss(q, d_pe400, 1300.0, eps_main, 3 * N_ELBOW_45 * _f_t(d_pe400) + K_EXIT, nu)
+        return 17.0 + branch + manifold + to_ridge + beyond, 23.5 + branch + manifold + to_ridge
+
+    point = next(p for p in solution.operating_points if (p.static, p.pipe, p.pumps_running) == ("max", "aged", 2))
+    q = point.flow_m3_s
+    # hand, at Q = 115.8 L/s (57.9 L/s = 208.5 m³/h per pump): branch 0.504 m, manifold 0.230 m, main to the
+    # ridge 8.949 m, beyond it 6.197 m; to the manhole 17.0 + 15.880 = 32.88 m, to the summit
+    # 23.5 + 9.683 = 33.18 m: the summit governs.  The pump data give 33.14 m at 208.5 m³/h on the straight
+    # line between 180 m³/h (35.2 m) and 216 m³/h (32.6 m); the fitted curve, concave, lies just above: 33.18 m.
+    to_delivery, to_summit = heads(q)
+    assert q == pytest.approx(0.1158, abs=2e-4)
+    assert to_delivery == pytest.approx(32.88, abs=0.02) and to_summit == pytest.approx(33.18, abs=0.02)
+    assert point.control == "crest at 1908 m"
+    assert float(pump.head(q / 2)) == pytest.approx(to_summit, abs=1e-6)  # the duty point: pump head = system head
+    assert float(np.interp(q / 2 * 3600, [180.0, 216.0], [35.2, 32.6])) == pytest.approx(to_summit, abs=0.1)
+    # the design flow 110 L/s (sample file) is met with the duty pumps and, with the standby in place of one out
+    # of service, still met; the margin is a few per cent (common practice: 3–8 %)
+    capacity = solution.capacity
+    assert capacity.flow_all_duty_m3_s == pytest.approx(q, rel=1e-12) and capacity.meets_design
+    assert capacity.meets_design_one_out and capacity.flow_one_out_m3_s == capacity.flow_all_duty_m3_s
+    assert 1.03 <= q / project.site.design_flow_m3_s <= 1.08
+    # one pump alone at the worst case still scours the main: v = Q / (π D² / 4) ≥ 0.75 m/s (sewage
+    # self-cleansing minimum, common practice)
+    alone = next(p for p in solution.operating_points if (p.static, p.pipe, p.pumps_running) == ("max", "aged", 1))
+    assert alone.flow_m3_s / (math.pi * d_pe400**2 / 4) >= 0.75
+    # the drive's minimum lifts over the summit with a margin: (0.85)² × 41.19 m = 29.76 m shut-off head
+    # against 23.5 m (affinity laws, H ∝ n²)
+    assert project.arrangement.min_speed_ratio**2 * pump.shutoff_head_m >= 23.5 + 5.0
+    assert not {f.code for f in solution.findings} & {"design_flow_not_met", "minimum_speed_cannot_lift"}
