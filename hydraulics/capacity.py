@@ -149,7 +149,8 @@ def capacity_findings(capacity: CapacityResult, where: str, target: FindingTarge
              "short": (capacity.shortfall_all_duty_m3_s, "flow")},
             where, "Choose a larger pump, more duty pumps, a higher maximum speed or a larger main.", target))
     if capacity.running_one_out:  # pumps of different models: the standby may not match the pump out
-        if not capacity.meets_design_one_out:
+        restored = capacity.flow_one_out_m3_s >= capacity.flow_all_duty_m3_s * (1.0 - SHORTFALL_TOLERANCE)
+        if not capacity.meets_design_one_out and not restored:  # else design_flow_not_met says it all
             spare = "no standby in its place" if capacity.standby_count == 0 else "the standby in its place"
             out.append(finding(
                 "warning", "standby_short" if capacity.standby_count else "no_standby",
