@@ -30,6 +30,7 @@ from hydraulics.results import (
     NpshCurve,
     OperatingPoint,
     PumpCurve,
+    PumpSetResult,
     SegmentResult,
     Solution,
     SpeedPoint,
@@ -229,20 +230,20 @@ def complete_solution(stage: CurvesStage) -> Solution:
     speed_points = tuple(SpeedPoint(p, basis, tuple(dict.fromkeys(codes.get(_key(p), ()))))
                          for p, basis in checked)
 
-    found = [p for p, _ in checked if p.found and p.flow_m3_s is not None]
-    lowest, low_where = _segments_at_extreme(system, found, highest=False) if found else (None, None)
-    highest, high_where = _segments_at_extreme(system, found, highest=True) if found else (None, None)
+    fitted_by_id = stage.fitted_by_id or {fitted.pump.pump_id: fitted}
+    pump_set = pump_set_result(project, system, fitted_by_id, stage.npsh_static_by_case_m)
+    flows = _flows_seen([p for p, _ in checked if p.found and p.flow_m3_s is not None], pump_set)
+    lowest, low_where = _segments_at_extreme(system, flows, highest=False) if flows else (None, None)
+    highest, high_where = _segments_at_extreme(system, flows, highest=True) if flows else (None, None)
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest,
                                          lowest_where=low_where, highest_where=high_where)
     findings += checks.group_scenario_findings(at_points)
     if arrangement.variable_speed:  # a fixed-speed pump has no speed to find
         findings += variable_speed_findings(speed, fitted)
-    fitted_by_id = stage.fitted_by_id or {fitted.pump.pump_id: fitted}
     findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, first.pump_fits)
     for each in first.pump_fits:
         findings += criteria_findings(project.criteria, each)
     findings += npsh_worst_case_findings(project, first.npsh_worst_case)
-    pump_set = pump_set_result(project, system, fitted_by_id, stage.npsh_static_by_case_m)
     findings += pump_set_findings(pump_set, project.criteria)
     capacity = (pump_set_capacity(project, system, fitted_by_id, design_flow) if project.other_pumps else None) \
         or station_capacity(arrangement, design_flow, at_speeds)
@@ -377,24 +378,50 @@ def _curves_at_manifold(system: SystemHydraulics, curves: tuple[PumpCurve, ...])
     return tuple(out)
 
 
-def _segments_at_extreme(system: SystemHydraulics, points: list[OperatingPoint],
+@dataclass(frozen=True)
+class _FlowSeen:
+    """A station flow and one running pump's flow at a solved point, with the point's label."""
+
+    station_m3_s: float
+    pump_m3_s: float
+    label: str
+
+
+def _flows_seen(points: list[OperatingPoint], pump_set: PumpSetResult | None) -> list[_FlowSeen]:
+    """Every station and per-pump flow the velocity checks must see.
+
+    The identical pumps' points (each pump Q/N) and, with pumps of other models, each
+    running pump's own flow at the pump-set points (its branch carries that flow).
+    """
+    out = [_FlowSeen(float(p.flow_m3_s or 0.0), float(p.flow_m3_s or 0.0) / p.pumps_running,
+                     checks.scenario_label(p)) for p in points]
+    if pump_set is not None:
+        from hydraulics.pump_set_points import point_label
+
+        for point in pump_set.points:
+            if not point.found or point.flow_m3_s is None:
+                continue
+            label = point_label(point)
+            shares = [s.flow_m3_s for s in point.shares if s.flow_m3_s is not None and s.flow_m3_s > 0.0]
+            out += [_FlowSeen(point.flow_m3_s, q, label) for q in shares]
+    return out
+
+
+def _segments_at_extreme(system: SystemHydraulics, flows: list[_FlowSeen],
                          highest: bool) -> tuple[tuple[SegmentResult, ...], dict[int, str]]:
-    """The segment table at the highest (or lowest) flow each segment sees over ``points``.
+    """The segment table at the highest (or lowest) flow each segment sees over ``flows``.
 
     A common segment sees its extreme at the extreme station flow; a pump-branch segment
-    at the extreme per-pump flow Q/N, which need not be the same operating point (one
+    at the extreme flow of one running pump, which need not be the same operating point (one
     pump alone runs further out on its curve than each of two).  With it, per segment
     index, the scenario of that flow.
     """
     pick = max if highest else min
-    by_station = pick(points, key=lambda p: float(p.flow_m3_s or 0.0))
-    station_rows = segment_results(system, float(by_station.flow_m3_s or 0.0),
-                                   pumps_running=by_station.pumps_running)
-    station_label = checks.scenario_label(by_station)
+    by_station = pick(flows, key=lambda f: f.station_m3_s)
+    station_rows = segment_results(system, by_station.station_m3_s)
     if not system.has_branches:
-        return station_rows, {row.index: station_label for row in station_rows}
-    by_pump = pick(points, key=lambda p: float(p.flow_m3_s or 0.0) / p.pumps_running)
-    branch_rows = segment_results(system, float(by_pump.flow_m3_s or 0.0), pumps_running=by_pump.pumps_running)
-    pump_label = checks.scenario_label(by_pump)
+        return station_rows, {row.index: by_station.label for row in station_rows}
+    by_pump = pick(flows, key=lambda f: f.pump_m3_s)
+    branch_rows = segment_results(system, by_pump.pump_m3_s, pumps_running=1)  # only its branch rows are read
     rows = tuple(b if b.carries == "pump" else s for s, b in zip(station_rows, branch_rows, strict=True))
-    return rows, {row.index: pump_label if row.carries == "pump" else station_label for row in rows}
+    return rows, {row.index: by_pump.label if row.carries == "pump" else by_station.label for row in rows}

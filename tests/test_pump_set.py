@@ -11,6 +11,7 @@ are the engine's own fitted polynomials (the fit is tested in tests/test_pump_fi
 pumps and the station are invented for these checks.
 """
 
+import math
 from dataclasses import replace
 
 import numpy as np
@@ -172,3 +173,19 @@ def test_the_json_lists_the_pump_set():
     assert first["running"] == ["P1", "P3"] and len(first["pumps"]) == 2
     assert first["flow_m3_s"] == pytest.approx(sum(p["flow_m3_s"] for p in first["pumps"]), rel=1e-12)
 
+
+
+def test_velocities_are_checked_at_the_flows_of_pumps_of_other_models_running_together():
+    project = with_other(SMALL)
+    plain = solve(project)
+    main = next(s for s in plain.segments if s.name == "manifold and main")
+    area = math.pi * main.internal_diameter_m ** 2 / 4.0  # v = Q / A (continuity)
+    alone = max(p.flow_m3_s for p in plain.operating_points if p.found)
+    together = max(p.flow_m3_s for p in plain.pump_set.points if p.found)
+    assert together > alone
+    limit = (alone + together) / 2.0 / area  # only the pumps together exceed it
+    criteria = replace(project.criteria, delivery_velocity_max_m_s=limit)
+    solution = solve(replace(project, criteria=criteria))
+    high = [f for f in solution.findings if f.code == "velocity_high" and "manifold and main" in f.where]
+    assert high and "P1+P3" in high[0].where
+    assert high[0].values[0][1] == pytest.approx(together / area, rel=1e-9)  # v = Q / A at the pumps' flow
