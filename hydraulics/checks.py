@@ -39,7 +39,16 @@ Capacity codes are raised by :func:`hydraulics.capacity.capacity_findings`:
 ==========================  =======================================================
 ``design_flow_not_met``     the duty pumps at maximum speed fall short of the design flow at the worst case
 ``no_standby``              no standby pump; the capacity with one pump out
+``standby_short``           pumps of different models: the standby does not replace the largest pump
 ==========================  =======================================================
+
+Pump-set codes (pumps of different models in parallel) are raised by
+:func:`hydraulics.pump_set_points.pump_set_findings`:
+
+===========================  ======================================================
+``pump_held_shut``           a running pump cannot open its check valve: it churns at shut-off
+``pump_below_minimum_flow``  a weaker pump is pushed back below its allowable region
+===========================  ======================================================
 
 The point checks (operating region, NPSH, extrapolation) run at every solved point: the
 arrangement's speed, the drive's minimum and maximum speeds and the speeds found for the
