@@ -48,6 +48,7 @@ Pump-set codes (pumps of different models in parallel) are raised by
 ===========================  ======================================================
 ``pump_held_shut``           a running pump cannot open its check valve: it churns at shut-off
 ``pump_below_minimum_flow``  a weaker pump is pushed back below its allowable region
+``design_speed_with_pump_set``  the drive speeds at which the duty with other pumps meets the design flow
 ===========================  ======================================================
 
 The point checks (operating region, NPSH, extrapolation) run at every solved point: the

@@ -249,7 +249,8 @@ class InstalledPump:
     operating points (a fixed-speed pump always); a ``variable_speed`` pump may be slowed down
     to ``min_speed_ratio``, together with the arrangement's variable-speed pumps (one common
     speed ratio for every variable-speed pump running; common practice for parallel pumps on
-    drives).  Motor and drive efficiencies as for :class:`Arrangement`.
+    drives).  Motor and drive efficiencies, motor rating and service factor as for
+    :class:`Arrangement`.
     """
 
     pump_id: str
@@ -260,6 +261,8 @@ class InstalledPump:
     trim_ratio: float = 1.0
     motor_efficiency: float = 0.95
     drive_efficiency: float = 1.0
+    motor_rating_w: float | None = None
+    service_factor: float = 1.0
 
 
 DEFAULT_DRIVE_EFFICIENCY = 0.97

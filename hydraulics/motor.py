@@ -30,7 +30,7 @@ from hydraulics.number_format import percent_number
 from hydraulics.pump_fit import FittedPump
 from hydraulics.results import Finding, MotorResult, OperatingPoint, finding
 
-__all__ = ["IEC_MOTOR_OUTPUTS_KW", "next_standard_motor_w", "motor_check", "motor_findings"]
+__all__ = ["IEC_MOTOR_OUTPUTS_KW", "next_standard_motor_w", "motor_check", "pump_motor_check", "motor_findings"]
 
 IEC_MOTOR_OUTPUTS_KW: tuple[float, ...] = (
     0.06, 0.09, 0.12, 0.18, 0.25, 0.37, 0.55, 0.75, 1.1, 1.5, 2.2, 3.0, 4.0, 5.5, 7.5, 11.0, 15.0,
@@ -68,12 +68,28 @@ def _max_power(fitted: FittedPump, scale: float, low_m3_s: float, high_m3_s: flo
 
 
 def motor_check(fitted: FittedPump, arrangement: Arrangement, criteria: Criteria,
-                points: Sequence[OperatingPoint]) -> MotorResult:
-    """Shaft power per pump at ``points``, over the allowable region and to run-out, against the motor."""
-    t = float(arrangement.trim_ratio)
-    own, top = float(arrangement.speed_ratio), float(arrangement.max_speed_ratio)
-    at_points = [p.shaft_power_w for p in points if p.found and p.shaft_power_w is not None
-                 and math.isfinite(p.shaft_power_w)]
+                points: Sequence[OperatingPoint], more_shaft_powers_w: Sequence[float] = ()) -> MotorResult:
+    """Shaft power per pump at ``points``, over the allowable region and to run-out, against the motor.
+
+    ``more_shaft_powers_w``: the shaft power of one of these pumps at other solved points (running
+    beside pumps of other models, :mod:`hydraulics.pump_set_points`).
+    """
+    at_points = [p.shaft_power_w for p in points if p.found and p.shaft_power_w is not None]
+    return pump_motor_check(
+        fitted, criteria, at_points + list(more_shaft_powers_w), trim_ratio=arrangement.trim_ratio,
+        speed_ratio=arrangement.speed_ratio, max_speed_ratio=arrangement.max_speed_ratio,
+        rating_w=arrangement.motor_rating_w, service_factor=arrangement.service_factor,
+        motor_efficiency=arrangement.motor_efficiency, drive_efficiency=arrangement.drive_efficiency,
+        variable_speed=arrangement.variable_speed)
+
+
+def pump_motor_check(fitted: FittedPump, criteria: Criteria, shaft_powers_w: Sequence[float], *, trim_ratio: float,
+                     speed_ratio: float, max_speed_ratio: float, rating_w: float | None, service_factor: float,
+                     motor_efficiency: float, drive_efficiency: float, variable_speed: bool) -> MotorResult:
+    """The motor check of one pump (module description) from its shaft powers at the solved points."""
+    t = float(trim_ratio)
+    own, top = float(speed_ratio), float(max_speed_ratio)
+    at_points = [p for p in shaft_powers_w if math.isfinite(p)]
     allowable: list[float | None] = [None, None]
     if fitted.bep_flow_m3_s is not None:
         low = max(criteria.allowable_region_low * fitted.bep_flow_m3_s, fitted.flow_min_m3_s)
@@ -81,17 +97,16 @@ def motor_check(fitted: FittedPump, arrangement: Arrangement, criteria: Criteria
         allowable = [_max_power(fitted, s * t, low, high) for s in (own, top)]
     run_out = [_max_power(fitted, s * t, fitted.flow_min_m3_s, fitted.flow_max_m3_s) for s in (own, top)]
     worst_run_out = max((p for p in run_out if p is not None), default=None)
-    rating = arrangement.motor_rating_w
     return MotorResult(
-        rating_w=rating, service_factor=float(arrangement.service_factor),
-        rating_with_service_factor_w=None if rating is None else rating * arrangement.service_factor,
+        rating_w=rating_w, service_factor=float(service_factor),
+        rating_with_service_factor_w=None if rating_w is None else rating_w * service_factor,
         speed_ratio=own, max_speed_ratio=top,
         max_shaft_power_at_points_w=max(at_points, default=None),
         max_shaft_power_allowable_w=allowable[0], max_shaft_power_allowable_at_max_speed_w=allowable[1],
         max_shaft_power_run_out_w=run_out[0], max_shaft_power_run_out_at_max_speed_w=run_out[1],
         non_overloading_size_w=None if worst_run_out is None else next_standard_motor_w(worst_run_out),
-        motor_efficiency=float(arrangement.motor_efficiency), drive_efficiency=float(arrangement.drive_efficiency),
-        variable_speed=bool(arrangement.variable_speed),
+        motor_efficiency=float(motor_efficiency), drive_efficiency=float(drive_efficiency),
+        variable_speed=bool(variable_speed),
     )
 
 

@@ -384,7 +384,7 @@ class _Reader:
     def other_pump(self, node: object, path: str) -> InstalledPump:
         node = self.obj(node, path, frozenset({
             "pump", "role", "variable_speed", "speed_ratio", "min_speed_ratio", "trim_ratio",
-            "motor_efficiency", "drive_efficiency",
+            "motor_efficiency", "drive_efficiency", "motor_rating", "service_factor",
         }))
         speed = self.number(node, "speed_ratio", path, default=1.0)
         role: PumpRole = _choice(self.text(node, "role", path, default="assist"), ("duty", "assist", "standby"),
@@ -398,6 +398,8 @@ class _Reader:
             trim_ratio=self.number(node, "trim_ratio", path, default=1.0),
             motor_efficiency=self.number(node, "motor_efficiency", path, default=0.95),
             drive_efficiency=self.number(node, "drive_efficiency", path, default=1.0),
+            motor_rating_w=self.optional_quantity(node, "motor_rating", path, "power"),
+            service_factor=self.number(node, "service_factor", path, default=1.0),
         )
 
     def duty_profile(self, node: object, path: str = "duty_profile") -> DutyProfile:
@@ -778,9 +780,10 @@ def project_to_dict(project: Project) -> dict[str, object]:
         "annual_volume": _q(e.annual_volume_m3, "volume"),
         "tariff_per_kwh": e.tariff_per_kwh, "currency": e.currency,
     })
-    others = [{"pump": o.pump_id, "role": o.role, "variable_speed": o.variable_speed,
+    others = [_drop_none({"pump": o.pump_id, "role": o.role, "variable_speed": o.variable_speed,
                "speed_ratio": o.speed_ratio, "min_speed_ratio": o.min_speed_ratio, "trim_ratio": o.trim_ratio,
-               "motor_efficiency": o.motor_efficiency, "drive_efficiency": o.drive_efficiency}
+               "motor_efficiency": o.motor_efficiency, "drive_efficiency": o.drive_efficiency,
+               "motor_rating": _q(o.motor_rating_w, "power"), "service_factor": o.service_factor})
               for o in project.other_pumps]
     d = project.duty_profile
     time_key = "hours" if d.time_basis == "hours" else "share"

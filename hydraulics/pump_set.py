@@ -80,6 +80,8 @@ class SetPump:
     motor_efficiency: float
     drive_efficiency: float
     from_arrangement: bool
+    motor_rating_w: float | None = None
+    service_factor: float = 1.0
 
     @property
     def control_text(self) -> str:
@@ -108,12 +110,14 @@ def installed_pumps(project: Project) -> tuple[SetPump, ...]:
     roles = duty + standby
     for role in roles:
         out.append(SetPump(f"P{len(out) + 1}", a.pump_id, role, bool(a.variable_speed), own_high, own_low,
-                           float(a.trim_ratio), float(a.motor_efficiency), float(a.drive_efficiency), True))
+                           float(a.trim_ratio), float(a.motor_efficiency), float(a.drive_efficiency), True,
+                           a.motor_rating_w, float(a.service_factor)))
     for other in project.other_pumps:
         low = other.min_speed_ratio if other.variable_speed else other.speed_ratio
         out.append(SetPump(f"P{len(out) + 1}", other.pump_id, other.role, other.variable_speed,
                            float(other.speed_ratio), float(low), float(other.trim_ratio),
-                           float(other.motor_efficiency), float(other.drive_efficiency), False))
+                           float(other.motor_efficiency), float(other.drive_efficiency), False,
+                           other.motor_rating_w, float(other.service_factor)))
     return tuple(out)
 
 

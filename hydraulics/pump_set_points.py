@@ -17,8 +17,11 @@ Codes (stable, listed with the others in :mod:`hydraulics.checks`):
   the manifold head: it delivers nothing and churns at shut-off, held only by its check valve.
 * ``pump_below_minimum_flow`` (warning): a weaker pump is pushed back below the allowable
   region (its share of best-efficiency flow below the criteria's lower bound).
+* Per pump beside the arrangement's, the motor codes of :func:`hydraulics.motor.motor_findings`
+  (its shaft power at these points and to run-out against its own motor).
 * Per pump at these points, ``npsh_insufficient`` / ``npsh_margin_low`` and
-  ``outside_allowable`` (run-out beyond the allowable region), as for identical pumps.
+  ``outside_allowable`` (run-out beyond the allowable region) and ``outside_preferred``, as for
+  identical pumps.
 
 The same finding for one pump at several points is given once, naming every point.
 """
@@ -32,13 +35,22 @@ import numpy as np
 
 from hydraulics.checks import npsh_margin_findings
 from hydraulics.model import Criteria, Project
+from hydraulics.motor import motor_findings, pump_motor_check
 from hydraulics.number_format import percent_number
 from hydraulics.pump_fit import FittedPump
-from hydraulics.pump_set import SetPump, installed_pumps, run_stages, solve_pump_set
-from hydraulics.results import Finding, InstalledPumpRow, PumpSetPoint, PumpSetResult, PumpShare
+from hydraulics.pump_set import (
+    SetPump,
+    installed_pumps,
+    pump_set_speed_for_flow,
+    run_stages,
+    solve_pump_set,
+    stage_label,
+)
+from hydraulics.results import Finding, InstalledPumpRow, PumpMotor, PumpSetPoint, PumpSetResult, PumpShare
 from hydraulics.system_curve import SystemHydraulics
 
-__all__ = ["pump_set_result", "pump_set_findings", "largest_out_set", "STATIC_CASES", "PIPE_STATES"]
+__all__ = ["pump_set_result", "pump_set_findings", "largest_out_set", "design_speed_findings", "STATIC_CASES",
+           "PIPE_STATES"]
 
 STATIC_CASES = ("min", "max")
 PIPE_STATES = ("new", "aged")
@@ -103,7 +115,24 @@ def pump_set_result(project: Project, system: SystemHydraulics, fitted_by_id: Ma
     points: list[PumpSetPoint] = []
     for item in _sets(project, system, fitted_by_id):
         points += _solve_set(system, fitted_by_id, item, names, npsh_static_by_case_m)
-    return PumpSetResult(pumps=rows, stages=stages, points=tuple(points))
+    motors = []
+    for pump in (p for p in pumps if not p.from_arrangement):
+        powers = [s.shaft_power_w for point in points for s in point.shares
+                  if s.tag == pump.tag and s.shaft_power_w is not None]
+        motor = pump_motor_check(
+            fitted_by_id[pump.pump_id], project.criteria, powers, trim_ratio=pump.trim_ratio,
+            speed_ratio=pump.speed_ratio, max_speed_ratio=pump.speed_ratio, rating_w=pump.motor_rating_w,
+            service_factor=pump.service_factor, motor_efficiency=pump.motor_efficiency,
+            drive_efficiency=pump.drive_efficiency, variable_speed=pump.variable_speed)
+        motors.append(PumpMotor(pump.tag, pump.pump_id, names.get(pump.pump_id, pump.pump_id), motor))
+    return PumpSetResult(pumps=rows, stages=stages, points=tuple(points), motors=tuple(motors))
+
+
+def arrangement_shaft_powers(result: PumpSetResult) -> list[float]:
+    """The shaft power of the arrangement's pumps wherever they run beside pumps of other models (W)."""
+    own = {p.tag for p in result.pumps if p.from_arrangement}
+    return [s.shaft_power_w for point in result.points for s in point.shares
+            if s.tag in own and s.shaft_power_w is not None]
 
 
 def _solve_set(system: SystemHydraulics, fitted_by_id: Mapping[str, FittedPump], item: _SetToSolve,
@@ -203,6 +232,15 @@ def pump_set_findings(result: PumpSetResult, criteria: Criteria) -> list[Finding
                     f"{percent_number(criteria.allowable_region_high)} % of best-efficiency flow).",
                     where, "Change the pumps that run together, the speed or the pump selection.", target),
                     share.bep_flow_ratio))
+            elif share.bep_flow_ratio is not None and not (
+                    criteria.preferred_region_low <= share.bep_flow_ratio <= criteria.preferred_region_high):
+                items.append((Finding(
+                    "warning", "outside_preferred",
+                    f"{share.tag} runs outside its preferred region "
+                    f"({percent_number(criteria.preferred_region_low)}–{percent_number(criteria.preferred_region_high)}"
+                    " % of best-efficiency flow).",
+                    where, "Consider variable speed, another combination of pumps or a pump whose best-efficiency "
+                    "point is nearer the duty.", target), share.bep_flow_ratio))
             if share.flow_m3_s is not None and share.flow_m3_s > 0.0:
                 items += [(f, share.npsh_available_m or 0.0) for f in npsh_margin_findings(
                     share.npsh_available_m, share.npsh_required_m, criteria, where, target)]
@@ -219,6 +257,11 @@ def pump_set_findings(result: PumpSetResult, criteria: Criteria) -> list[Finding
             first = Finding(first.severity, first.code, first.message.rstrip(".")
                             + f"; as little as {percent_number(lowest)} % there.", first.where, first.remedy,
                             first.target)
+        elif first.code == "outside_preferred":
+            ratios = [m[2] for m in members]
+            first = Finding(first.severity, first.code, first.message.rstrip(".")
+                            + f"; {percent_number(min(ratios))}–{percent_number(max(ratios))} % there.", first.where,
+                            first.remedy, first.target)
         elif first.code == "outside_allowable":
             highest = max(m[2] for m in members)
             first = Finding(first.severity, first.code, first.message.rstrip(".")
@@ -226,9 +269,43 @@ def pump_set_findings(result: PumpSetResult, criteria: Criteria) -> list[Finding
         points = "; ".join(dict.fromkeys(m[1] for m in members))
         out.append(Finding(first.severity, first.code, first.message, f"{first.where}, at {points}", first.remedy,
                            first.target, template=first.template, values=first.values))
+    for each in result.motors:
+        out += motor_findings(each.motor, f"pump {each.tag} ('{each.pump_name}')", ("pump", each.pump_id))
     return out
 
 
 def pump_sets_solved(points: Sequence[PumpSetPoint]) -> tuple[str, ...]:
     """The distinct sets of pumps in ``points`` (labels, in order)."""
     return tuple(dict.fromkeys(p.label for p in points))
+
+
+def design_speed_findings(project: Project, system: SystemHydraulics, fitted_by_id: Mapping[str, FittedPump],
+                          design_flow_m3_s: float) -> list[Finding] | None:
+    """The speeds at which every duty and assist pump together deliver the design flow, with pumps of other models.
+
+    ``None`` when the run sequence is the arrangement's identical pumps alone (their own speed
+    search then speaks), or when no pump of the set has variable speed.  Otherwise one info
+    finding ``design_speed_with_pump_set`` giving the common speed of the variable-speed pumps
+    at each static extreme and pipe state (:func:`hydraulics.pump_set.pump_set_speed_for_flow`:
+    re-intersected with the system, never scaled), or nothing where the set cannot reach the
+    design flow (``design_flow_not_met`` says so).
+    """
+    stages = run_stages(project)
+    if not stages or all(p.from_arrangement for p in stages[-1]):
+        return None
+    full = stages[-1]
+    if not any(p.variable_speed for p in full):
+        return None
+    cases = [(static, pipe) for static in STATIC_CASES for pipe in PIPE_STATES]
+    static = np.array([system.static_head_m[c] for c, _ in cases])
+    aged = np.array([pipe == "aged" for _, pipe in cases])
+    speeds, found = pump_set_speed_for_flow(system, fitted_by_id, full, static, aged, design_flow_m3_s)
+    if not found.any():
+        return []
+    parts = [f"{percent_number(float(v))} % at {c} static, {pipe} pipe"
+             for (c, pipe), v, ok in zip(cases, speeds, found, strict=True) if ok]
+    return [Finding(
+        "info", "design_speed_with_pump_set",
+        f"With {stage_label(full)} running, the variable-speed pumps deliver the design flow at "
+        + "; ".join(parts) + ".", f"pumps {stage_label(full)}",
+        "The arrangement's own pumps alone are not the whole duty: read their speed findings with this.", None)]

@@ -781,6 +781,20 @@ class PumpSetPoint:
 
 
 @dataclass(frozen=True)
+class PumpMotor:
+    """The motor check of one installed pump of another model than the arrangement's."""
+
+    tag: str
+    pump_id: str
+    pump_name: str
+    motor: MotorResult
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {"tag": self.tag, "pump_id": self.pump_id, "pump_name": self.pump_name,
+                **self.motor.to_json_dict()}
+
+
+@dataclass(frozen=True)
 class PumpSetResult:
     """The installed pumps, the run sequence and the points of pumps of different models together.
 
@@ -793,6 +807,8 @@ class PumpSetResult:
     pumps: tuple[InstalledPumpRow, ...]
     stages: tuple[tuple[str, ...], ...]
     points: tuple[PumpSetPoint, ...] = ()
+    motors: tuple[PumpMotor, ...] = ()
+    """The motor of each pump beside the arrangement's (the arrangement's is ``Solution.motor``)."""
 
     def running_label(self, pumps_running: int) -> str:
         """The tags of the arrangement's first ``pumps_running`` duty pumps (``"P1+P2"``)."""
@@ -801,7 +817,8 @@ class PumpSetResult:
 
     def to_json_dict(self) -> dict[str, Any]:
         return {"pumps": [p.to_json_dict() for p in self.pumps], "stages": [list(s) for s in self.stages],
-                "points": [p.to_json_dict() for p in self.points]}
+                "points": [p.to_json_dict() for p in self.points],
+                "motors": [m.to_json_dict() for m in self.motors]}
 
 
 @dataclass(frozen=True)

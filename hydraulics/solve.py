@@ -198,7 +198,12 @@ def complete_solution(stage: CurvesStage) -> Solution:
     from hydraulics.motor import motor_check, motor_findings
     from hydraulics.npsh_worst_case import npsh_worst_case_findings
     from hydraulics.operating_points import operating_points
-    from hydraulics.pump_set_points import pump_set_findings, pump_set_result
+    from hydraulics.pump_set_points import (
+        arrangement_shaft_powers,
+        design_speed_findings,
+        pump_set_findings,
+        pump_set_result,
+    )
     from hydraulics.specific_speed import criteria_findings
     from hydraulics.speed_map import speed_map
     from hydraulics.variable_speed import search_speeds, variable_speed_findings, variable_speed_points
@@ -238,8 +243,13 @@ def complete_solution(stage: CurvesStage) -> Solution:
     findings += checks.velocity_findings(project, at_design, at_highest_flow=highest, at_lowest_flow=lowest,
                                          lowest_where=low_where, highest_where=high_where)
     findings += checks.group_scenario_findings(at_points)
+    with_set = design_speed_findings(project, system, fitted_by_id, design_flow)
     if arrangement.variable_speed:  # a fixed-speed pump has no speed to find
-        findings += variable_speed_findings(speed, fitted)
+        own_speed = variable_speed_findings(speed, fitted)
+        if with_set is not None:  # the duty includes pumps of other models: the set's speeds speak for it
+            own_speed = [f for f in own_speed if f.code != "speed_target_unreachable"]
+        findings += own_speed
+    findings += with_set or []
     findings += range_guards.range_guard_findings(project, first.fluid, at_design, lowest, first.pump_fits)
     for each in first.pump_fits:
         findings += criteria_findings(project.criteria, each)
@@ -248,7 +258,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
     capacity = (pump_set_capacity(project, system, fitted_by_id, design_flow) if project.other_pumps else None) \
         or station_capacity(arrangement, design_flow, at_speeds)
     findings += capacity_findings(capacity, pump_where, pump_target)
-    motor = motor_check(fitted, arrangement, project.criteria, at_speeds)
+    motor = motor_check(fitted, arrangement, project.criteria, at_speeds, arrangement_shaft_powers(pump_set))
     findings += motor_findings(motor, pump_where, pump_target)
     return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True,
                    capacity=capacity, motor=motor, speed_points=speed_points, pump_set=pump_set,

@@ -345,6 +345,8 @@ def validate_other_pump(pump: InstalledPump, project: Project, path: str) -> Non
     check("arrangement.trim_ratio", pump.trim_ratio, f"{path}.trim_ratio")
     check("arrangement.efficiency", pump.motor_efficiency, f"{path}.motor_efficiency")
     check("arrangement.efficiency", pump.drive_efficiency, f"{path}.drive_efficiency")
+    _optional("arrangement.motor_rating_w", pump.motor_rating_w, f"{path}.motor_rating")
+    check("arrangement.service_factor", pump.service_factor, f"{path}.service_factor")
 
 
 def validate_duty_profile(profile: DutyProfile, path: str = "duty_profile") -> None:

@@ -14,6 +14,7 @@ from hydraulics.model import (
     Arrangement,
     Criteria,
     Fitting,
+    InstalledPump,
     ProfilePoint,
     Project,
     PumpModel,
@@ -79,6 +80,31 @@ def test_clean_project_has_no_findings():
     assert all(p.found for p in solution.operating_points)
 
 
+def other_pump(shutoff_m: float, pump_id: str = "W1", steepness: float = 12_000.0, q_max: float = 0.045,
+               peak_flow: float = 0.027) -> PumpModel:
+    """An invented second pump model for the crafted projects: H = shut-off − steepness Q²."""
+    q = np.linspace(0.0, q_max, 6)
+    efficiency = np.clip(0.78 * (1.0 - ((q - peak_flow) / peak_flow) ** 2), 0.0, None)
+    return PumpModel(pump_id=pump_id, name="second test pump", rated_speed_rpm=1450.0, flow_m3_s=tuple(q),
+                     head_m=tuple(shutoff_m - steepness * q**2), efficiency=tuple(efficiency),
+                     npsh_required_m=tuple(2.0 + 600.0 * q**2))
+
+
+def with_assist(project: Project, shutoff_m: float) -> Project:
+    return replace(project, pumps=project.pumps + (other_pump(shutoff_m),),
+                   other_pumps=(InstalledPump("W1", role="assist"),))
+
+
+def with_small_duty_and_standby(project: Project, design_flow_m3_s: float) -> Project:
+    """T1 with a smaller duty pump beside it, and a smaller standby: the standby cannot replace T1."""
+    assert project.arrangement is not None
+    small = other_pump(50.0, "S1", steepness=30_000.0, q_max=0.03, peak_flow=0.02)
+    return replace(project, pumps=project.pumps + (small,),
+                   arrangement=replace(project.arrangement, standby_count=0),
+                   site=replace(project.site, design_flow_m3_s=design_flow_m3_s),
+                   other_pumps=(InstalledPump("S1", role="duty"), InstalledPump("S1", role="standby")))
+
+
 CRAFTED = {
     "velocity_low": lambda p: with_segment(p, 1, internal_diameter_m=0.45),
     "velocity_high": lambda p: with_segment(p, 0, internal_diameter_m=0.15),
@@ -102,6 +128,14 @@ CRAFTED = {
     # the one pump delivers about 37 L/s at max static, aged pipe (module docstring): 45 L/s is out of reach
     "design_flow_not_met": lambda p: replace(p, site=replace(p.site, design_flow_m3_s=0.045)),
     "no_standby": lambda p: replace(p, arrangement=replace(p.arrangement, standby_count=0)),
+    # an assist pump of 30 m shut-off beside T1 (50 m) against 29–32 m static heads: it cannot open its check valve
+    "pump_held_shut": lambda p: with_assist(p, 30.0),
+    # 36 m shut-off: it opens, but the manifold head pushes it below 40 % of its best-efficiency flow
+    "pump_below_minimum_flow": lambda p: with_assist(p, 36.0),
+    # T1 with a smaller duty pump delivers about 54 L/s at the worst case, the smaller pumps alone about 44 L/s
+    "standby_short": lambda p: with_small_duty_and_standby(p, 0.045),
+    # 50 L/s needs both duty pumps; their drives meet it below full speed at the lower static head
+    "design_speed_with_pump_set": lambda p: with_small_duty_and_standby(p, 0.05),
     # a second main segment of a larger bore with no expander before it
     "bore_change_without_transition": lambda p: replace(
         p, segments=p.segments + (Segment("main 2", "delivery", "ductile_iron_cml", 50.0, 0.25),)),

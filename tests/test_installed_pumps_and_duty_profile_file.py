@@ -26,7 +26,8 @@ def test_other_pumps_and_a_duty_profile_round_trip_through_the_file():
     project = replace(
         project,
         other_pumps=(InstalledPump(pump_id, role="assist", variable_speed=True, speed_ratio=0.95, min_speed_ratio=0.7,
-                                   motor_efficiency=0.93, drive_efficiency=0.96),
+                                   motor_efficiency=0.93, drive_efficiency=0.96, motor_rating_w=90e3,
+                                   service_factor=1.15),
                      InstalledPump(pump_id, role="standby")),
         duty_profile=DutyProfile(bands=(DutyBand(0.05, 0.25), DutyBand(0.1, 0.75)), time_basis="share",
                                  annual_volume_m3=2.0e6, strategy="variable_speed", pipe="new"),

@@ -189,3 +189,17 @@ def test_velocities_are_checked_at_the_flows_of_pumps_of_other_models_running_to
     high = [f for f in solution.findings if f.code == "velocity_high" and "manifold and main" in f.where]
     assert high and "P1+P3" in high[0].where
     assert high[0].values[0][1] == pytest.approx(together / area, rel=1e-9)  # v = Q / A at the pumps' flow
+
+
+def test_a_pump_beside_the_arrangement_is_checked_against_its_own_motor():
+    project = with_other(SMALL)
+    clean = solve(project)
+    assert clean.pump_set is not None and [m.tag for m in clean.pump_set.motors] == ["P3"]
+    motor = clean.pump_set.motors[0].motor
+    at_points = max(s.shaft_power_w for p in clean.pump_set.points for s in p.shares if s.tag == "P3")
+    assert motor.max_shaft_power_at_points_w == pytest.approx(at_points, rel=1e-12)  # its own shares
+    assert not {"motor_overload"} & {f.code for f in clean.findings}
+    small = replace(project.other_pumps[0], motor_rating_w=0.5 * at_points)
+    flagged = solve(replace(project, other_pumps=(small,)))
+    overload = [f for f in flagged.findings if f.code == "motor_overload"]
+    assert overload and overload[0].where.startswith("pump P3")
