@@ -13,7 +13,6 @@ from hydraulics.model import DutyBand, DutyProfile, InstalledPump, ModelError
 from hydraulics.project_io import FORMAT_VERSION, ProjectFileError, load_project, project_from_dict, project_to_dict
 from hydraulics.validation import validate_project
 
-
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_projects"
 
 
