@@ -208,8 +208,9 @@ def duty_profile_energy(project: Project, system: SystemHydraulics, density_kg_m
     volume_needed = flows * hours * SECONDS_PER_HOUR
     with np.errstate(invalid="ignore", divide="ignore"):
         run_hours = np.where(q_run > 0.0, np.minimum(hours, volume_needed / (q_run * SECONDS_PER_HOUR)), 0.0)
-    run_hours = np.where(idle, 0.0, run_hours)
-    pumped = q_run * run_hours * SECONDS_PER_HOUR
+    slowed_to_flow = control == "variable speed"  # runs the band's whole hours, delivering its volume
+    run_hours = np.where(idle, 0.0, np.where(slowed_to_flow, hours, run_hours))
+    pumped = np.where(slowed_to_flow, volume_needed, q_run * run_hours * SECONDS_PER_HOUR)
     shortfall = np.where(above, np.maximum(volume_needed - pumped, 0.0), 0.0)
     energy = power * run_hours / WATT_HOURS_PER_KWH
     with np.errstate(invalid="ignore", divide="ignore"):
