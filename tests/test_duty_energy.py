@@ -245,3 +245,46 @@ def test_the_text_report_has_the_year_of_duty_the_labelled_estimate_and_the_caut
     assert "simple estimate: all operating hours at the duty point" in text
     assert "CAUTION" in text and "licensed" in text  # the cautions, wrapped over lines
     assert text.index("Energy over the year of duty") < text.index("simple estimate")
+
+
+def test_an_assist_pump_joins_the_run_sequence_for_the_bands_beyond_the_duty_pumps():
+    from hydraulics.model import InstalledPump
+
+    project = _with_profile("river_intake", bands=(DutyBand(150 * L_S, 3000.0), DutyBand(380 * L_S, 500.0)),
+                            strategy="fixed_staging")
+    project = replace(project, other_pumps=(InstalledPump(project.arrangement.pump_id, role="assist",
+                                                          motor_efficiency=0.95, drive_efficiency=0.97),))
+    duty = solve(project).duty_profile
+    assert [s.pumps for s in duty.stages] == ["P1", "P1+P2", "P1+P2+P4"]  # P3 is the standby: in no stage
+    three, _ = _points(project, 2)
+    q3, p3 = float(three.flow_m3_s[0]), float(three.input_power_w[0])
+    assert duty.bands[1].pumps == "P1+P2+P4" and q3 >= 380 * L_S
+    assert duty.bands[1].energy_kwh == pytest.approx(p3 * (380 * L_S * 500.0 / q3) / 1000.0, rel=1e-12)
+
+
+# ---------------------------------------------------------------------- the edits of the window
+def test_switching_the_time_basis_converts_hours_to_shares_of_8760_h_and_back():
+    from hydraulics.project_edits import with_duty_time_basis
+
+    project = _sample("hilltop_booster")
+    shares = with_duty_time_basis(project, "share")
+    assert [b.time for b in shares.duty_profile.bands] == pytest.approx(
+        [b.time / 8760.0 for b in project.duty_profile.bands])
+    back = with_duty_time_basis(shares, "hours")
+    assert [b.time for b in back.duty_profile.bands] == pytest.approx([b.time for b in project.duty_profile.bands])
+    assert with_duty_time_basis(project, "hours") is project
+
+
+def test_a_new_band_takes_the_rest_of_the_year_and_a_neighbouring_flow():
+    from hydraulics.project_edits import new_duty_band, with_duty_bands
+    from hydraulics.validation import validate_project
+
+    project = _sample("hilltop_booster")  # 1400 + 2600 + 1800 + 600 = 6400 h in the sample
+    band = new_duty_band(project, 4)
+    assert band.time == pytest.approx(8760.0 - 6400.0)
+    assert band.flow_m3_s == project.duty_profile.bands[-1].flow_m3_s
+    middle = new_duty_band(project, 1)
+    assert middle.flow_m3_s == pytest.approx((18 + 26) / 2 * L_S)
+    validate_project(with_duty_bands(project, project.duty_profile.bands + (band,)))
+    empty = with_duty_bands(project, ())
+    assert new_duty_band(empty, 0).flow_m3_s == project.site.design_flow_m3_s
