@@ -44,10 +44,11 @@ Power and energy, per band while running (the pump set's operating point,
 * Energy per year E = Σ_b P_in,b t_run,b / 1000 (kWh, t in h); cost = E × tariff; the station's
   mean specific energy E / V_pumped (kWh/m³).
 
-Vectorised over bands: one :func:`~hydraulics.pump_set.solve_pump_set` call per stage for its
-flow at its own speeds (stages only as far as the largest band needs) and, with variable speed,
-one :func:`~hydraulics.pump_set.pump_set_speed_for_flow` and one further
-:func:`~hydraulics.pump_set.solve_pump_set` call per stage used, every band of that stage at once.
+Vectorised over bands: the stages are taken in turn while bands are left to meet, and each stage
+used costs one :func:`~hydraulics.pump_set.solve_pump_set` call (its own speeds, and with variable
+speed its lowest speed and the speed of every band it slows to, as scenarios of one call) and,
+with variable speed, one :func:`~hydraulics.pump_set.pump_set_speed_for_flow` call for every band
+left.
 
 Finding codes (stable): ``duty_band_not_met`` (warning: a band above the station's capacity),
 ``duty_energy_unknown`` (info: a running pump has no efficiency or power data),
@@ -172,38 +173,24 @@ def duty_profile_energy(project: Project, system: SystemHydraulics, density_kg_m
     flows, factor = scaled_flows(project, hours)
     n_bands = flows.size
 
-    # Each stage's flow at its own speeds, as far up the run sequence as the largest band needs.
-    capacities: list[_Running] = []
-    for stage in stages:
-        capacities.append(_running(solve_pump_set(system, fitted, stage, static, aged), density_kg_m3))
-        if float(capacities[-1].flow[0]) >= float(np.max(flows)) * (1.0 - _REACH_TOLERANCE):
-            break
-    capacity = np.array([float(c.flow[0]) for c in capacities])
-    reach = capacity[None, :] >= flows[:, None] * (1.0 - _REACH_TOLERANCE)
-    stage_of = np.where(reach.any(axis=1), np.argmax(reach, axis=1), len(capacities) - 1)
-    above = ~reach.any(axis=1) & (flows > 0.0)
     idle = flows <= 0.0
-
-    q_run = np.zeros(n_bands)
-    head = np.full(n_bands, np.nan)
-    power = np.zeros(n_bands)
-    eta = np.full(n_bands, np.nan)
-    speed = np.full(n_bands, np.nan)
-    control = np.array(["stop–start"] * n_bands, dtype=object)
-    notes_by_band = [""] * n_bands
-    for k, point in enumerate(capacities):
-        served = np.flatnonzero((stage_of == k) & ~idle)
-        if served.size == 0:
-            continue
-        q_run[served], head[served] = point.flow[0], point.head[0]
-        power[served], eta[served] = point.power[0], point.efficiency[0]
-        if profile.strategy == "variable_speed" and any(p.variable_speed for p in stages[k]):
-            slowed = served[~above[served]]
-            if slowed.size:
-                _slow_down(system, fitted, stages[k], static, aged, flows, slowed, density_kg_m3,
-                           (q_run, head, power, eta, speed, control), notes_by_band)
+    table = _BandTable(n_bands)
+    capacities: list[DutyStageCapacity] = []
+    remaining = ~idle
+    for k, stage in enumerate(stages):
+        if not remaining.any():
+            break
+        capacity = _meet_with_stage(system, fitted, (k, stage), static, aged, flows, np.flatnonzero(remaining),
+                                    profile.strategy == "variable_speed", density_kg_m3, table,
+                                    last=k == len(stages) - 1)
+        capacities.append(DutyStageCapacity(stage_label(stage), len(stage), capacity))
+        remaining &= table.stage < 0
+    q_run, head, power, eta, speed, control = (table.q_run, table.head, table.power, table.eta, table.speed,
+                                               table.control)
+    above = table.above
+    stage_of = table.stage
+    notes_by_band = table.notes
     control[idle] = "idle"
-    control[above] = "above capacity"
 
     volume_needed = flows * hours * SECONDS_PER_HOUR
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -252,8 +239,7 @@ def duty_profile_energy(project: Project, system: SystemHydraulics, density_kg_m
         strategy=profile.strategy, pipe=profile.pipe, time_basis=profile.time_basis, static_head_m=static,
         static_head_min_m=static_min, static_head_max_m=static_max, flow_scale=factor,
         annual_volume_target_m3=profile.annual_volume_m3,
-        stages=tuple(DutyStageCapacity(stage_label(stages[k]), len(stages[k]), float(capacity[k]))
-                     for k in range(len(capacities))),
+        stages=tuple(capacities),
         bands=tuple(bands), hours=float(np.sum(hours)), run_hours=float(np.sum(run_hours)),
         volume_m3=total_volume, shortfall_volume_m3=float(np.sum(shortfall)), energy_kwh=total_energy,
         cost=None if total_energy is None else total_energy * tariff,
@@ -263,34 +249,76 @@ def duty_profile_energy(project: Project, system: SystemHydraulics, density_kg_m
     return result, duty_findings(result)
 
 
-def _slow_down(system: SystemHydraulics, fitted: dict[str, FittedPump], stage: Sequence[SetPump], static: float,
-               aged: bool, flows: FloatArray, bands: NDArray[np.intp], density: float,
-               out: tuple[FloatArray, FloatArray, FloatArray, FloatArray, FloatArray, NDArray[np.object_]],
-               notes: list[str]) -> None:
-    """The stage's variable-speed pumps slowed to each band's flow (or held at their lowest speed).
+class _BandTable:
+    """What each band gets, filled in stage by stage (arrays over the bands)."""
 
-    One speed search and one operating-point solve for every band of the stage; writes the
-    band's flow, head, power, efficiency, speed and control into ``out``.
+    def __init__(self, n_bands: int):
+        self.stage = np.full(n_bands, -1)
+        self.q_run = np.zeros(n_bands)
+        self.head = np.full(n_bands, np.nan)
+        self.power = np.zeros(n_bands)
+        self.eta = np.full(n_bands, np.nan)
+        self.speed = np.full(n_bands, np.nan)
+        self.control: NDArray[np.object_] = np.array(["stop–start"] * n_bands, dtype=object)
+        self.above = np.zeros(n_bands, dtype=bool)
+        self.notes = [""] * n_bands
+
+    def assign(self, bands: NDArray[np.intp], stage: int, point: _Running, rows: NDArray[np.intp] | int,
+               control: str, speed: FloatArray | float | None = None, note: str = "") -> None:
+        """Bands ``bands`` run by stage ``stage`` at the scenarios ``rows`` of ``point``."""
+        if bands.size == 0:
+            return
+        self.stage[bands] = stage
+        self.q_run[bands], self.head[bands] = point.flow[rows], point.head[rows]
+        self.power[bands], self.eta[bands] = point.power[rows], point.efficiency[rows]
+        self.speed[bands] = np.nan if speed is None else speed
+        self.control[bands] = control
+        for b in bands:
+            self.notes[int(b)] = note
+
+
+def _meet_with_stage(system: SystemHydraulics, fitted: dict[str, FittedPump],
+                     numbered_stage: tuple[int, Sequence[SetPump]], static: float, aged: bool, flows: FloatArray,
+                     todo: NDArray[np.intp], variable_speed: bool,
+                     density: float, table: _BandTable, last: bool) -> float:
+    """The bands of ``todo`` this stage meets (all that are left when it is the ``last``); its flow at own speeds.
+
+    One pump-set solve: at the stage's own speeds (scenario 0) and, with variable speed, at its
+    lowest speed (scenario 1) and at the speed found for each band it can slow to (one speed
+    search for every band left).
     """
-    q_run, head, power, eta, speed, control = out
-    target = flows[bands]
-    found_speed, found = pump_set_speed_for_flow(system, fitted, stage, static, aged, target)
-    lowest = min(p.min_speed_ratio for p in stage if p.variable_speed)
-    speeds = np.where(found, found_speed, lowest)
-    statics = np.full(bands.size, static)  # the scenarios' shape: one per band
-    point = _running(solve_pump_set(system, fitted, stage, statics, aged, speed_ratio=speeds), density)
-    at_lowest = ~found & (point.flow >= target * (1.0 - _REACH_TOLERANCE)) & (point.flow > 0.0)
-    use = found | at_lowest
-    chosen = bands[use]
-    q_run[chosen], head[chosen] = point.flow[use], point.head[use]
-    power[chosen], eta[chosen], speed[chosen] = point.power[use], point.efficiency[use], speeds[use]
-    control[bands[found]] = "variable speed"
-    control[bands[at_lowest]] = "stop–start at the lowest speed"
-    for b in bands[at_lowest]:
-        notes[int(b)] = (f"even the lowest speed ({percent_number(lowest)} %) delivers more than the band flow: "
-                         "the pumps run at it and stop and start")
-    for b in bands[~use]:  # the speed search did not converge: the stage runs at full speed, stop–start
-        notes[int(b)] = "no speed found for the band flow: the pumps run at their own speeds, stop and start"
+    index, stage = numbered_stage
+    variable = variable_speed and any(p.variable_speed for p in stage)
+    found = np.zeros(todo.size, dtype=bool)
+    speeds: FloatArray | None = None
+    lowest = 1.0
+    if variable:
+        found_speed, found = pump_set_speed_for_flow(system, fitted, stage, static, aged, flows[todo])
+        highest = max(p.speed_ratio for p in stage if p.variable_speed)
+        lowest = min(p.min_speed_ratio for p in stage if p.variable_speed)
+        speeds = np.concatenate(([highest, lowest], found_speed[found]))
+    n = 1 if speeds is None else speeds.size
+    point = _running(solve_pump_set(system, fitted, stage, np.full(n, static), aged, speed_ratio=speeds), density)
+    capacity = float(point.flow[0])
+    target = flows[todo]
+    reaches = (capacity >= target * (1.0 - _REACH_TOLERANCE)) & (capacity > 0.0) & ~found
+    if variable:
+        slowed = todo[found]
+        table.assign(slowed, index, point, np.arange(2, n), "variable speed", None if speeds is None else speeds[2:])
+        at_lowest = reaches & (point.flow[1] >= target * (1.0 - _REACH_TOLERANCE)) & (point.flow[1] > 0.0)
+        table.assign(todo[at_lowest], index, point, 1, "stop–start at the lowest speed", lowest,
+                     f"even the lowest speed ({percent_number(lowest)} %) delivers more than the band flow: the "
+                     "pumps run at it and stop and start")
+        rest = reaches & ~at_lowest  # the speed search did not converge: own speeds, stop–start
+        table.assign(todo[rest], index, point, 0, "stop–start", None,
+                     "no speed found for the band flow: the pumps run at their own speeds, stop and start")
+    else:
+        table.assign(todo[reaches], index, point, 0, "stop–start")
+    if last:
+        short = todo[table.stage[todo] < 0]
+        table.assign(short, index, point, 0, "above capacity")
+        table.above[short] = True
+    return capacity
 
 
 def duty_findings(result: DutyProfileResult) -> tuple[Finding, ...]:
