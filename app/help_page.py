@@ -215,8 +215,22 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
             "P<sub>shaft</sub> = ρ g Q H / η; &nbsp; P<sub>input</sub> = P<sub>shaft</sub> / "
             "(η<sub>motor</sub> η<sub>drive</sub>); &nbsp; specific energy = ρ g H / (η<sub>total</sub> "
             "· 3.6 × 10⁶) kWh/m³",
-            "Shaft and input power at each operating point, specific energy and annual energy.",
+            "Shaft and input power at each operating point and specific energy. The annual energy of the "
+            "Criteria tab is a simple estimate: all operating hours at the duty point; with duty bands the "
+            "station's energy is the year of duty below.",
             "Pump power output and efficiency as defined in ISO 9906:2012, clause 3."),
+        MethodEntry(
+            "Energy over a year of duty", "Energy",
+            "Band time t = hours, or share × 8760 h; with an annual volume V the band flows are scaled by "
+            "k = V / Σ Q<sub>b</sub> t<sub>b</sub>; staging: t<sub>run</sub> = Q<sub>b</sub> t<sub>b</sub> / "
+            "Q<sub>stage</sub>; variable speed: slowed to Q<sub>b</sub> for the band's hours; E = Σ P<sub>in</sub> "
+            "t<sub>run</sub>; η<sub>wire-to-water</sub> = Σ ρ g q<sub>i</sub> H<sub>i</sub> / P<sub>in</sub>; "
+            "mean specific energy E / V",
+            "For each duty band the fewest pumps of the run sequence whose flow reaches it, their speed, power, "
+            "efficiency and specific energy, at the mean static head (the levels move between the extremes); the "
+            "year's energy, cost and mean kWh/m³. A band above the station's capacity is a warning.",
+            "Pump output power after ISO 9906:2012, clause 3; parallel pumps at a common manifold head after "
+            "Karassik et al., <i>Pump Handbook</i>, 4th ed.; stop–start and variable-speed duty: common practice."),
     )
 
 

@@ -1,6 +1,6 @@
 """The main window: it assembles the panels, the plots and the results, and wires the actions.
 
-Layout: the input panels on the left (tabs: Site & fluid, Pipework, Pumps, Criteria), the
+Layout: the input panels on the left (tabs: Site & fluid, Pipework, Pumps, Criteria, Duty), the
 plots in the centre, the checks and the operating points below the plots, the cautions
 banner along the bottom edge, always visible.  Everything the window shows comes from
 its :class:`~app.document.ProjectDocument`; the window itself holds no project data.
@@ -35,6 +35,7 @@ from app.help_page import HelpDialog
 from app.layout_barrier import LayoutBarrier
 from app.panels import actions as action_table
 from app.panels.criteria import CriteriaPanel
+from app.panels.duty import DutyPanel
 from app.panels.file_controller import FileController
 from app.panels.message_bar import MessageBar
 from app.panels.pipework import PipeworkPanel
@@ -51,7 +52,7 @@ from hydraulics.results import Solution
 APP_TITLE = "PumpSketch"
 UNIT_SYSTEM_LABELS = {"SI": "SI (m, L/s, kPa)", "US": "US customary (ft, gpm, psi)"}
 PROJECT_FILTER = f"PumpSketch projects (*{FILE_SUFFIX});;All files (*)"
-INPUT_TABS = ("Site & fluid", "Pipework", "Pumps", "Criteria")
+INPUT_TABS = ("Site & fluid", "Pipework", "Pumps", "Criteria", "Duty")
 """Titles of the input tabs, in order (an ampersand is doubled on the tab so it shows)."""
 STATUS_TIMEOUT_MS = 10_000
 
@@ -94,10 +95,11 @@ class MainWindow(QMainWindow):
         self.pipework = PipeworkPanel(doc)
         self.pumps_panel = PumpsPanel(doc)
         self.criteria_panel = CriteriaPanel(doc)
+        self.duty_panel = DutyPanel(doc)
         self.input_tabs = QTabWidget()
         self.input_tabs.setObjectName("input_tabs")
         for title, panel in zip(INPUT_TABS, (self.site_panel, self.pipework, self.pumps_panel,
-                                             self.criteria_panel), strict=True):
+                                             self.criteria_panel, self.duty_panel), strict=True):
             page = LayoutBarrier(panel) if panel is self.pipework else _scrolled(panel)
             self.input_tabs.addTab(page, title.replace("&", "&&"))
         self.input_tabs.setCurrentIndex(1)
@@ -251,8 +253,8 @@ class MainWindow(QMainWindow):
         main's profile; ``("pump", …)`` and
         ``("arrangement", …)`` open Pumps; ``("site", name)`` opens Site & fluid and
         focuses the field of that name where there is one; ``("criteria", name)`` opens
-        Criteria; ``("scenario", (static, pipe, pumps, speed))`` selects that row of the
-        operating points.
+        Criteria; ``("duty", i)`` opens Duty with band i selected; ``("scenario", (static, pipe,
+        pumps, speed))`` selects that row of the operating points.
         """
         if not target:
             return
@@ -277,6 +279,12 @@ class MainWindow(QMainWindow):
             self.input_tabs.setCurrentIndex(INPUT_TABS.index("Criteria"))
             if isinstance(what, str):
                 self.criteria_panel.focus_field(what)
+        elif kind == "duty":
+            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Duty"))
+            if isinstance(what, str):
+                self.duty_panel.form.focus_field(what)
+            elif isinstance(what, int):
+                self.duty_panel.show_band(what)
         elif kind == "scenario":
             self.points_table.select_scenario(what)
             self.points_table.setFocus()

@@ -162,6 +162,53 @@ def _motor_section(solution: Solution, system: str) -> list[str]:
             f"non-overloading motor {p(m.non_overloading_size_w)} (IEC 60072-1 series)"]
 
 
+def _duty_profile_section(solution: Solution, system: str) -> list[str]:
+    """The energy over a year of real duty: one row per band, then the totals."""
+    duty = solution.duty_profile
+    if duty is None:
+        return []
+    fl, hd, pw = unit_label("flow", system), unit_label("head", system), unit_label("power", system)
+    se, vol = unit_label("specific_energy", system), unit_label("volume", system)
+
+    def d(value: float | None, quantity: str, decimals: int = 1) -> str:
+        return MISSING if value is None else fixed_decimals(to_display(value, quantity, system), decimals)
+
+    def specific(kwh_m3: float | None) -> str:
+        return MISSING if kwh_m3 is None else d(kwh_m3 * JOULES_PER_KWH, "specific_energy", 3)
+
+    strategy = "variable speed to match the flow" if duty.strategy == "variable_speed" else "fixed-speed staging"
+    out = ["", f"Energy over the year of duty ({strategy}; {duty.basis}, {d(duty.static_head_m, 'head', 2)} {hd}; "
+               f"{duty.pipe} pipe):"]
+    rows = []
+    for b in duty.bands:
+        rows.append([str(b.index + 1), d(b.flow_m3_s, "flow"), grouped_whole_number(b.hours), b.pumps or "none",
+                     b.control, MISSING if b.speed_ratio is None else percent_number(b.speed_ratio, 1),
+                     d(b.station_flow_m3_s, "flow"), d(b.manifold_head_m, "head"), percent_number(b.efficiency, 1),
+                     d(b.input_power_w, "power"), specific(b.specific_energy_kwh_m3),
+                     grouped_whole_number(b.run_hours), grouped_whole_number(to_display(b.pumped_volume_m3, "volume",
+                                                                                        system)),
+                     grouped_whole_number(b.energy_kwh)])
+    out += ["  " + line for line in _table(
+        ["band", f"flow {fl}", "hours", "pumps", "control", "speed %", f"running {fl}", f"head {hd}",
+         "wire-water %", f"input {pw}", se, "run h", f"volume {vol}", "kWh/yr"], rows)]
+    for b in duty.bands:
+        if b.note:
+            out.append(f"  band {b.index + 1}: {b.note}")
+    stages = "; ".join(f"{s.pumps} {d(s.flow_m3_s, 'flow')} {fl}" for s in duty.stages)
+    out.append(f"  stages at their own speeds: {stages}")
+    out.append(f"  annual energy {grouped_whole_number(duty.energy_kwh)} kWh, cost {grouped_whole_number(duty.cost)} "
+               f"{duty.currency} at {general_number(duty.tariff_per_kwh, 6)} {duty.currency}/kWh")
+    out.append(f"  volume {grouped_whole_number(to_display(duty.volume_m3, 'volume', system))} {vol} a year, "
+               f"mean specific energy {specific(duty.specific_energy_kwh_m3)} {se}, "
+               f"pumps running {grouped_whole_number(duty.run_hours)} h of {grouped_whole_number(duty.hours)} h")
+    if duty.shortfall_volume_m3 > 0.0:
+        out.append(f"  not pumped: {grouped_whole_number(to_display(duty.shortfall_volume_m3, 'volume', system))} "
+                   f"{vol} a year (bands above the station's capacity)")
+    for note in duty.notes:
+        out.append(f"  note: {note}")
+    return out
+
+
 def summary_text(solution: Solution, system: str = "SI") -> str:
     """A plain-text report of one solved project in the chosen unit system."""
     def d(value: float | None, quantity: str, decimals: int = 2) -> str:
@@ -247,9 +294,14 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
                        f"{percent_number(vs.minimum_lift_speed_ratio, 1)} %")
     out += _capacity_section(solution, system)
     out += _motor_section(solution, system)
+    out += _duty_profile_section(solution, system)
     e = solution.energy
     if e is not None:
-        out += ["", "Energy (normal duty: aged pipe, mean of the static extremes):"]
+        heading = ("Energy, simple estimate: all operating hours at the duty point (aged pipe, mean of the "
+                   "static extremes)")
+        if solution.duty_profile is not None:
+            heading += "; the station's energy is the duty profile's above"
+        out += ["", heading + ":"]
         if e.annual_energy_mean_kwh is None:
             out.append("  not computed: " + "; ".join(e.notes or ("no operating hours or annual volume",)))
         else:

@@ -26,6 +26,7 @@ from hydraulics.model import (
     DEFAULT_DRIVE_EFFICIENCY,
     DEFAULT_SPEED_RANGE,
     Arrangement,
+    DutyBand,
     ModelError,
     PressurisedDelivery,
     ProfilePoint,
@@ -215,6 +216,66 @@ def new_profile_point(project: Project, index: int) -> ProfilePoint:
         return ProfilePoint(last.chainage_m + DEFAULT_PROFILE_STEP_M, last.elevation_m)
     first = points[0]
     return ProfilePoint(first.chainage_m / 2.0, first.elevation_m)
+
+
+# ---------------------------------------------------------------------- duty profile
+HOURS_PER_COMMON_YEAR = 8760.0
+"""Hours of a common year: a band's share of the year is a share of these."""
+
+
+def with_duty_profile_changes(project: Project, **changes: Any) -> Project:
+    """The project with fields of its duty profile changed (``strategy``, ``pipe``, ``annual_volume_m3``)."""
+    return replace(project, duty_profile=replace(project.duty_profile, **changes))
+
+
+def with_duty_bands(project: Project, bands: Sequence[DutyBand]) -> Project:
+    """The project with the duty profile's bands replaced by ``bands`` (in the order given)."""
+    return with_duty_profile_changes(project, bands=tuple(bands))
+
+
+def with_duty_band_changes(project: Project, index: int, **changes: Any) -> Project:
+    """The project with fields of duty band ``index`` changed (``flow_m3_s``, ``time``)."""
+    bands = project.duty_profile.bands
+    if not 0 <= index < len(bands):
+        raise ModelError(f"duty_profile.bands[{index}]", f"no such band; the profile has {len(bands)}", index)
+    return with_duty_bands(project, bands[:index] + (replace(bands[index], **changes),) + bands[index + 1:])
+
+
+def with_duty_time_basis(project: Project, basis: str) -> Project:
+    """Give the bands' times in hours (``"hours"``) or as shares of the year (``"share"``).
+
+    The times are converted, share = hours / 8760 (a common year), so the profile means the
+    same; the basis it already has, or any other word, leaves the project as it is.
+    """
+    profile = project.duty_profile
+    if basis == profile.time_basis or basis not in ("hours", "share"):
+        return project
+    factor = 1.0 / HOURS_PER_COMMON_YEAR if basis == "share" else HOURS_PER_COMMON_YEAR
+    bands = tuple(replace(b, time=b.time * factor) for b in profile.bands)
+    return with_duty_profile_changes(project, bands=bands, time_basis=basis)
+
+
+def new_duty_band(project: Project, index: int) -> DutyBand:
+    """A band to insert before band ``index`` (at the end when ``index`` is the number of bands).
+
+    Its flow: midway between its neighbours, half the first band's before the first, the last
+    band's past the last, the design flow in an empty profile.  Its time: what is left of a
+    common year (8760 h, or the whole year as a share) after the other bands, so the profile
+    stays valid.
+    """
+    profile = project.duty_profile
+    bands = profile.bands
+    if not bands:
+        flow = project.site.design_flow_m3_s
+    elif 0 < index < len(bands):
+        flow = (bands[index - 1].flow_m3_s + bands[index].flow_m3_s) / 2.0
+    elif index >= len(bands):
+        flow = bands[-1].flow_m3_s
+    else:
+        flow = bands[0].flow_m3_s / 2.0
+    whole = HOURS_PER_COMMON_YEAR if profile.time_basis == "hours" else 1.0
+    left = max(0.0, whole - sum(b.time for b in bands))
+    return DutyBand(flow_m3_s=float(flow), time=float(left))
 
 
 # ---------------------------------------------------------------------- pumps

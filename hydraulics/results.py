@@ -33,6 +33,7 @@ __all__ = [
     "SpeedForFlow", "VariableSpeedResult", "SpeedPoint", "CapacityResult", "ScenarioEnergy", "EnergyResult",
     "Solution", "ProfileLine", "ProfileResult", "control_label", "PumpSpecificSpeeds", "NpshWorstCase",
     "SpeedCurve", "IsoEfficiencyLine", "DesignFlowPoint", "SpeedMap", "MotorResult",
+    "DutyStageCapacity", "DutyBandResult", "DutyProfileResult",
 ]
 
 FloatArray: TypeAlias = NDArray[np.float64]
@@ -576,7 +577,7 @@ class MotorResult:
 
 @dataclass(frozen=True)
 class ScenarioEnergy:
-    """Annual energy if the station ran all year at one operating point."""
+    """Annual energy if the station ran all year at one operating point (the simple estimate)."""
 
     static: str
     pipe: str
@@ -597,7 +598,11 @@ class ScenarioEnergy:
 
 @dataclass(frozen=True)
 class EnergyResult:
-    """Annual energy at both static extremes and their mean (``None`` where not computable)."""
+    """Annual energy at both static extremes and their mean (``None`` where not computable).
+
+    The simple estimate: all operating hours at the duty point.  With a duty profile the
+    station's energy is :class:`DutyProfileResult`'s.
+    """
 
     basis: str | None
     pipe: str
@@ -634,6 +639,116 @@ class EnergyResult:
             "specific_energy_max_static_kwh_m3": part(self.at_max_static, "specific_energy_kwh_m3"),
             "scenarios": [s.to_json_dict() for s in (self.at_min_static, self.at_max_static) if s is not None],
             "notes": list(self.notes),
+        }
+
+
+@dataclass(frozen=True)
+class DutyStageCapacity:
+    """One stage of the run sequence and its flow at the pumps' own (highest) speeds, at the
+    profile's mean static head and pipe state (0 where the pumps cannot lift)."""
+
+    pumps: str
+    pumps_running: int
+    flow_m3_s: float
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return asdict(self)
+
+
+@dataclass(frozen=True)
+class DutyBandResult:
+    """How the station meets one band of its duty over a year (:mod:`hydraulics.duty_energy`; SI).
+
+    ``flow_m3_s`` is the band's flow as the station must meet it (after scaling to an annual
+    volume), ``hours`` the band's time per year.  ``pumps`` names the running stage
+    (``"P1+P2"``; empty for a band without flow).  ``control`` is ``"idle"``, ``"stop–start"``
+    (fixed speed, started and stopped), ``"variable speed"`` (slowed to the band flow, running
+    the band's whole hours), ``"stop–start at the lowest speed"`` or ``"above capacity"`` (every
+    pump of the last stage at its highest speed, the whole band's hours, short).
+    ``speed_ratio`` is the common speed of the variable-speed pumps where they are slowed
+    (``None``: every pump at its own speed).  While running: ``station_flow_m3_s``,
+    ``manifold_head_m``, ``efficiency`` (wire to water: Σ ρ g qᵢ Hᵢ / Σ P_in,i over the pumps
+    delivering, with each pump's own head), ``input_power_w`` and ``specific_energy_kwh_m3``.
+    ``run_hours`` the hours the pumps run in the band, ``pumped_volume_m3`` the volume they
+    deliver, ``shortfall_volume_m3`` the band's volume they cannot; ``energy_kwh`` and ``cost``
+    per year.  Powers and energies are ``None`` where the pumps have no efficiency or power data.
+    """
+
+    index: int
+    flow_m3_s: float
+    hours: float
+    pumps: str
+    pumps_running: int
+    control: str
+    speed_ratio: float | None
+    station_flow_m3_s: float | None
+    manifold_head_m: float | None
+    efficiency: float | None
+    input_power_w: float | None
+    specific_energy_kwh_m3: float | None
+    run_hours: float
+    pumped_volume_m3: float
+    shortfall_volume_m3: float
+    energy_kwh: float | None
+    cost: float | None
+    note: str = ""
+
+    @property
+    def met(self) -> bool:
+        """The station pumps the band's whole volume."""
+        return self.shortfall_volume_m3 <= 0.0
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {**asdict(self), "met": self.met}
+
+
+@dataclass(frozen=True)
+class DutyProfileResult:
+    """The station's energy over a year of real duty, band by band (:mod:`hydraulics.duty_energy`).
+
+    Computed at ``static_head_m``, the mean of the static extremes (the levels move between
+    them in service), with ``pipe`` pipe.  ``flow_scale`` is the factor the band flows were
+    multiplied by to pump ``annual_volume_target_m3`` (``None`` without an annual volume).
+    Totals per year: ``energy_kwh``, ``cost`` (at ``tariff_per_kwh`` in ``currency``),
+    ``volume_m3`` pumped, ``shortfall_volume_m3`` not pumped, ``run_hours`` with pumps running,
+    ``specific_energy_kwh_m3`` = energy / volume (the station's mean).  Energies are ``None``
+    where a band's power is unknown (``notes`` says why).
+    """
+
+    strategy: str
+    pipe: str
+    time_basis: str
+    static_head_m: float
+    static_head_min_m: float
+    static_head_max_m: float
+    flow_scale: float | None
+    annual_volume_target_m3: float | None
+    stages: tuple[DutyStageCapacity, ...]
+    bands: tuple[DutyBandResult, ...]
+    hours: float
+    run_hours: float
+    volume_m3: float
+    shortfall_volume_m3: float
+    energy_kwh: float | None
+    cost: float | None
+    specific_energy_kwh_m3: float | None
+    tariff_per_kwh: float
+    currency: str
+    notes: tuple[str, ...] = ()
+    basis: str = "mean static head (the levels move between the extremes)"
+
+    def to_json_dict(self) -> dict[str, Any]:
+        return {
+            "strategy": self.strategy, "pipe": self.pipe, "time_basis": self.time_basis, "basis": self.basis,
+            "static_head_m": self.static_head_m, "static_head_min_m": self.static_head_min_m,
+            "static_head_max_m": self.static_head_max_m, "flow_scale": self.flow_scale,
+            "annual_volume_target_m3": self.annual_volume_target_m3,
+            "stages": [s.to_json_dict() for s in self.stages],
+            "bands": [b.to_json_dict() for b in self.bands],
+            "hours": self.hours, "run_hours": self.run_hours, "volume_m3": self.volume_m3,
+            "shortfall_volume_m3": self.shortfall_volume_m3, "energy_kwh": self.energy_kwh, "cost": self.cost,
+            "specific_energy_kwh_m3": self.specific_energy_kwh_m3, "tariff_per_kwh": self.tariff_per_kwh,
+            "currency": self.currency, "notes": list(self.notes),
         }
 
 
@@ -864,6 +979,9 @@ class Solution:
     motor: MotorResult | None = None
     pump_set: PumpSetResult | None = None
     """The installed pumps and the points of dissimilar pumps together (``None`` without a pump)."""
+    duty_profile: DutyProfileResult | None = None
+    """The energy over the year of the project's duty profile (``None`` without bands or a pump;
+    the second stage)."""
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

@@ -12,7 +12,8 @@ without a best-efficiency point), and ``npsh_worst_case`` is the conservative NP
 :class:`hydraulics.results.NpshWorstCase`, ``None`` without NPSH data).  Each operating
 point's ``npsh_available_m`` is at its own scenario's suction level (the highest suction
 level at minimum static head, the lowest at maximum static head).
-Since the checks at every speed: ``capacity`` and ``speed_points``.
+Since the checks at every speed: ``capacity`` and ``speed_points``.  Since the duty profile:
+``duty_profile``.
 
 ``capacity`` (``None`` without a pump) is the station's flow at the worst case (maximum
 static, aged pipe, the drive's maximum speed) against the design flow, with every duty pump
@@ -28,6 +29,16 @@ sequence (stage k of the arrangement's identical pumps is the operating points' 
 = k), and ``points`` the operating points of sets with pumps of other models and of the set
 with the largest pump out of service, each with the manifold head and, per running pump
 (``pumps``), its flow, head, efficiency, powers and NPSH.
+
+``energy`` is the simple estimate: all operating hours at the duty point
+(:class:`hydraulics.results.EnergyResult`).  ``duty_profile`` (``None`` without duty bands or
+without a pump) is the energy over a year of real duty: per band (``bands``) the flow, hours,
+the pumps running (``pumps``, e.g. ``"P1+P2"``), ``control``, ``speed_ratio``, the station flow,
+manifold head, wire-to-water efficiency, input power and specific energy while running, the
+run hours, pumped and short volumes, energy and cost; the stages' flows at their own speeds;
+and the totals per year (``energy_kwh``, ``cost``, ``volume_m3``, ``specific_energy_kwh_m3``,
+``run_hours``, ``shortfall_volume_m3``), at the mean static head with the profile's pipe state
+(:class:`hydraulics.results.DutyProfileResult`).
 
 ``segments`` lists every segment at the design flow with the duty pumps running (each entry
 also says what it ``carries`` and its ``flow_m3_s``); ``branches`` lists the segments of
@@ -160,5 +171,6 @@ def solution_to_json_dict(solution: Solution) -> dict[str, object]:
         "speed_points": [p.to_json_dict() for p in solution.speed_points],
         "motor": _to_dict(solution.motor),
         "pump_set": _to_dict(solution.pump_set),
+        "duty_profile": _to_dict(solution.duty_profile),
     }
     return {key: _clean(value) for key, value in data.items()}

@@ -195,6 +195,7 @@ def complete_solution(stage: CurvesStage) -> Solution:
         return replace(first, findings=checks.sort_findings(findings), complete=True)
 
     from hydraulics.capacity import capacity_findings, pump_set_capacity, station_capacity
+    from hydraulics.duty_energy import duty_profile_energy
     from hydraulics.motor import motor_check, motor_findings
     from hydraulics.npsh_worst_case import npsh_worst_case_findings
     from hydraulics.operating_points import operating_points
@@ -260,9 +261,10 @@ def complete_solution(stage: CurvesStage) -> Solution:
     findings += capacity_findings(capacity, pump_where, pump_target)
     motor = motor_check(fitted, arrangement, project.criteria, at_speeds, arrangement_shaft_powers(pump_set))
     findings += motor_findings(motor, pump_where, pump_target)
-    return replace(first, findings=checks.sort_findings(findings), variable_speed=speed, complete=True,
-                   capacity=capacity, motor=motor, speed_points=speed_points, pump_set=pump_set,
-                   speed_map=speed_map(system, fitted, arrangement, speed))
+    duty, duty_findings = duty_profile_energy(project, system, first.fluid.density_kg_m3, _cached_fit)
+    return replace(first, findings=checks.sort_findings(findings + list(duty_findings)), variable_speed=speed,
+                   complete=True, capacity=capacity, motor=motor, speed_points=speed_points, pump_set=pump_set,
+                   speed_map=speed_map(system, fitted, arrangement, speed), duty_profile=duty)
 
 
 def _key(point: OperatingPoint) -> tuple[str, str, int, float]:

@@ -93,7 +93,7 @@ SECTIONS = (
                     lambda p: p.criteria.trim_warning_limit, lambda p, v: _criteria(p, trim_warning_limit=v),
                     tooltip="Reduction of impeller diameter beyond which the affinity laws are doubtful."),
     )),
-    Section("Energy", (
+    Section("Energy: tariff and the simple estimate", (
         ChoiceField("energy_basis", "Annual duty given as",
                     lambda p: [("hours", "operating hours per year"), ("volume", "volume pumped per year")],
                     energy_basis, with_energy_basis),
@@ -111,7 +111,8 @@ SECTIONS = (
                     lambda p: p.energy.tariff_per_kwh, lambda p, v: _energy(p, tariff_per_kwh=v),
                     tooltip="Energy price in the currency below."),
         TextField("currency", "Currency", lambda p: p.energy.currency, lambda p, v: _energy(p, currency=v)),
-    )),
+    ), note="The hours or volume here give the simple estimate: all operating hours at the duty point. With "
+            "duty bands (Duty tab) the station's energy is the year of duty; the tariff and currency serve both."),
     Section("Curves", (
         NumberField("flow_grid_max_factor", "Plot flows up to (× design flow)", "dimensionless",
                     "project.flow_grid_max_factor",

@@ -33,7 +33,7 @@ def _menu_texts(window) -> dict[str, list[str]]:
 
 def test_the_window_shows_inputs_plots_results_and_the_cautions(window):
     tabs = [window.input_tabs.tabText(i).replace("&&", "&") for i in range(window.input_tabs.count())]
-    assert tabs == ["Site & fluid", "Pipework", "Pumps", "Criteria"]
+    assert tabs == ["Site & fluid", "Pipework", "Pumps", "Criteria", "Duty"]
     assert window.plot_tabs.head_flow is not None
     assert isinstance(window.checks_panel, ChecksPanel)
     assert isinstance(window.points_table, OperatingPointsTable)
