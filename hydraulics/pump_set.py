@@ -56,6 +56,8 @@ __all__ = ["SetPump", "installed_pumps", "run_stages", "PumpSetSolve", "solve_pu
 
 _INNER_TOLERANCE_M = 1e-11
 """Each pump's flow at a trial manifold head is converged to this head residual (m)."""
+_TABLE_POINTS = 48
+"""Flows at which each pump's head is tabulated to narrow its root brackets (a speed-up only)."""
 _OUTER_TOLERANCE_M = 1e-9
 """The manifold head balance is converged to this (m), as the identical-pump duty points."""
 
@@ -177,7 +179,13 @@ class PumpSetSolve:
 
 
 class _PumpHeads:
-    """Each running pump's head at the manifold, with its speed per scenario (shape (S, P))."""
+    """Each running pump's head at the manifold, with its speed per scenario (shape (S, P)).
+
+    The head of each pump is also tabulated once at :data:`_TABLE_POINTS` flows over its
+    stable branch: a trial manifold head then finds the table interval around its root, and
+    the exact root is found inside that narrow bracket (a speed-up only: where the tabulated
+    interval does not bracket the root, the whole branch is searched).
+    """
 
     def __init__(self, system: SystemHydraulics, fitted: Sequence[FittedPump], scale: FloatArray,
                  aged: NDArray[np.bool_], extension: float):
@@ -186,17 +194,22 @@ class _PumpHeads:
         ends = np.array([f.flow_max_m3_s for f in fitted])
         self.q_left = scale * peaks
         self.q_end = scale * ends * extension
-        self.top = self.at(self.q_left)
-        self.bottom = self.at(self.q_end)
+        fractions = np.linspace(0.0, 1.0, _TABLE_POINTS)
+        self.q_table = self.q_left[..., None] + (self.q_end - self.q_left)[..., None] * fractions
+        self.h_table = self.at(self.q_table)
+        self.top = self.h_table[..., 0]
+        self.bottom = self.h_table[..., -1]
 
     def at(self, q: FloatArray) -> FloatArray:
-        """hᵢ(q) = cᵢ² Hᵢ(q / cᵢ) − L_branch(q) for every scenario and pump (m)."""
+        """hᵢ(q) = cᵢ² Hᵢ(q / cᵢ) − L_branch(q) for every scenario and pump (m; q of shape (S, P) or (S, P, G))."""
         out = np.empty_like(q)
+        extra = (1,) * (q.ndim - 2)
         for i, fitted in enumerate(self.fitted):
-            c = self.scale[:, i]
+            c = self.scale[:, i].reshape(-1, *extra)
             out[:, i] = c * c * fitted.head(q[:, i] / c)
         if self.system.has_branches:
-            out -= self.system.branch_loss(q, np.broadcast_to(self.aged[:, None], q.shape))
+            aged = self.aged.reshape(-1, 1, *extra)
+            out -= self.system.branch_loss(q, np.broadcast_to(aged, q.shape))
         return out
 
     def flows_at(self, head_m: FloatArray) -> tuple[FloatArray, NDArray[np.bool_]]:
@@ -207,8 +220,19 @@ class _PumpHeads:
         solve = ~closed & ~beyond
         q = np.where(beyond, self.q_end, np.where(closed, 0.0, self.q_left))
         if solve.any():
-            roots = bracketed_roots(lambda x: self.at(x) - h, self.q_left, self.q_end, fa=self.top - h,
-                                    fb=self.bottom - h, active=solve, ftol=_INNER_TOLERANCE_M)
+            above = np.count_nonzero(self.h_table > h[..., None], axis=-1)
+            k = np.clip(above, 1, _TABLE_POINTS - 1)[..., None]
+            a = np.take_along_axis(self.q_table, k - 1, axis=-1)[..., 0]
+            b = np.take_along_axis(self.q_table, k, axis=-1)[..., 0]
+            fa = np.take_along_axis(self.h_table, k - 1, axis=-1)[..., 0] - h
+            fb = np.take_along_axis(self.h_table, k, axis=-1)[..., 0] - h
+            narrow = (fa >= 0.0) & (fb <= 0.0)  # a true bracket; else the whole branch
+            a = np.where(narrow, a, self.q_left)
+            b = np.where(narrow, b, self.q_end)
+            fa = np.where(narrow, fa, self.top - h)
+            fb = np.where(narrow, fb, self.bottom - h)
+            roots = bracketed_roots(lambda x: self.at(x) - h, a, b, fa=fa, fb=fb, active=solve,
+                                    ftol=_INNER_TOLERANCE_M)
             q = np.where(solve, roots.x, q)
         return q, beyond
 
