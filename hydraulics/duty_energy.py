@@ -24,7 +24,10 @@ Meeting a band (``strategy``):
 * ``variable_speed``: the fewest stage whose flow at its highest speed reaches Q_b; its
   variable-speed pumps slow to the common speed that delivers Q_b exactly, re-intersected
   with the system (:func:`hydraulics.pump_set.pump_set_speed_for_flow`), and run the band's
-  whole hours.  Where even the lowest speed delivers more than Q_b the stage runs at the
+  whole hours; where that would take a running pump beyond its preferred region (the criteria's
+  upper bound of best-efficiency flow, after ANSI/HI 9.6.3) and a further stage exists, the next
+  pump is switched in instead (common practice for parallel pumps on drives: the next pump starts
+  before the running ones run out).  Where even the lowest speed delivers more than Q_b the stage runs at the
   lowest speed and stops and starts as above.  A stage without variable-speed pumps runs as
   under fixed staging.
 * A band above the station's capacity (the last stage cannot reach it): every pump of the
@@ -51,6 +54,8 @@ with variable speed, one :func:`~hydraulics.pump_set.pump_set_speed_for_flow` ca
 left.
 
 Finding codes (stable): ``duty_band_not_met`` (warning: a band above the station's capacity),
+``duty_band_outside_region`` (warning, critical outside the allowable region: a running pump
+leaves its preferred operating region in a band; the region checks at the band points),
 ``duty_energy_unknown`` (info: a running pump has no efficiency or power data),
 ``duty_profile_not_computed`` (info: pumps in series, which the pump set does not solve).
 """
@@ -64,7 +69,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
-from hydraulics.model import Project, PumpModel
+from hydraulics.model import Criteria, Project, PumpModel
 from hydraulics.number_format import fixed_decimals, percent_number
 from hydraulics.pump_fit import FittedPump
 from hydraulics.pump_set import PumpSetSolve, SetPump, pump_set_speed_for_flow, run_stages, solve_pump_set, stage_label
@@ -124,6 +129,8 @@ class _Running:
     head: FloatArray
     power: FloatArray
     efficiency: FloatArray
+    bep_min: FloatArray
+    bep_max: FloatArray
 
 
 def _running(point: PumpSetSolve, density: float) -> _Running:
@@ -137,7 +144,13 @@ def _running(point: PumpSetSolve, density: float) -> _Running:
     with np.errstate(invalid="ignore", divide="ignore"):
         efficiency = np.where(power > 0.0, np.sum(hydraulic, axis=-1) / power, np.nan)
     power = np.where(flow > 0.0, power, 0.0)
-    return _Running(flow=flow, head=point.manifold_head_m, power=power, efficiency=efficiency)
+    ratio = np.where(delivering, point.pump_bep_flow_ratio, np.nan)
+    known = np.any(np.isfinite(ratio), axis=-1)
+    safe = np.where(known[:, None], ratio, 0.0)
+    bep_min = np.where(known, np.nanmin(np.where(np.isfinite(safe), safe, np.inf), axis=-1), np.nan)
+    bep_max = np.where(known, np.nanmax(np.where(np.isfinite(safe), safe, -np.inf), axis=-1), np.nan)
+    return _Running(flow=flow, head=point.manifold_head_m, power=power, efficiency=efficiency,
+                    bep_min=bep_min, bep_max=bep_max)
 
 
 def _optional(value: float) -> float | None:
@@ -182,7 +195,8 @@ def duty_profile_energy(project: Project, system: SystemHydraulics, density_kg_m
             break
         capacity = _meet_with_stage(system, fitted, (k, stage), static, aged, flows, np.flatnonzero(remaining),
                                     profile.strategy == "variable_speed", density_kg_m3, table,
-                                    last=k == len(stages) - 1)
+                                    last=k == len(stages) - 1,
+                                    run_out_limit=project.criteria.preferred_region_high)
         capacities.append(DutyStageCapacity(stage_label(stage), len(stage), capacity))
         remaining &= table.stage < 0
     q_run, head, power, eta, speed, control = (table.q_run, table.head, table.power, table.eta, table.speed,
@@ -224,7 +238,8 @@ def duty_profile_energy(project: Project, system: SystemHydraulics, density_kg_m
             shortfall_volume_m3=float(shortfall[b]),
             energy_kwh=_optional(energy[b]) if running else (0.0 if idle[b] or run_hours[b] == 0.0 else None),
             cost=_optional(energy[b] * tariff) if running else (0.0 if idle[b] or run_hours[b] == 0.0 else None),
-            note=note))
+            note=note, bep_flow_ratio_min=_optional(table.bep_min[b]) if running else None,
+            bep_flow_ratio_max=_optional(table.bep_max[b]) if running else None))
 
     notes: list[str] = []
     if factor is not None:
@@ -246,7 +261,7 @@ def duty_profile_energy(project: Project, system: SystemHydraulics, density_kg_m
         specific_energy_kwh_m3=(total_energy / total_volume if total_energy is not None and total_volume > 0.0
                                 else None),
         tariff_per_kwh=tariff, currency=project.energy.currency, notes=tuple(notes))
-    return result, duty_findings(result)
+    return result, duty_findings(result, project.criteria)
 
 
 class _BandTable:
@@ -259,6 +274,8 @@ class _BandTable:
         self.power = np.zeros(n_bands)
         self.eta = np.full(n_bands, np.nan)
         self.speed = np.full(n_bands, np.nan)
+        self.bep_min = np.full(n_bands, np.nan)
+        self.bep_max = np.full(n_bands, np.nan)
         self.control: NDArray[np.object_] = np.array(["stop–start"] * n_bands, dtype=object)
         self.above = np.zeros(n_bands, dtype=bool)
         self.notes = [""] * n_bands
@@ -271,6 +288,7 @@ class _BandTable:
         self.stage[bands] = stage
         self.q_run[bands], self.head[bands] = point.flow[rows], point.head[rows]
         self.power[bands], self.eta[bands] = point.power[rows], point.efficiency[rows]
+        self.bep_min[bands], self.bep_max[bands] = point.bep_min[rows], point.bep_max[rows]
         self.speed[bands] = np.nan if speed is None else speed
         self.control[bands] = control
         for b in bands:
@@ -280,7 +298,7 @@ class _BandTable:
 def _meet_with_stage(system: SystemHydraulics, fitted: dict[str, FittedPump],
                      numbered_stage: tuple[int, Sequence[SetPump]], static: float, aged: bool, flows: FloatArray,
                      todo: NDArray[np.intp], variable_speed: bool,
-                     density: float, table: _BandTable, last: bool) -> float:
+                     density: float, table: _BandTable, last: bool, run_out_limit: float | None = None) -> float:
     """The bands of ``todo`` this stage meets (all that are left when it is the ``last``); its flow at own speeds.
 
     One pump-set solve: at the stage's own speeds (scenario 0) and, with variable speed, at its
@@ -303,8 +321,13 @@ def _meet_with_stage(system: SystemHydraulics, fitted: dict[str, FittedPump],
     target = flows[todo]
     reaches = (capacity >= target * (1.0 - _REACH_TOLERANCE)) & (capacity > 0.0) & ~found
     if variable:
+        rows = np.arange(2, n)
         slowed = todo[found]
-        table.assign(slowed, index, point, np.arange(2, n), "variable speed", None if speeds is None else speeds[2:])
+        if not last and run_out_limit is not None:  # switch the next pump in before these run out (see the module)
+            keep = ~(point.bep_max[rows] > run_out_limit)
+            rows, slowed = rows[keep], slowed[keep]
+            speeds = np.concatenate((speeds[:2], speeds[2:][keep])) if speeds is not None else None
+        table.assign(slowed, index, point, rows, "variable speed", None if speeds is None else speeds[2:])
         at_lowest = reaches & (point.flow[1] >= target * (1.0 - _REACH_TOLERANCE)) & (point.flow[1] > 0.0)
         table.assign(todo[at_lowest], index, point, 1, "stop–start at the lowest speed", lowest,
                      f"even the lowest speed ({percent_number(lowest)} %) delivers more than the band flow: the "
@@ -321,9 +344,9 @@ def _meet_with_stage(system: SystemHydraulics, fitted: dict[str, FittedPump],
     return capacity
 
 
-def duty_findings(result: DutyProfileResult) -> tuple[Finding, ...]:
+def duty_findings(result: DutyProfileResult, criteria: Criteria | None = None) -> tuple[Finding, ...]:
     """The findings of a year of duty (codes in the module description)."""
-    out: list[Finding] = []
+    out: list[Finding] = list(_region_findings(result, criteria)) if criteria is not None else []
     for band in result.bands:
         if band.met:
             continue
@@ -343,3 +366,34 @@ def duty_findings(result: DutyProfileResult) -> tuple[Finding, ...]:
             "The energy over the duty profile is not known: a pump that runs has no efficiency or power data.",
             {}, "duty profile", "Give the pump's efficiency or shaft power points.", ("duty", 0)))
     return tuple(out)
+
+
+def _region_findings(result: DutyProfileResult, criteria: Criteria) -> list[Finding]:
+    """``duty_band_outside_region``: the bands in which a running pump leaves its preferred region.
+
+    One finding for the year, naming each band and the range of best-efficiency flow shares its
+    pumps run at; critical where a band leaves the allowable region (the criteria's bounds,
+    after ANSI/HI 9.6.3 as in :mod:`hydraulics.checks`).
+    """
+    outside: list[str] = []
+    severe = False
+    for band in result.bands:
+        low, high = band.bep_flow_ratio_min, band.bep_flow_ratio_max
+        if low is None or high is None:
+            continue
+        if criteria.preferred_region_low <= low and high <= criteria.preferred_region_high:
+            continue
+        severe |= low < criteria.allowable_region_low or high > criteria.allowable_region_high
+        share = percent_number(low) if abs(high - low) < 0.005 else f"{percent_number(low)}–{percent_number(high)}"
+        outside.append(f"band {band.index + 1} ({band.pumps}, {share} %)")
+    if not outside:
+        return []
+    bounds = (f"{percent_number(criteria.preferred_region_low)}–{percent_number(criteria.preferred_region_high)} %"
+              if not severe else f"{percent_number(criteria.allowable_region_low)}–"
+              f"{percent_number(criteria.allowable_region_high)} % (allowable)")
+    return [Finding(
+        "critical" if severe else "warning", "duty_band_outside_region",
+        "Over the year the pumps run outside their " + ("allowable" if severe else "preferred")
+        + f" region ({bounds} of best-efficiency flow) in " + "; ".join(outside) + ".",
+        "duty profile", "Change the staging, the speed range or the pumps for these bands; the energy is "
+        "computed as they run.", ("duty", 0))]

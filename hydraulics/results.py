@@ -692,6 +692,10 @@ class DutyBandResult:
     energy_kwh: float | None
     cost: float | None
     note: str = ""
+    bep_flow_ratio_min: float | None = None
+    """The lowest share of its best-efficiency flow at which a pump delivering in this band runs."""
+    bep_flow_ratio_max: float | None = None
+    """The highest such share."""
 
     @property
     def met(self) -> bool:

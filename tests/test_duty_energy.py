@@ -291,3 +291,26 @@ def test_a_new_band_takes_the_rest_of_the_year_and_a_neighbouring_flow():
     validate_project(with_duty_bands(project, project.duty_profile.bands + (band,)))
     empty = with_duty_bands(project, ())
     assert new_duty_band(empty, 0).flow_m3_s == project.site.design_flow_m3_s
+
+
+def test_a_band_where_a_pump_leaves_its_preferred_region_is_a_finding_of_the_year():
+    # one sewage pump stop–starting at its 85 % lowest speed for a 25 L/s band runs inside its preferred region
+    clean = solve(_with_profile("sewage_wet_well", bands=(DutyBand(25 * L_S, 4000.0),), strategy="variable_speed"))
+    assert "duty_band_outside_region" not in {f.code for f in clean.findings}
+    band = clean.duty_profile.bands[0]
+    assert 0.70 <= band.bep_flow_ratio_min <= band.bep_flow_ratio_max <= 1.20  # ANSI/HI 9.6.3 region, as criteria
+    # the same band with every pump at full speed, stop–start: one pump runs further out on its curve
+    fixed = solve(_with_profile("sewage_wet_well", bands=(DutyBand(25 * L_S, 4000.0),), strategy="fixed_staging"))
+    ratio = fixed.duty_profile.bands[0].bep_flow_ratio_max
+    narrow = replace(fixed.project, criteria=replace(fixed.project.criteria, preferred_region_high=ratio - 0.01))
+    flagged = [f for f in solve(narrow).findings if f.code == "duty_band_outside_region"]
+    assert flagged and flagged[0].severity == "warning" and "band 1 (P1" in flagged[0].message
+
+
+def test_variable_speed_switches_the_next_pump_in_before_the_running_one_leaves_its_preferred_region():
+    river = _sample("river_intake")
+    band = solve(river).duty_profile.bands[1]  # the sample's second band: one pump would run at about 126 %
+    assert band.pumps == "P1+P2" and band.bep_flow_ratio_max <= river.criteria.preferred_region_high
+    looser = replace(river, criteria=replace(river.criteria, preferred_region_high=1.30))
+    alone = solve(looser).duty_profile.bands[1]
+    assert alone.pumps == "P1" and 1.20 < alone.bep_flow_ratio_max <= 1.30  # the fewest pumps within the region
