@@ -780,6 +780,40 @@ class PumpSetPoint:
                 "pumps": [share.to_json_dict() for share in self.shares]}
 
 
+@dataclass(frozen=True, eq=False)
+class PumpSetCurve:
+    """The combined curve of pumps of different models in parallel, at the manifold (SI).
+
+    ``running`` lists the tags of the pumps; ``flow_m3_s`` is the station flow at each
+    manifold head of ``head_m`` (the sum of the pumps' flows at that head, see
+    :mod:`hydraulics.pump_set_curves`), rising; ``pump_flow_m3_s`` each pump's share,
+    shape (points, pumps), zero where a pump cannot open its check valve.
+    """
+
+    running: tuple[str, ...]
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+    pump_flow_m3_s: FloatArray
+
+    @property
+    def label(self) -> str:
+        """``"P1+P3"``."""
+        return "+".join(self.running)
+
+
+@dataclass(frozen=True, eq=False)
+class PumpSetCurves:
+    """What the head–flow plot draws of the installed pumps (first stage of a solve).
+
+    ``arrangement_stages`` names the pumps running in the arrangement's identical stages
+    (``"P1"``, ``"P1+P2"`` for 1, 2 … duty pumps); ``curves`` the combined curve of every
+    stage of the run sequence that includes other pumps.
+    """
+
+    arrangement_stages: tuple[str, ...]
+    curves: tuple[PumpSetCurve, ...] = ()
+
+
 @dataclass(frozen=True)
 class PumpSetResult:
     """The installed pumps, the run sequence and the points of pumps of different models together.
@@ -847,6 +881,8 @@ class Solution:
     motor: MotorResult | None = None
     pump_set: PumpSetResult | None = None
     """The installed pumps and the points of dissimilar pumps together (``None`` without a pump)."""
+    pump_set_curves: PumpSetCurves | None = None
+    """Tags of the identical stages and combined curves with other pumps (first stage; ``None`` without a pump)."""
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""
