@@ -126,11 +126,12 @@ ARRANGEMENT_SECTIONS = (
 )
 
 INSTALLED_PUMPS_NOTE = (
-    "Every pump of the station. P1… are the arrangement's identical duty and standby pumps (set above); "
-    "add pumps of any of the project's models beside them. Duty pumps run in normal operation; assist "
-    "pumps are switched in after them when the flow needs them; standby pumps run only in place of a "
-    "pump out of service. Pumps of different models run in parallel at the manifold head. Each pump has "
-    "its own suction and discharge branch, built like the Pipework segments that carry \"Each pump\".")
+    "Every pump of the station, tagged P1, P2, … as in the results. The grey rows are the arrangement's "
+    "identical duty and standby pumps (set above); add pumps of any of the project's models beside them. "
+    "Roles: duty pumps run in normal operation; assist pumps are switched in after them when the flow needs "
+    "them; standby pumps run only in place of a pump out of service. Pumps of different models run in "
+    "parallel at the manifold head. Each pump has its own suction and discharge branch, built like the "
+    "Pipework segments that carry \"Each pump\".")
 
 NO_ARRANGEMENT_TEXT = "No pump arrangement yet: import or add a pump first, then add the pumps installed beside it."
 

@@ -234,7 +234,10 @@ class OperatingPointsModel(QAbstractTableModel):
         if isinstance(row, PumpSetPoint):
             if not found:
                 return f"No operating point: {row.reason or 'not found'}"
-            return PUMP_SET_TIP if column_index <= 1 else column.tooltip or None
+            if column_index <= 1:
+                basis = "" if row.basis == "run sequence" else f" ({row.basis})"
+                return f"{row.label}: {scenarios.pump_set_phrase(row)}{basis}. {PUMP_SET_TIP}"
+            return column.tooltip or None
         if column_index == 0 and row.shut_off:
             return (f"{row.tag} cannot open its check valve against the manifold head: it delivers nothing and "
                     "runs at shut-off.")
@@ -294,6 +297,10 @@ def _read(row: Row, column: Column) -> CellValue:
     return None if read is None else read(row)
 
 
+MAX_SCENARIO_WIDTH = 300
+"""Widest the scenario column is sized to its contents (px)."""
+
+
 class OperatingPointsTable(QTableView):
     """Read-only view of :class:`OperatingPointsModel`; rows without a point span their reason."""
 
@@ -324,6 +331,8 @@ class OperatingPointsTable(QTableView):
         if shape != self._sized_for:
             self._sized_for = shape
             self.resizeColumnsToContents()
+            if self.columnWidth(0) > MAX_SCENARIO_WIDTH:  # long set descriptions: elided, whole in the tooltip
+                self.setColumnWidth(0, MAX_SCENARIO_WIDTH)
 
     def select_scenario(self, scenario: object) -> bool:
         """Select the row of ``(static, pipe, pumps_running, speed_ratio)``; False if not shown."""

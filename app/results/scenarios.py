@@ -96,7 +96,7 @@ def pump_set_phrase(point: PumpSetPoint) -> str:
     if point.speed == "lowest speed":
         text += " · lowest speed"
     if point.basis != "run sequence":
-        text += f" · {point.basis}"
+        text += f" · {point.basis.split(',')[0]}"  # "P1 out of service"; the standby is in "Pumps running"
     return text
 
 

@@ -152,7 +152,7 @@ class InstalledPumpsModel(ProjectTableModel):
         if key == "control":
             return "variable" if item.variable_speed else "fixed"
         if key == "min_speed_ratio" and not item.variable_speed:
-            return item.speed_ratio
+            return None  # a fixed-speed pump has no lowest speed: the cell stays blank
         return getattr(item, key)
 
     def choices(self, project: Project, row: int, column: Column) -> list[tuple[str | None, str]]:
