@@ -251,7 +251,8 @@ class MainWindow(QMainWindow):
 
         ``("segment", i)`` selects the row in Pipework, ``("profile", i)`` that point of the
         main's profile; ``("pump", …)`` and
-        ``("arrangement", …)`` open Pumps; ``("site", name)`` opens Site & fluid and
+        ``("arrangement", …)`` open Pumps, ``("installed_pump", row)`` selects that row of its
+        installed pumps; ``("site", name)`` opens Site & fluid and
         focuses the field of that name where there is one; ``("criteria", name)`` opens
         Criteria; ``("duty", i)`` opens Duty with band i selected; ``("scenario", (static, pipe,
         pumps, speed))`` selects that row of the operating points.
@@ -271,6 +272,9 @@ class MainWindow(QMainWindow):
             form = self.pumps_panel.arrangement_form if kind == "arrangement" else self.pumps_panel.pump_form
             if not (isinstance(what, str) and form.focus_field(what)):
                 self.pumps_panel.show_pump(str(what))
+        elif kind == "installed_pump" and isinstance(what, int):
+            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pumps"))
+            self.pumps_panel.show_installed_pump(what)
         elif kind == "site":
             self.input_tabs.setCurrentIndex(INPUT_TABS.index("Site & fluid"))
             if isinstance(what, str):

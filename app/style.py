@@ -111,6 +111,11 @@ def tested_pump_pen(pumps_running: int) -> QPen:
     return make_pen(pump_colour(pumps_running), 1.2, Qt.PenStyle.DashLine, alpha=200)
 
 
+def pump_set_pen(pumps_running: int) -> QPen:
+    """Dash-dot pen of the combined curve of pumps of different models (colour by pumps running)."""
+    return make_pen(pump_colour(pumps_running), 2.2, Qt.PenStyle.DashDotLine)
+
+
 def preferred_region_pen(pumps_running: int) -> QPen:
     """Broad translucent stroke under the pump curve across the preferred region."""
     pen = make_pen(pump_colour(pumps_running), 9.0, alpha=PREFERRED_REGION_ALPHA)

@@ -6,6 +6,7 @@ import math
 
 import numpy as np
 
+from app.pump_set_report import pump_set_section
 from hydraulics.cautions import CAUTIONS_TEXT
 from hydraulics.energy import JOULES_PER_KWH
 from hydraulics.number_format import (
@@ -281,6 +282,7 @@ def summary_text(solution: Solution, system: str = "SI") -> str:
             ["scenario", "pumps", "speed %", f"flow {fl}", f"head {hd}", "eff %",
              f"input {unit_label('power', system)}", unit_label("specific_energy", system), f"NPSH margin {hd}",
              "% BEP", "note"], rows)]
+    out += pump_set_section(solution, system)
     vs = solution.variable_speed
     if vs is not None:
         out += ["", f"Variable speed (design flow {d(vs.target_flow_m3_s, 'flow', 1)} {fl} "

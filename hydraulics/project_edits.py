@@ -27,6 +27,7 @@ from hydraulics.model import (
     DEFAULT_SPEED_RANGE,
     Arrangement,
     DutyBand,
+    InstalledPump,
     ModelError,
     PressurisedDelivery,
     ProfilePoint,
@@ -310,12 +311,17 @@ def with_added_pump(project: Project, pump: PumpModel) -> Project:
 
 
 def with_removed_pump(project: Project, pump_id: str) -> Project:
-    """The pump ``pump_id`` removed; the station then uses the first remaining pump, or none."""
+    """The pump ``pump_id`` removed; the station then uses the first remaining pump, or none.
+
+    Installed pumps of that model beside the arrangement's go with it (and all of them when
+    no pump model remains, since they need an arrangement).
+    """
     pumps = tuple(p for p in project.pumps if p.pump_id != pump_id)
     arrangement = project.arrangement
     if arrangement is not None and arrangement.pump_id == pump_id:
         arrangement = replace(arrangement, pump_id=pumps[0].pump_id) if pumps else None
-    return replace(project, pumps=pumps, arrangement=arrangement)
+    others = tuple(o for o in project.other_pumps if o.pump_id != pump_id) if arrangement is not None else ()
+    return replace(project, pumps=pumps, arrangement=arrangement, other_pumps=others)
 
 
 def with_pump_changes(project: Project, pump_id: str, **changes: Any) -> Project:
@@ -351,6 +357,54 @@ def with_speed_control(project: Project, variable_speed: bool) -> Project:
     return replace(project, arrangement=replace(
         a, variable_speed=True, min_speed_ratio=min(low, a.speed_ratio), max_speed_ratio=max(high, a.speed_ratio),
         drive_efficiency=drive))
+
+
+# ---------------------------------------------------------------------- installed pumps beside the arrangement's
+def with_other_pumps(project: Project, pumps: Sequence[InstalledPump]) -> Project:
+    """The project with the installed pumps beside the arrangement's replaced by ``pumps``."""
+    return replace(project, other_pumps=tuple(pumps))
+
+
+def with_other_pump_changes(project: Project, index: int, **changes: Any) -> Project:
+    """The project with fields of installed pump ``index`` (of ``other_pumps``) changed.
+
+    Switching ``variable_speed`` on gives a lowest speed from
+    :data:`~hydraulics.model.DEFAULT_SPEED_RANGE` (never above the pump's speed) and a drive
+    efficiency of :data:`~hydraulics.model.DEFAULT_DRIVE_EFFICIENCY` where none was given
+    (100 %), as for the arrangement (:func:`with_speed_control`); switching it off sets the
+    lowest speed to the pump's speed.  At fixed speed a changed speed moves the lowest with it.
+    """
+    if not 0 <= index < len(project.other_pumps):
+        raise ModelError(f"other_pumps[{index}]",
+                         f"no such installed pump; the project has {len(project.other_pumps)} beside the arrangement's",
+                         index)
+    old = project.other_pumps[index]
+    pump = replace(old, **changes)
+    if pump.variable_speed and not old.variable_speed:
+        drive = DEFAULT_DRIVE_EFFICIENCY if pump.drive_efficiency >= 1.0 else pump.drive_efficiency
+        pump = replace(pump, min_speed_ratio=min(DEFAULT_SPEED_RANGE[0], pump.speed_ratio), drive_efficiency=drive)
+    elif not pump.variable_speed:
+        pump = replace(pump, min_speed_ratio=pump.speed_ratio)
+    pumps = list(project.other_pumps)
+    pumps[index] = pump
+    return with_other_pumps(project, pumps)
+
+
+def new_other_pump(project: Project, before: InstalledPump | None = None) -> InstalledPump:
+    """An installed pump to add beside the arrangement's: an assist pump at fixed speed, full speed and trim.
+
+    Its model is that of ``before`` (the pump it follows in the list) if given, else the first
+    pump model other than the arrangement's, else the arrangement's; its motor efficiency
+    the arrangement's.  Raises :class:`ModelError` without an arrangement.
+    """
+    arrangement = project.arrangement
+    if arrangement is None:
+        raise ModelError("other_pumps", "the project has no pump arrangement yet; choose or add a pump first")
+    if before is not None:
+        return replace(before, role="assist")
+    others = [p.pump_id for p in project.pumps if p.pump_id != arrangement.pump_id]
+    model = others[0] if others else arrangement.pump_id
+    return InstalledPump(pump_id=model, role="assist", motor_efficiency=arrangement.motor_efficiency)
 
 
 def example_pump(project: Project, solution: Solution | None) -> PumpModel:

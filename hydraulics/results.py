@@ -899,6 +899,40 @@ class PumpSetPoint:
                 "pumps": [share.to_json_dict() for share in self.shares]}
 
 
+@dataclass(frozen=True, eq=False)
+class PumpSetCurve:
+    """The combined curve of pumps of different models in parallel, at the manifold (SI).
+
+    ``running`` lists the tags of the pumps; ``flow_m3_s`` is the station flow at each
+    manifold head of ``head_m`` (the sum of the pumps' flows at that head, see
+    :mod:`hydraulics.pump_set_curves`), rising; ``pump_flow_m3_s`` each pump's share,
+    shape (points, pumps), zero where a pump cannot open its check valve.
+    """
+
+    running: tuple[str, ...]
+    flow_m3_s: FloatArray
+    head_m: FloatArray
+    pump_flow_m3_s: FloatArray
+
+    @property
+    def label(self) -> str:
+        """``"P1+P3"``."""
+        return "+".join(self.running)
+
+
+@dataclass(frozen=True, eq=False)
+class PumpSetCurves:
+    """What the head–flow plot draws of the installed pumps (first stage of a solve).
+
+    ``arrangement_stages`` names the pumps running in the arrangement's identical stages
+    (``"P1"``, ``"P1+P2"`` for 1, 2 … duty pumps); ``curves`` the combined curve of every
+    stage of the run sequence that includes other pumps.
+    """
+
+    arrangement_stages: tuple[str, ...]
+    curves: tuple[PumpSetCurve, ...] = ()
+
+
 @dataclass(frozen=True)
 class PumpMotor:
     """The motor check of one installed pump of another model than the arrangement's."""
@@ -986,6 +1020,8 @@ class Solution:
     duty_profile: DutyProfileResult | None = None
     """The energy over the year of the project's duty profile (``None`` without bands or a pump;
     the second stage)."""
+    pump_set_curves: PumpSetCurves | None = None
+    """Tags of the identical stages and combined curves with other pumps (first stage; ``None`` without a pump)."""
 
     def curve(self, static: StaticCase, pipe: PipeState) -> SystemCurve:
         """The system curve for one static extreme and pipe state."""

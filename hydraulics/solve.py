@@ -135,6 +135,7 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     from hydraulics.energy import annual_energy
     from hydraulics.npsh_worst_case import npsh_worst_case
     from hydraulics.operating_points import operating_points
+    from hydraulics.pump_set_curves import pump_set_curves
     from hydraulics.specific_speed import pump_specific_speeds
 
     fitted = _cached_fit(pump, fluid.density_kg_m3)
@@ -151,7 +152,9 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
                                        arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
                                        (project.criteria.preferred_region_low, project.criteria.preferred_region_high))
     pump_curves = _curves_at_manifold(system, plain_curves)
-    curve_max = max(float(np.max(c.flow_m3_s)) for c in pump_curves)
+    set_curves = pump_set_curves(project, system, fitted_by_id)
+    curve_max = max([float(np.max(c.flow_m3_s)) for c in pump_curves]
+                    + ([float(c.flow_m3_s[-1]) for c in set_curves.curves if c.flow_m3_s.size] if set_curves else []))
     flows = flow_grid(max(max_flow, 1.05 * curve_max), n_flow_points)
     solution = replace(
         base, curves=system_curves(system, flows), pump_fits=fits, operating_points=points,
@@ -162,6 +165,7 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
         specific_speeds=tuple(pump_specific_speeds(f) for f in fits),
         npsh_worst_case=npsh_worst_case(system, points, npsh_static, project.site.suction_level_low_m,
                                         project.criteria),
+        pump_set_curves=set_curves,
     )
     return CurvesStage(solution, system, fitted, npsh_static, npsh_by_case, fitted_by_id)
 

@@ -14,7 +14,8 @@ Layer  Name            Modules
 3      table models    ``app.table_models.*``, ``app.delegates``, ``app.clipboard``
 2      document        ``app.document``, ``app.commands``
 1      foundation      ``app`` (the package), ``app.style``, ``app.settings``, ``app.cautions``,
-                       ``app.text_report``, ``app.pump_report``, ``app.results.formatting``,
+                       ``app.text_report``, ``app.pump_report``, ``app.pump_set_report``,
+                       ``app.results.formatting``,
                        ``app.results.scenarios``, ``app.samples``, ``app.platform_check``
 0      engine          ``hydraulics.*`` (outside ``app``)
 =====  ==============  ==========================================================================
@@ -40,7 +41,7 @@ LAYER_NAMES = ("engine", "foundation", "document", "table models", "views", "mai
 LAYERS: dict[str, int] = {
     # exact modules first; a name ending in ".*" covers a package's modules
     "app": 1, "app.style": 1, "app.settings": 1, "app.cautions": 1, "app.text_report": 1,
-    "app.pump_report": 1, "app.results.formatting": 1, "app.results.scenarios": 1,
+    "app.pump_report": 1, "app.pump_set_report": 1, "app.results.formatting": 1, "app.results.scenarios": 1,
     "app.samples": 1, "app.platform_check": 1,
     "app.document": 2, "app.commands": 2,
     "app.table_models": 3, "app.table_models.*": 3, "app.delegates": 3, "app.clipboard": 3,

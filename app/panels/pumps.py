@@ -2,7 +2,10 @@
 
 The chooser picks the pump model the station uses (``arrangement.pump_id``); the data
 and points below are that pump's.  The arrangement says how many identical pumps run in
-parallel (duty), how many stand by, series stages, speed and impeller trim.
+parallel (duty), how many stand by, series stages, speed and impeller trim.  The
+installed-pumps table below lists every pump of the station (P1, P2, …): the arrangement's,
+read-only, then the pumps installed beside them, of any of the project's models, each
+with its role and speed control.
 """
 
 from __future__ import annotations
@@ -27,6 +30,7 @@ from PySide6.QtWidgets import (
 from app.document import ProjectDocument
 from app.panels.form import ChoiceField, FormPanel, NumberField, Section, TextField
 from app.panels.table_view import SpreadsheetView
+from app.table_models.installed_pumps import InstalledPumpsModel
 from app.table_models.pump_points import PumpPointsModel
 from hydraulics import project_edits
 from hydraulics.model import ModelError, Project, PumpModel
@@ -121,6 +125,16 @@ ARRANGEMENT_SECTIONS = (
     ), visible=_has_pump),
 )
 
+INSTALLED_PUMPS_NOTE = (
+    "Every pump of the station, tagged P1, P2, … as in the results. The grey rows are the arrangement's "
+    "identical duty and standby pumps (set above); add pumps of any of the project's models beside them. "
+    "Roles: duty pumps run in normal operation; assist pumps are switched in after them when the flow needs "
+    "them; standby pumps run only in place of a pump out of service. Pumps of different models run in "
+    "parallel at the manifold head. Each pump has its own suction and discharge branch, built like the "
+    "Pipework segments that carry \"Each pump\".")
+
+NO_ARRANGEMENT_TEXT = "No pump arrangement yet: import or add a pump first, then add the pumps installed beside it."
+
 NO_PUMP_TEXT = ("No pump yet. Import a manufacturer's curve (CSV with a header naming each column and its "
                 "unit, e.g. \"flow [L/s], head [m], efficiency [%]\"), or start a new pump from an example "
                 "curve and type its points.")
@@ -191,15 +205,52 @@ class PumpsPanel(QWidget):
 
         self.arrangement_form = FormPanel(document, "arrangement", ARRANGEMENT_SECTIONS)
         layout.addWidget(self.arrangement_form)
+        layout.addWidget(self._build_installed_box(document))
         layout.addStretch(1)
 
         self._shown: tuple[tuple[PumpModel, ...], str | None] | None = None
         document.projectChanged.connect(self.refresh)
         self.refresh()
 
+    def _build_installed_box(self, document: ProjectDocument) -> QGroupBox:
+        self.installed_box = QGroupBox("Installed pumps")
+        box_layout = QVBoxLayout(self.installed_box)
+        note = QLabel(INSTALLED_PUMPS_NOTE)
+        note.setWordWrap(True)
+        note.setStyleSheet("color: #505050;")
+        box_layout.addWidget(note)
+        self.no_arrangement_label = QLabel(NO_ARRANGEMENT_TEXT)
+        self.no_arrangement_label.setWordWrap(True)
+        box_layout.addWidget(self.no_arrangement_label)
+        self.installed_model = InstalledPumpsModel(document, self)
+        self.installed_view = SpreadsheetView()
+        self.installed_view.setObjectName("installed_pumps_table")
+        self.installed_view.setModel(self.installed_model)
+        self.installed_view.setMinimumHeight(130)
+        box_layout.addWidget(self.installed_view)
+        row = QHBoxLayout()
+        self.add_installed_button = QPushButton("Add installed pump")
+        self.add_installed_button.setToolTip("Add a pump beside the arrangement's (an assist pump to start with).")
+        self.add_installed_button.clicked.connect(self.add_installed_pump)
+        self.remove_installed_button = QPushButton("Remove installed pump")
+        self.remove_installed_button.clicked.connect(self.remove_installed_pumps)
+        row.addWidget(self.add_installed_button)
+        row.addWidget(self.remove_installed_button)
+        row.addStretch(1)
+        box_layout.addLayout(row)
+        return self.installed_box
+
+    def _refresh_installed(self, project: Project) -> None:
+        has_arrangement = project.arrangement is not None
+        self.no_arrangement_label.setVisible(not has_arrangement)
+        self.installed_view.setVisible(has_arrangement)
+        self.add_installed_button.setEnabled(has_arrangement)
+        self.remove_installed_button.setEnabled(bool(project.other_pumps))
+
     # ------------------------------------------------------------------ display
     def refresh(self) -> None:
         project = self._document.project
+        self._refresh_installed(project)
         pump = project.duty_pump
         shown = (project.pumps, project.arrangement.pump_id if project.arrangement is not None else None)
         if shown == self._shown:
@@ -219,6 +270,26 @@ class PumpsPanel(QWidget):
     def show_pump(self, pump_id: str) -> None:
         """Bring a pump into view (the chooser shows the station's pump)."""
         self.points_view.setFocus()
+
+    def show_installed_pump(self, row: int) -> None:
+        """Select row ``row`` of the installed-pumps table."""
+        if 0 <= row < self.installed_model.rowCount():
+            self.installed_view.select_row(row)
+        self.installed_view.setFocus()
+
+    def add_installed_pump(self) -> bool:
+        """Add a pump beside the arrangement's after the current row (at the end without one)."""
+        row = self.installed_view.current_row()
+        return self.installed_model.insert_row(row + 1 if row >= 0 else self.installed_model.rowCount())
+
+    def remove_installed_pumps(self) -> bool:
+        """Remove the selected pumps beside the arrangement's (the last one when none is selected)."""
+        rows = {i.row() for i in self.installed_view.selectionModel().selectedIndexes()}
+        if not rows and self.installed_view.current_row() >= 0:
+            rows = {self.installed_view.current_row()}
+        if not rows and self._document.project.other_pumps:
+            rows = {self.installed_model.rowCount() - 1}
+        return self.installed_model.remove_rows(sorted(rows))
 
     # ------------------------------------------------------------------ edits
     def _on_chosen(self, position: int) -> None:

@@ -6,6 +6,13 @@ flow): that curve is drawn as the pump curve, meeting the system curves of the c
 pipework at the operating points, and the plain curve as tested is drawn thin and dashed
 beside it.
 
+Where pumps of other models are installed, the engine gives the combined curve of each
+stage of the run sequence that includes them (``Solution.pump_set_curves``: the pumps'
+flows added at equal manifold head); each is drawn dash-dotted and named by the tags of
+the pumps running ("P1+P3"), and the identical-pump curves are named by their tags too.
+The pump-set points (``Solution.pump_set``, the second stage of a solve) are marked and
+labelled with the tags running when they arrive, without redrawing the rest.
+
 :class:`HeadFlowPlot` only draws what the engine computed (a
 :class:`~hydraulics.results.Solution`); stored data stays SI and is converted to the
 chosen unit system when drawn.  Every curve item is created once and updated with
@@ -36,7 +43,7 @@ from app.plots.plot_base import (
 from app.plots.solution_plot import SolutionPlot
 from app.results import scenarios
 from hydraulics.number_format import readout_number
-from hydraulics.results import FloatArray, OperatingPoint, PumpCurve, Solution, SystemCurve
+from hydraulics.results import FloatArray, OperatingPoint, PumpCurve, PumpSetCurve, PumpSetPoint, Solution, SystemCurve
 from hydraulics.units import to_display, unit_label
 
 SYSTEM_CASES: tuple[tuple[str, str], ...] = (("max", "aged"), ("max", "new"), ("min", "aged"), ("min", "new"))
@@ -86,9 +93,16 @@ class _PumpCurveItems:
         for item in (self.region, self.curve, self.tested, self.end_label):
             item.setVisible(visible)
 
-    def set_names(self, at_manifold: bool) -> None:
-        """Legend names: the plain pump curve, or the curve at the manifold beside the tested one."""
+    def set_names(self, at_manifold: bool, tags: str | None = None) -> None:
+        """Legend names: the plain pump curve, or the curve at the manifold beside the tested one.
+
+        ``tags`` (``"P1+P2"``) is added where pumps of other models are drawn as well.
+        """
         phrase = scenarios.pumps_phrase(self.pumps_running)
+        if tags:
+            phrase = f"{phrase} ({tags})"
+        if self.end_label.toPlainText() != phrase:
+            self.end_label.setText(phrase)
         if at_manifold:
             self.curve.opts["name"] = f"{MANIFOLD_CURVE_NAME}: {phrase}"
             self.tested.opts["name"] = f"{TESTED_CURVE_NAME}: {phrase}"
@@ -122,6 +136,8 @@ class HeadFlowPlot(SolutionPlot):
             self._system_items[(static, pipe)] = item
 
         self._pump_items: dict[int, _PumpCurveItems] = {}
+        self._set_items: list[tuple[pg.PlotDataItem, pg.TextItem]] = []
+        """Pool of combined curves of pumps of different models, with their end labels."""
 
         self.points_item = make_points_item()
         self.plot_item.addItem(self.points_item)
@@ -160,12 +176,15 @@ class HeadFlowPlot(SolutionPlot):
         """Draw ``solution`` (``None`` clears the plot) in ``unit_system``."""
         if completes_drawn(self._solution, self._unit_system, solution, unit_system):
             self._solution = solution  # the finished solve of what is drawn: nothing to redraw
+            if solution is not None and solution.pump_set is not None and solution.pump_set.points:
+                self._update_points()  # but the pump-set points, solved in the second stage
             return
         self._solution = solution
         self._unit_system = unit_system
         self._apply_axis_titles()
         self._update_system_curves()
         self._update_pump_curves()
+        self._update_pump_set_curves()
         self._update_points()
         self._update_design_flow()
         self._update_snapshot()
@@ -180,6 +199,8 @@ class HeadFlowPlot(SolutionPlot):
             snapshot.append((curve[0].copy(), curve[1].copy()))
         for pump_curve in self._pump_curves():
             snapshot.append((pump_curve.flow_m3_s.copy(), _acting_head(pump_curve).copy()))
+        for set_curve in self._pump_set_curves():
+            snapshot.append((set_curve.flow_m3_s.copy(), set_curve.head_m.copy()))
         self._snapshot_si = snapshot
         self._update_snapshot()
         self._sync_legend()
@@ -210,6 +231,14 @@ class HeadFlowPlot(SolutionPlot):
             return empty_array(), empty_array()
         x, y = items.tested.getData()
         return _copy_or_empty(x), _copy_or_empty(y)
+
+    def pump_set_curve_data(self, label: str) -> tuple[np.ndarray, np.ndarray]:
+        """The (flow, head) arrays drawn for the combined curve of the pumps ``label`` (``"P1+P3"``)."""
+        for curve, (item, _end) in zip(self._pump_set_curves(), self._set_items, strict=False):
+            if curve.label == label and item.isVisible():
+                x, y = item.getData()
+                return _copy_or_empty(x), _copy_or_empty(y)
+        return empty_array(), empty_array()
 
     def preferred_region_data(self, pumps_running: int) -> tuple[np.ndarray, np.ndarray]:
         """The (flow, head) arrays of the preferred-region stroke for ``pumps_running`` pumps."""
@@ -244,6 +273,17 @@ class HeadFlowPlot(SolutionPlot):
 
     def _pump_curves(self) -> list[PumpCurve]:
         return [] if self._solution is None else scenarios.pump_curves_at_current_speed(self._solution)
+
+    def _pump_set_curves(self) -> tuple[PumpSetCurve, ...]:
+        sets = None if self._solution is None else self._solution.pump_set_curves
+        return () if sets is None else tuple(c for c in sets.curves if c.flow_m3_s.size)
+
+    def _stage_tags(self, pumps_running: int) -> str | None:
+        """The tags of ``pumps_running`` identical pumps, where pumps of other models are drawn too."""
+        sets = None if self._solution is None else self._solution.pump_set_curves
+        if sets is None or not sets.curves or not 0 < pumps_running <= len(sets.arrangement_stages):
+            return None
+        return sets.arrangement_stages[pumps_running - 1]
 
     def _apply_axis_titles(self) -> None:
         set_axis_title(self.plot_item, "bottom", f"Flow ({unit_label('flow', self._unit_system)})")
@@ -306,7 +346,7 @@ class HeadFlowPlot(SolutionPlot):
             if set_curve_data(items.curve, x, y):
                 items.end_label.setPos(float(x[-1]), float(y[-1]))
             at_manifold = pump_curve.head_at_manifold_m is not None
-            items.set_names(at_manifold)
+            items.set_names(at_manifold, self._stage_tags(pumps))
             noted = noted or at_manifold
             if at_manifold:
                 set_curve_data(items.tested, x, self._head(pump_curve.head_m))
@@ -334,6 +374,39 @@ class HeadFlowPlot(SolutionPlot):
                 items.set_visible(False)
         self._set_region_legend_name(region_name_holder)
         self.hover.set_idle_text(MANIFOLD_READOUT if noted else IDLE_READOUT)
+
+    def _update_pump_set_curves(self) -> None:
+        """The combined curve of each stage with pumps of other models, dash-dotted, named by its tags."""
+        curves = self._pump_set_curves()
+        at_manifold = any(c.head_at_manifold_m is not None for c in self._pump_curves())
+        while len(self._set_items) < len(curves):
+            item = pg.PlotDataItem(empty_array(), empty_array())
+            item.setZValue(11)
+            end = pg.TextItem("", anchor=(1.0, 1.1))
+            end.setFont(style.annotation_font())
+            end.setZValue(30)
+            self.plot_item.addItem(item)
+            self.plot_item.addItem(end, ignoreBounds=True)
+            self._set_items.append((item, end))
+        for index, (item, end) in enumerate(self._set_items):
+            if index >= len(curves):
+                set_curve_data(item, empty_array(), empty_array())
+                set_visible(item, False)
+                set_visible(end, False)
+                continue
+            curve = curves[index]
+            running = len(curve.running)
+            item.setPen(style.pump_set_pen(running))
+            kind = MANIFOLD_CURVE_NAME if at_manifold else "Pump curve"
+            item.opts["name"] = f"{kind}: {curve.label} (different models)"
+            x, y = self._flow(curve.flow_m3_s), self._head(curve.head_m)
+            set_curve_data(item, x, y)
+            if end.toPlainText() != curve.label:
+                end.setText(curve.label)
+                end.setColor(style.pump_colour(running))
+            end.setPos(float(x[-1]), float(y[-1]))
+            set_visible(item, True)
+            set_visible(end, True)
 
     @staticmethod
     def _region_stroke(flow: np.ndarray, head: np.ndarray,
@@ -368,9 +441,25 @@ class HeadFlowPlot(SolutionPlot):
             spots.append({"pos": (x, y), "symbol": look.symbol, "brush": look.brush, "pen": look.pen,
                           "size": look.size, "data": label})
             self._marked.append((x, y, label))
+        for set_point in self._pump_set_points():
+            x = to_display(float(set_point.flow_m3_s or 0.0), "flow", self._unit_system)
+            y = to_display(float(set_point.manifold_head_m or 0.0), "head", self._unit_system)
+            look = style.operating_point_style(set_point.static, set_point.pipe, len(set_point.running))
+            label = scenarios.pump_set_label(set_point)
+            spots.append({"pos": (x, y), "symbol": look.symbol, "brush": look.brush, "pen": look.pen,
+                          "size": look.size, "data": label})
+            self._marked.append((x, y, label))
         self.points_item.setData(spots)
         update_label_pool(self.plot_item, self._point_labels, self._marked, fill_alpha=150)
         self._place_point_labels()
+
+    def _pump_set_points(self) -> list[PumpSetPoint]:
+        """The points of the run sequence's sets with other pumps, every pump at its highest speed."""
+        pump_set = None if self._solution is None else self._solution.pump_set
+        if pump_set is None:
+            return []
+        return [p for p in pump_set.points if p.found and p.basis == "run sequence" and p.speed == "highest speed"
+                and p.flow_m3_s is not None and p.manifold_head_m is not None]
 
     def _place_point_labels(self, *_args: object) -> None:
         """Place the pump-curve end labels, then the point labels, clear of each other and the markers."""
@@ -380,6 +469,10 @@ class HeadFlowPlot(SolutionPlot):
             if items.end_label.isVisible():
                 position = items.end_label.pos()
                 labels.append((items.end_label, position.x(), position.y()))
+        for _item, end in self._set_items:
+            if end.isVisible():
+                position = end.pos()
+                labels.append((end, position.x(), position.y()))
         labels += [(self._point_labels[i], x, y) for i, (x, y, _) in enumerate(self._marked)]
         if labels:
             place_labels(self.view_box, labels, obstacles=[(x, y) for x, y, _ in self._marked])
@@ -439,6 +532,12 @@ class HeadFlowPlot(SolutionPlot):
                     if x is not None and len(x):
                         xs.append(float(np.nanmax(x)))
                         pump_top.append(float(np.nanmax(y)))
+        for item, _end in self._set_items:
+            if item.isVisible():
+                x, y = item.getData()
+                if x is not None and len(x):
+                    xs.append(float(np.nanmax(x)))
+                    pump_top.append(float(np.nanmax(y)))
         point_heads = [y for _, y, _ in self._marked]
         if pump_top:
             static = [] if self._solution is None else [
@@ -454,6 +553,7 @@ class HeadFlowPlot(SolutionPlot):
         ordered: list[pg.GraphicsObject] = [self._system_items[case] for case in SYSTEM_CASES]
         for pumps in sorted(self._pump_items):
             ordered.append(self._pump_items[pumps].curve)
+        ordered.extend(item for item, _end in self._set_items)
         for pumps in sorted(self._pump_items):
             ordered.append(self._pump_items[pumps].tested)
         ordered.extend(items.region for items in self._pump_items.values())

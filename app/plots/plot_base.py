@@ -243,7 +243,8 @@ def completes_drawn(drawn: Solution | None, drawn_units: str | None, solution: S
             and solution.operating_points is drawn.operating_points
             and solution.pump_curves is drawn.pump_curves
             and solution.pump_fits is drawn.pump_fits
-            and solution.npsh_available_curve is drawn.npsh_available_curve)
+            and solution.npsh_available_curve is drawn.npsh_available_curve
+            and solution.pump_set_curves is drawn.pump_set_curves)
 
 
 def empty_array() -> np.ndarray:

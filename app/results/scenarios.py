@@ -8,10 +8,10 @@ first, then by pumps running) and names them.
 
 from __future__ import annotations
 
-from collections.abc import Iterable, Sequence
+from collections.abc import Iterable, Iterator, Sequence
 from typing import TypeVar
 
-from hydraulics.results import OperatingPoint, PumpCurve, Solution
+from hydraulics.results import OperatingPoint, PumpCurve, PumpSetPoint, PumpShare, Solution
 
 STATIC_ORDER: dict[str, int] = {"max": 0, "min": 1}
 PIPE_ORDER: dict[str, int] = {"aged": 0, "new": 1}
@@ -88,6 +88,48 @@ def pumps_phrase(pumps_running: int) -> str:
 def scenario_phrase(point: OperatingPoint) -> str:
     """``"max static · aged pipe"``."""
     return f"{point.static} static · {point.pipe} pipe"
+
+
+def pump_set_phrase(point: PumpSetPoint) -> str:
+    """``"max static · aged pipe"``, with ``· lowest speed`` and why the set was solved when a pump is out."""
+    text = f"{point.static} static · {point.pipe} pipe"
+    if point.speed == "lowest speed":
+        text += " · lowest speed"
+    if point.basis != "run sequence":
+        text += f" · {point.basis.split(',')[0]}"  # "P1 out of service"; the standby is in "Pumps running"
+    return text
+
+
+def pump_share_phrase(share: PumpShare) -> str:
+    """``"    P3 'JP40 jockey', assist"`` (indented under its set), ``— held shut`` at shut-off."""
+    text = f"      {share.tag}  {share.pump_name}, {share.role}"
+    return text + " — held shut by its check valve" if share.shut_off else text
+
+
+def pump_set_label(point: PumpSetPoint) -> str:
+    """Short label of a pump-set point on the plot: ``"P1+P3 · max static · aged"``."""
+    return f"{point.label} · {point.static} static · {point.pipe}"
+
+
+def rows_with_pump_sets(points: Sequence[OperatingPoint], pump_sets: Sequence[PumpSetPoint],
+                        ) -> Iterator[OperatingPoint | PumpSetPoint | PumpShare]:
+    """The rows of the operating-points table: each scenario's ordinary points, then its pump sets.
+
+    A pump set (stages of the run sequence first, by pumps running, highest speed first, then
+    the sets with a pump out of service) is followed by its running pumps.
+    """
+    keyed: list[tuple[tuple[int, int, int, int, float], int, OperatingPoint | PumpSetPoint]] = []
+    for i, point in enumerate(points):
+        keyed.append(((STATIC_ORDER.get(point.static, 9), PIPE_ORDER.get(point.pipe, 9), 0, point.pumps_running,
+                       -point.speed_ratio), i, point))
+    for i, item in enumerate(pump_sets):
+        keyed.append(((STATIC_ORDER.get(item.static, 9), PIPE_ORDER.get(item.pipe, 9),
+                       1 if item.basis == "run sequence" else 2, len(item.running),
+                       0.0 if item.speed != "lowest speed" else 1.0), len(points) + i, item))
+    for _key, _i, row in sorted(keyed, key=lambda k: (k[0], k[1])):
+        yield row
+        if isinstance(row, PumpSetPoint):
+            yield from row.shares
 
 
 def point_label(point: OperatingPoint, with_speed: bool = False) -> str:
