@@ -24,7 +24,7 @@ def _aligned(headers: list[str], rows: list[list[str]], left: int = 1) -> list[s
 
 
 def _list_section(pump_set: PumpSetResult) -> list[str]:
-    rows = [[p.tag, p.pump_name, p.role, p.control + ("" if p.from_arrangement else ", own settings")]
+    rows = [[p.tag, p.pump_name, p.role, p.control + (", the arrangement's" if p.from_arrangement else "")]
             for p in pump_set.pumps]
     out = ["", "Installed pumps (each with its own branch; the arrangement's identical pumps first):"]
     out += ["  " + line for line in _aligned(["pump", "model", "role", "control"], rows, left=4)]

@@ -83,7 +83,9 @@ def largest_out_set(project: Project, system: SystemHydraulics, fitted_by_id: Ma
     out = full[int(np.argmax(flows))] if worst.found[0] else max(
         full, key=lambda p: fitted_by_id[p.pump_id].bep_flow_m3_s or fitted_by_id[p.pump_id].flow_max_m3_s)
     standby = [p for p in installed_pumps(project) if p.role == "standby"]
-    instead = tuple(p for p in full if p.tag != out.tag) + tuple(standby[:1])
+    order = {p.tag: i for i, p in enumerate(installed_pumps(project))}
+    kept = [p for p in full if p.tag != out.tag] + standby[:1]
+    instead = tuple(sorted(kept, key=lambda p: order[p.tag]))  # in the installed order: P1, P2, …
     return full, out, instead
 
 
