@@ -51,6 +51,11 @@ _COLUMNS: tuple[Column, ...] = (
     Column("motor_efficiency", "Motor efficiency", quantity="ratio_percent", limit="arrangement.efficiency"),
     Column("drive_efficiency", "Drive efficiency", quantity="ratio_percent", limit="arrangement.efficiency",
            tooltip="Efficiency of the variable-speed drive; 100 % for a motor direct on line."),
+    Column("motor_rating_w", "Motor rating", quantity="power", limit="arrangement.motor_rating_w", optional=True,
+           tooltip="The motor's rated output power; blank when not chosen yet (the check then gives the "
+                   "non-overloading size only)."),
+    Column("service_factor", "Service factor", quantity="dimensionless", limit="arrangement.service_factor",
+           tooltip="NEMA MG 1 motors 1.0 or 1.15, IEC motors 1.0 (common practice)."),
 )
 
 Row = SetPump | InstalledPump
@@ -105,7 +110,8 @@ class InstalledPumpsModel(ProjectTableModel):
         return f"pump {self._tag(project, row)}"
 
     def field_path(self, row: int, column: Column) -> str:
-        return f"other_pumps[{row - self.arrangement_row_count()}].{column.key}"
+        key = "motor_rating" if column.key == "motor_rating_w" else column.key  # the file's name of the field
+        return f"other_pumps[{row - self.arrangement_row_count()}].{key}"
 
     def focus_target(self, row: int) -> tuple[str, object] | None:
         return ("installed_pump", row)

@@ -158,3 +158,21 @@ def test_the_plot_draws_each_set_and_labels_its_points_by_the_pumps_running(make
                  and (p.static, p.pipe, p.speed, p.basis) == ("max", "aged", "highest speed", "run sequence"))
     marked = next((fx, fy) for fx, fy, label in plot.marked_points() if label == "P1+P3 · max static · aged")
     assert marked == pytest.approx((point.flow_m3_s * 1000.0, point.manifold_head_m))
+
+
+def test_a_motor_rating_typed_for_a_pump_beside_the_arrangement_is_checked_in_the_findings(make_window, tmp_path):
+    window = make_window(write(with_assist(hilltop(), jp40()), tmp_path / "assisted.pumpsketch.json"))
+    document, model = window.document, window.pumps_panel.installed_model
+    document.recompute_now()
+    motor = document.solution.pump_set.motors[0].motor
+    assert motor.rating_w is None and motor.max_shaft_power_at_points_w is not None
+    typed = f"{0.5 * motor.max_shaft_power_at_points_w / 1000.0:.2f}"  # half the shaft power at its points, kW
+    assert model.setData(_cell(model, 2, "motor_rating_w"), f"{typed} kW", EDIT)
+    assert document.project.other_pumps[0].motor_rating_w == pytest.approx(float(typed) * 1000.0, rel=1e-12)
+    document.recompute_now()
+    overload = [f for f in document.solution.findings if f.code == "motor_overload"]
+    assert overload and overload[0].where.startswith("pump P3")
+    assert not model.setData(_cell(model, 2, "service_factor"), "2", EDIT)
+    assert "Service factor: must be between 1 and 1.5" in window.message_bar.text()
+    document.undo_stack.undo()
+    assert document.project.other_pumps[0].motor_rating_w is None
