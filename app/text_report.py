@@ -16,7 +16,7 @@ from hydraulics.number_format import (
     grouped_whole_number,
     percent_number,
 )
-from hydraulics.results import FluidProperties, Solution
+from hydraulics.results import FluidProperties, MotorResult, Solution
 from hydraulics.units import to_display, unit_label
 
 
@@ -139,20 +139,31 @@ def _capacity_section(solution: Solution, system: str) -> list[str]:
 
 
 def _motor_section(solution: Solution, system: str) -> list[str]:
-    """The motor against the shaft power per pump (points, allowable region, run-out)."""
-    m = solution.motor
-    if m is None:
+    """The motor against the shaft power per pump (points, allowable region, run-out), the arrangement's
+    and each pump's beside it."""
+    if solution.motor is None:
         return []
+    m, a = solution.motor, solution.project.arrangement
+    control = (f"variable speed {percent_number(a.min_speed_ratio)}–{percent_number(m.max_speed_ratio)} %"
+               if m.variable_speed and a is not None else f"fixed speed {percent_number(m.speed_ratio)} %")
+    out = _one_motor("Motor", m, control, system)
+    if solution.pump_set is None:
+        return out
+    controls = {row.tag: row.control for row in solution.pump_set.pumps}
+    for each in solution.pump_set.motors:
+        text = controls.get(each.tag, "")
+        out += _one_motor(f"Motor of {each.tag} ({each.pump_name})", each.motor, text, system)
+    return out
+
+
+def _one_motor(title: str, m: MotorResult, control: str, system: str) -> list[str]:
     pl = unit_label("power", system)
 
     def p(value: float | None) -> str:
         return "not known" if value is None else f"{fixed_decimals(to_display(value, 'power', system), 1)} {pl}"
 
-    control = (f"variable speed {percent_number(solution.project.arrangement.min_speed_ratio)}–"
-               f"{percent_number(m.max_speed_ratio)} %" if m.variable_speed and solution.project.arrangement
-               else f"fixed speed {percent_number(m.speed_ratio)} %")
     rating = "not given" if m.rating_w is None else f"{p(m.rating_w)} × service factor {m.service_factor:g}"
-    return ["", f"Motor ({control}; motor efficiency {percent_number(m.motor_efficiency)} %, "
+    return ["", f"{title} ({control}; motor efficiency {percent_number(m.motor_efficiency)} %, "
                 f"drive efficiency {percent_number(m.drive_efficiency)} %):",
             f"  rating: {rating}",
             f"  shaft power per pump: operating points up to {p(m.max_shaft_power_at_points_w)}; "

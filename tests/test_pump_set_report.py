@@ -92,3 +92,12 @@ def test_matched_pumps_raise_no_weak_pump_finding(tmp_path):
     assert result.returncode == 0, result.stderr
     assert "P1+P3" in result.stdout
     assert not any(code in result.stdout for code in WEAK_PUMP_CODES)
+
+
+def test_the_report_gives_the_motor_of_a_pump_beside_the_arrangement(assisted):
+    text = summary_text(assisted)
+    motor = assisted.pump_set.motors[0].motor
+    assert "Motor of P3 (JP40 jockey (invented)) (fixed speed 100 %" in text
+    section = text[text.index("Motor of P3"):]
+    # the shaft power it needs at its points, in kW as the report shows it (1 kW = 1000 W)
+    assert f"operating points up to {fixed_decimals(motor.max_shaft_power_at_points_w / 1000.0, 1)} kW" in section
