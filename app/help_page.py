@@ -220,6 +220,18 @@ def _methods(criteria: Criteria) -> tuple[MethodEntry, ...]:
             "station's energy is the year of duty below.",
             "Pump power output and efficiency as defined in ISO 9906:2012, clause 3."),
         MethodEntry(
+            "Pumps of different models in parallel", "Pumps",
+            "h<sub>i</sub>(q) = c<sub>i</sub>² H<sub>i</sub>(q / c<sub>i</sub>) − L<sub>branch</sub>(q); "
+            "q<sub>i</sub>(H) from h<sub>i</sub>(q<sub>i</sub>) = H, or 0 when H ≥ h<sub>i</sub>'s highest head; "
+            "Q = Σ q<sub>i</sub>(H) with H = H<sub>static</sub> + L<sub>common</sub>(Q)",
+            "Pumps in parallel share the head at the manifold; each delivers the flow at which its own curve, "
+            "less the loss of its own branch, gives that head. A pump whose head cannot open its check valve "
+            "runs at shut-off (critical); one pushed below its allowable region is a warning. Variable-speed "
+            "pumps running together share one speed ratio; the run sequence is the duty pumps (the "
+            "arrangement's first), then the assist pumps; a standby runs only in place of the largest pump.",
+            "Head balance of parallel pumps, e.g. Karassik et al., <i>Pump Handbook</i>, 4th ed.; Gülich, "
+            "<i>Centrifugal Pumps</i>, 3rd ed., ch. 11; equal speed of parallel drives: common practice."),
+        MethodEntry(
             "Energy over a year of duty", "Energy",
             "Band time t = hours, or share × 8760 h; with an annual volume V the band flows are scaled by "
             "k = V / Σ Q<sub>b</sub> t<sub>b</sub>; staging: t<sub>run</sub> = Q<sub>b</sub> t<sub>b</sub> / "
