@@ -161,13 +161,7 @@ class DutyPanel(QWidget):
             self.bands_view.setFocus()
 
     def _add_band(self) -> None:
-        row = self.bands_view.current_row()
-        target = row + 1 if row >= 0 else self.bands_model.rowCount()
-        if self.bands_model.insert_row(target):
-            self.bands_view.select_row(min(target, self.bands_model.rowCount() - 1))
+        self.bands_view.add_row_below_current()
 
     def _remove_bands(self) -> None:
-        rows = sorted({i.row() for i in self.bands_view.selectionModel().selectedIndexes()})
-        if not rows and self.bands_view.current_row() >= 0:
-            rows = [self.bands_view.current_row()]
-        self.bands_model.remove_rows(rows)
+        self.bands_view.remove_selected_rows()

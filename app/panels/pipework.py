@@ -321,16 +321,10 @@ class PipeworkPanel(QWidget):
         if self.fittings_model.segment_index is None:
             self._document.refuse("Select a segment to add a fitting to it")
             return
-        row = self.fittings_view.current_row()
-        target = row + 1 if row >= 0 else self.fittings_model.rowCount()
-        if self.fittings_model.insert_row(target):
-            self.fittings_view.select_row(target)
+        self.fittings_view.add_row_below_current()
 
     def _remove_fittings(self) -> None:
-        rows = sorted({i.row() for i in self.fittings_view.selectionModel().selectedIndexes()})
-        if not rows and self.fittings_view.current_row() >= 0:
-            rows = [self.fittings_view.current_row()]
-        self.fittings_model.remove_rows(rows)
+        self.fittings_view.remove_selected_rows()
 
     # ------------------------------------------------------------------ profile points
     def _refresh_profile_title(self, *_args: object) -> None:
@@ -357,13 +351,7 @@ class PipeworkPanel(QWidget):
             self.profile_view.select_row(min(row, self.profile_model.rowCount() - 1))
 
     def _add_profile_point(self) -> None:
-        row = self.profile_view.current_row()
-        target = row + 1 if row >= 0 else self.profile_model.rowCount()
-        if self.profile_model.insert_row(target):
-            self.profile_view.select_row(min(target, self.profile_model.rowCount() - 1))
+        self.profile_view.add_row_below_current()
 
     def _remove_profile_points(self) -> None:
-        rows = sorted({i.row() for i in self.profile_view.selectionModel().selectedIndexes()})
-        if not rows and self.profile_view.current_row() >= 0:
-            rows = [self.profile_view.current_row()]
-        self.profile_model.remove_rows(rows)
+        self.profile_view.remove_selected_rows()

@@ -279,17 +279,14 @@ class PumpsPanel(QWidget):
 
     def add_installed_pump(self) -> bool:
         """Add a pump beside the arrangement's after the current row (at the end without one)."""
-        row = self.installed_view.current_row()
-        return self.installed_model.insert_row(row + 1 if row >= 0 else self.installed_model.rowCount())
+        return self.installed_view.add_row_below_current(select=False)
 
     def remove_installed_pumps(self) -> bool:
         """Remove the selected pumps beside the arrangement's (the last one when none is selected)."""
-        rows = {i.row() for i in self.installed_view.selectionModel().selectedIndexes()}
-        if not rows and self.installed_view.current_row() >= 0:
-            rows = {self.installed_view.current_row()}
+        rows = self.installed_view.selected_rows()
         if not rows and self._document.project.other_pumps:
-            rows = {self.installed_model.rowCount() - 1}
-        return self.installed_model.remove_rows(sorted(rows))
+            rows = [self.installed_model.rowCount() - 1]
+        return self.installed_model.remove_rows(rows)
 
     # ------------------------------------------------------------------ edits
     def _on_chosen(self, position: int) -> None:
@@ -355,11 +352,7 @@ class PumpsPanel(QWidget):
         return applied
 
     def _add_point(self) -> None:
-        row = self.points_view.current_row()
-        self.points_model.insert_row(row + 1 if row >= 0 else self.points_model.rowCount())
+        self.points_view.add_row_below_current(select=False)
 
     def _remove_points(self) -> None:
-        rows = {i.row() for i in self.points_view.selectionModel().selectedIndexes()}
-        if not rows and self.points_view.current_row() >= 0:
-            rows = {self.points_view.current_row()}
-        self.points_model.remove_rows(sorted(rows))
+        self.points_view.remove_selected_rows()

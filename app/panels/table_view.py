@@ -151,6 +151,32 @@ class SpreadsheetView(QTableView):
                 return
         super().keyPressEvent(event)
 
+    # ------------------------------------------------------------------ row buttons
+    def add_row_below_current(self, select: bool = True) -> bool:
+        """Insert a row after the current one (at the end without one); select it when asked."""
+        model = self.table_model()
+        if model is None:
+            return False
+        row = self.current_row()
+        target = row + 1 if row >= 0 else model.rowCount()
+        if not model.insert_row(target):
+            return False
+        if select:
+            self.select_row(min(target, model.rowCount() - 1))
+        return True
+
+    def selected_rows(self) -> list[int]:
+        """The rows with a selected cell, else the current row (sorted; empty without either)."""
+        rows = {i.row() for i in self.selectionModel().selectedIndexes()}
+        if not rows and self.current_row() >= 0:
+            rows = {self.current_row()}
+        return sorted(rows)
+
+    def remove_selected_rows(self) -> bool:
+        """Remove :meth:`selected_rows` through the model (which refuses what it must)."""
+        model = self.table_model()
+        return model is not None and model.remove_rows(self.selected_rows())
+
     # ------------------------------------------------------------------ context menu
     def row_actions(self) -> list[QAction | None]:
         """The context-menu actions for the current row (``None`` is a separator)."""
