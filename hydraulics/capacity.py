@@ -139,14 +139,13 @@ def capacity_findings(capacity: CapacityResult, where: str, target: FindingTarge
     case = (f"at the maximum speed ratio {percent_number(capacity.speed_ratio)} %, maximum static head and aged "
             "pipe")
     out: list[Finding] = []
+    all_values = _values(capacity.flow_all_duty_m3_s, capacity.design_flow_m3_s, capacity.shortfall_all_duty_m3_s)
+    out_values = _values(capacity.flow_one_out_m3_s, capacity.design_flow_m3_s, capacity.shortfall_one_out_m3_s)
     if not capacity.meets_design:
         out.append(finding(
             "critical", "design_flow_not_met",
             f"With {capacity.running_all or _pumps(capacity.duty_count)} running {case} the station delivers "
-            f"{{q}}, short of the design flow {{design}} by {{short}} "
-            f"({percent_number(capacity.shortfall_all_duty_fraction, 1)} %).",
-            {"q": (capacity.flow_all_duty_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),
-             "short": (capacity.shortfall_all_duty_m3_s, "flow")},
+            + _short_text(capacity.shortfall_all_duty_fraction), all_values,
             where, "Choose a larger pump, more duty pumps, a higher maximum speed or a larger main.", target))
     if capacity.running_one_out:  # pumps of different models: the standby may not match the pump out
         restored = capacity.flow_one_out_m3_s >= capacity.flow_all_duty_m3_s * (1.0 - SHORTFALL_TOLERANCE)
@@ -155,29 +154,32 @@ def capacity_findings(capacity: CapacityResult, where: str, target: FindingTarge
             out.append(finding(
                 "warning", "standby_short" if capacity.standby_count else "no_standby",
                 f"With {capacity.pump_out} out of service and {spare} ({capacity.running_one_out} running {case}) "
-                f"the station delivers {{q}}, short of the design flow {{design}} by {{short}} "
-                f"({percent_number(capacity.shortfall_one_out_fraction, 1)} %).",
-                {"q": (capacity.flow_one_out_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),
-                 "short": (capacity.shortfall_one_out_m3_s, "flow")},
+                "the station delivers " + _short_text(capacity.shortfall_one_out_fraction), out_values,
                 where, "Install a standby pump able to replace the largest pump.", target))
         return out
     if capacity.standby_count >= 1:  # identical pumps: the standby restores the full duty set
         return out
-    values = {"q": (capacity.flow_one_out_m3_s, "flow"), "design": (capacity.design_flow_m3_s, "flow"),
-              "short": (capacity.shortfall_one_out_m3_s, "flow")}
     if capacity.meets_design_one_out:
         out.append(finding(
             "info", "no_standby",
             f"No standby pump is installed; with one pump out of service and {_pumps(capacity.pumps_one_out)} "
             f"running {case} the station still delivers {{q}}, at least the design flow {{design}}.",
-            values, where, "Keep a spare pump or rotating assembly in store.", target))
+            out_values, where, "Keep a spare pump or rotating assembly in store.", target))
         return out
-    share = percent_number(capacity.shortfall_one_out_fraction, 1)
     running = ("no pump is left to run" if capacity.pumps_one_out == 0
                else f"{_pumps(capacity.pumps_one_out)} running {case}")
     out.append(finding(
         "warning", "no_standby",
-        f"No standby pump is installed; with one pump out of service and {running} the station delivers {{q}}, "
-        f"short of the design flow {{design}} by {{short}} ({share} %).",
-        values, where, "Install a standby pump able to replace the largest duty pump.", target))
+        f"No standby pump is installed; with one pump out of service and {running} the station delivers "
+        + _short_text(capacity.shortfall_one_out_fraction), out_values,
+        where, "Install a standby pump able to replace the largest duty pump.", target))
     return out
+
+
+def _values(flow_m3_s: float, design_m3_s: float, short_m3_s: float) -> dict[str, tuple[float, str]]:
+    return {"q": (flow_m3_s, "flow"), "design": (design_m3_s, "flow"), "short": (short_m3_s, "flow")}
+
+
+def _short_text(fraction: float) -> str:
+    """The end of a shortfall message: the flow, the design flow and the shortfall as a share."""
+    return f"{{q}}, short of the design flow {{design}} by {{short}} ({percent_number(fraction, 1)} %)."
