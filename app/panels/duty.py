@@ -11,11 +11,11 @@ nothing.
 from __future__ import annotations
 
 from PySide6.QtGui import QShowEvent
-from PySide6.QtWidgets import QGroupBox, QHBoxLayout, QLabel, QPushButton, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QGroupBox, QLabel, QVBoxLayout, QWidget
 
 from app.document import ProjectDocument
 from app.panels.form import ChoiceField, FormPanel, NumberField, Section
-from app.panels.table_view import SpreadsheetView
+from app.panels.table_view import SpreadsheetView, button_row
 from app.table_models.cells import display_text, unit_suffix
 from app.table_models.duty_bands import JOULES_PER_KWH, DutyBandsModel
 from hydraulics.model import Project
@@ -107,16 +107,9 @@ class DutyPanel(QWidget):
         self.bands_view.setModel(self.bands_model)
         self.bands_view.setMinimumHeight(180)
         bands_layout.addWidget(self.bands_view, 1)
-        buttons = QHBoxLayout()
-        for text, slot, tip in (
-                ("Add band", self._add_band, "Insert a band below the selected one (it takes the rest of the year)."),
-                ("Remove band", self._remove_bands, "Remove the selected bands.")):
-            button = QPushButton(text)
-            button.setToolTip(tip)
-            button.clicked.connect(slot)
-            buttons.addWidget(button)
-        buttons.addStretch(1)
-        bands_layout.addLayout(buttons)
+        bands_layout.addLayout(button_row(
+            ("Add band", self._add_band, "Insert a band below the selected one (it takes the rest of the year)."),
+            ("Remove band", self._remove_bands, "Remove the selected bands.")))
         self.totals = QLabel()
         self.totals.setObjectName("duty_totals")
         self.totals.setWordWrap(True)

@@ -25,7 +25,7 @@ from PySide6.QtWidgets import (
 )
 
 from app.document import ProjectDocument
-from app.panels.table_view import SpreadsheetView
+from app.panels.table_view import SpreadsheetView, button_row
 from app.table_models.cells import display_text, unit_suffix
 from app.table_models.fittings import FittingsModel, previous_bore_m
 from app.table_models.profile import ProfileModel
@@ -102,18 +102,11 @@ class PipeworkPanel(QWidget):
         self.segments_view.setObjectName("segments_table")
         self.segments_view.setModel(self.segments_model)
         top_layout.addWidget(self.segments_view, 1)
-        row_buttons = QHBoxLayout()
-        for text, slot, tip in (
-                ("Add segment", self._add_segment, "Insert a segment below the selected one."),
-                ("Remove", self._remove_segments, "Remove the selected segments."),
-                ("Move up", lambda: self._move_segment(-1), "Move the selected segment up the route."),
-                ("Move down", lambda: self._move_segment(1), "Move the selected segment down the route.")):
-            button = QPushButton(text)
-            button.setToolTip(tip)
-            button.clicked.connect(slot)
-            row_buttons.addWidget(button)
-        row_buttons.addStretch(1)
-        top_layout.addLayout(row_buttons)
+        top_layout.addLayout(button_row(
+            ("Add segment", self._add_segment, "Insert a segment below the selected one."),
+            ("Remove", self._remove_segments, "Remove the selected segments."),
+            ("Move up", lambda: self._move_segment(-1), "Move the selected segment up the route."),
+            ("Move down", lambda: self._move_segment(1), "Move the selected segment down the route.")))
         size_row = QHBoxLayout()
         size_row.addWidget(QLabel("Pipe size of selected segment:"))
         self.size_stepper = SizeStepper()
@@ -161,17 +154,10 @@ class PipeworkPanel(QWidget):
         self.profile_view.setObjectName("profile_table")
         self.profile_view.setModel(self.profile_model)
         profile_layout.addWidget(self.profile_view, 1)
-        profile_buttons = QHBoxLayout()
-        for text, slot, tip in (
-                ("Add point", self._add_profile_point,
-                 "Insert a point below the selected one (an empty profile starts with the two ends of the main)."),
-                ("Remove point", self._remove_profile_points, "Remove the selected points.")):
-            button = QPushButton(text)
-            button.setToolTip(tip)
-            button.clicked.connect(slot)
-            profile_buttons.addWidget(button)
-        profile_buttons.addStretch(1)
-        profile_layout.addLayout(profile_buttons)
+        profile_layout.addLayout(button_row(
+            ("Add point", self._add_profile_point,
+             "Insert a point below the selected one (an empty profile starts with the two ends of the main)."),
+            ("Remove point", self._remove_profile_points, "Remove the selected points.")))
 
         self.lower_tabs = QTabWidget()
         self.lower_tabs.setObjectName("pipework_lower_tabs")

@@ -12,9 +12,20 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 from PySide6.QtCore import QAbstractItemModel, QItemSelectionModel, QModelIndex, Qt, Signal
 from PySide6.QtGui import QAction, QContextMenuEvent, QKeyEvent
-from PySide6.QtWidgets import QAbstractItemDelegate, QAbstractItemView, QHeaderView, QMenu, QTableView, QWidget
+from PySide6.QtWidgets import (
+    QAbstractItemDelegate,
+    QAbstractItemView,
+    QHBoxLayout,
+    QHeaderView,
+    QMenu,
+    QPushButton,
+    QTableView,
+    QWidget,
+)
 
 from app import clipboard
 from app.delegates import ProjectTableDelegate
@@ -237,3 +248,15 @@ class SpreadsheetView(QTableView):
             else:
                 menu.addAction(action)
         menu.exec(event.globalPos())
+
+
+def button_row(*buttons: tuple[str, Callable[[], object], str]) -> QHBoxLayout:
+    """A row of push buttons under a table, each ``(text, slot, tooltip)``, then a stretch."""
+    row = QHBoxLayout()
+    for text, slot, tip in buttons:
+        button = QPushButton(text)
+        button.setToolTip(tip)
+        button.clicked.connect(slot)
+        row.addWidget(button)
+    row.addStretch(1)
+    return row
