@@ -37,6 +37,9 @@ _HOURS = Column("hours", "Hours per year", quantity="dimensionless", limit="duty
 _SHARE = Column("share", "Share of the year", quantity="ratio_percent", limit="duty_band.share",
                 tooltip="Share of the year (of 8760 h) the station sees this flow; all bands together at most 100 %.")
 _CALCULATED: tuple[Column, ...] = (
+    Column("flow_met", "Flow of the year", kind="readonly", quantity="flow",
+           tooltip="The band flow the year is computed for: the typed flow, scaled to the annual volume when one "
+                   "is given."),
     Column("pumps", "Pumps running", kind="readonly", tooltip="The stage of the run sequence that meets the band."),
     Column("control", "Control", kind="readonly",
            tooltip="Stop–start at fixed speed, variable speed (slowed to the band flow), stop–start at the lowest "
@@ -105,6 +108,8 @@ class DutyBandsModel(ProjectTableModel):
         result = self.band_result(project, row)
         if result is None:
             return None
+        if column.key == "flow_met":
+            return result.flow_m3_s
         if column.key == "pumps":
             return result.pumps or "none"
         if column.key == "control":

@@ -144,3 +144,23 @@ def test_a_copied_block_of_bands_pastes_back_unchanged(panel, document):
     project = document.project
     assert clipboard.paste_text(view, clipboard.block_to_text(block))
     assert document.project == project
+
+
+def test_with_an_annual_volume_the_table_shows_the_flows_the_year_is_computed_for(make_window, tmp_path):
+    import shutil
+    from pathlib import Path
+
+    samples = Path(__file__).resolve().parents[2] / "sample_projects"
+    copy = tmp_path / "river.pumpsketch.json"
+    shutil.copy(samples / "river_intake.pumpsketch.json", copy)
+    shutil.copytree(samples / "pumps", tmp_path / "pumps")
+    window = make_window(copy)
+    window.document.recompute_now()
+    model = window.duty_panel.bands_model
+    duty = window.document.solution.duty_profile
+    assert duty.flow_scale is not None and duty.flow_scale != 1.0  # the sample gives an annual volume
+    for row, band in enumerate(window.document.project.duty_profile.bands):
+        typed, met = model.data(_cell(model, row, "flow"), DISPLAY), model.data(_cell(model, row, "flow_met"), DISPLAY)
+        # in L/s (1 m³/s = 1000 L/s), shown to three significant figures
+        assert float(met) == pytest.approx(band.flow_m3_s * duty.flow_scale * 1000.0, rel=5e-3)
+        assert typed != met
