@@ -6,6 +6,9 @@ scenario) and its solution; the hours of a common year are 365 × 24 = 8760.
 
 from __future__ import annotations
 
+import shutil
+from pathlib import Path
+
 import pytest
 from PySide6.QtCore import Qt
 
@@ -147,9 +150,6 @@ def test_a_copied_block_of_bands_pastes_back_unchanged(panel, document):
 
 
 def test_with_an_annual_volume_the_table_shows_the_flows_the_year_is_computed_for(make_window, tmp_path):
-    import shutil
-    from pathlib import Path
-
     samples = Path(__file__).resolve().parents[2] / "sample_projects"
     copy = tmp_path / "river.pumpsketch.json"
     shutil.copy(samples / "river_intake.pumpsketch.json", copy)
