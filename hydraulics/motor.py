@@ -28,7 +28,7 @@ import numpy as np
 from hydraulics.model import DEFAULT_DRIVE_EFFICIENCY, Arrangement, Criteria
 from hydraulics.number_format import percent_number
 from hydraulics.pump_fit import FittedPump
-from hydraulics.results import Finding, MotorResult, OperatingPoint, finding
+from hydraulics.results import Finding, FindingTarget, MotorResult, OperatingPoint, finding
 
 __all__ = ["IEC_MOTOR_OUTPUTS_KW", "next_standard_motor_w", "motor_check", "pump_motor_check", "motor_findings"]
 
@@ -110,7 +110,7 @@ def pump_motor_check(fitted: FittedPump, criteria: Criteria, shaft_powers_w: Seq
     )
 
 
-def motor_findings(motor: MotorResult, where: str, target: tuple[str, str]) -> list[Finding]:
+def motor_findings(motor: MotorResult, where: str, target: FindingTarget) -> list[Finding]:
     """Findings ``motor_overload`` (critical), ``motor_not_non_overloading`` (warning) and
     ``drive_efficiency_not_given`` (warning)."""
     out: list[Finding] = []

@@ -46,7 +46,15 @@ from hydraulics.pump_set import (
     solve_pump_set,
     stage_label,
 )
-from hydraulics.results import Finding, InstalledPumpRow, PumpMotor, PumpSetPoint, PumpSetResult, PumpShare
+from hydraulics.results import (
+    Finding,
+    FindingTarget,
+    InstalledPumpRow,
+    PumpMotor,
+    PumpSetPoint,
+    PumpSetResult,
+    PumpShare,
+)
 from hydraulics.system_curve import SystemHydraulics
 
 __all__ = ["pump_set_result", "pump_set_findings", "largest_out_set", "design_speed_findings", "STATIC_CASES",
@@ -202,6 +210,11 @@ def point_label(point: PumpSetPoint) -> str:
     return text if point.basis == "run sequence" else f"{text} ({point.basis})"
 
 
+def installed_row_target(tag: str) -> FindingTarget:
+    """The finding target that selects pump ``tag`` ("P3") in the list of installed pumps (its row, from 0)."""
+    return ("installed_pump", int(tag[1:]) - 1)
+
+
 def pump_set_findings(result: PumpSetResult, criteria: Criteria) -> list[Finding]:
     """Findings about each pump at the points of :func:`pump_set_result` (codes in the module description)."""
     grouped: dict[tuple[str, str, str], list[tuple[Finding, str, float]]] = {}
@@ -211,7 +224,7 @@ def pump_set_findings(result: PumpSetResult, criteria: Criteria) -> list[Finding
         where_point = point_label(point)
         for share in point.shares:
             where = f"pump {share.tag} ('{share.pump_name}')"
-            target = ("pump", share.pump_id)
+            target = installed_row_target(share.tag)
             items: list[tuple[Finding, float]] = []
             if share.shut_off:
                 items.append((Finding(
@@ -272,7 +285,7 @@ def pump_set_findings(result: PumpSetResult, criteria: Criteria) -> list[Finding
         out.append(Finding(first.severity, first.code, first.message, f"{first.where}, at {points}", first.remedy,
                            first.target, template=first.template, values=first.values))
     for each in result.motors:
-        out += motor_findings(each.motor, f"pump {each.tag} ('{each.pump_name}')", ("pump", each.pump_id))
+        out += motor_findings(each.motor, f"pump {each.tag} ('{each.pump_name}')", installed_row_target(each.tag))
     return out
 
 

@@ -176,3 +176,14 @@ def test_a_motor_rating_typed_for_a_pump_beside_the_arrangement_is_checked_in_th
     assert "Service factor: must be between 1 and 1.5" in window.message_bar.text()
     document.undo_stack.undo()
     assert document.project.other_pumps[0].motor_rating_w is None
+
+
+def test_a_weak_pump_finding_selects_that_pump_in_the_installed_table(make_window, tmp_path):
+    # the JP40 with its heads 30 m lower cannot open its check valve against the booster's manifold head
+    window = make_window(write(with_assist(hilltop(), jp40(head_offset_m=-30.0)), tmp_path / "weak.pumpsketch.json"))
+    window.document.recompute_now()
+    held = next(f for f in window.document.solution.findings if f.code == "pump_held_shut")
+    assert held.target == ("installed_pump", 2)  # P3, the third row
+    window.focus_target(held.target)
+    assert window.input_tabs.tabText(window.input_tabs.currentIndex()) == "Pumps"
+    assert window.pumps_panel.installed_view.current_row() == 2
