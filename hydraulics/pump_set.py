@@ -51,7 +51,7 @@ from hydraulics.pump_fit import FittedPump
 from hydraulics.results import FloatArray
 from hydraulics.system_curve import SystemHydraulics
 
-__all__ = ["SetPump", "installed_pumps", "run_stages", "PumpSetSolve", "solve_pump_set",
+__all__ = ["SetPump", "installed_pumps", "run_stages", "PumpSetSolve", "PumpHeads", "pump_speeds", "solve_pump_set",
            "pump_set_speed_for_flow", "stage_label"]
 
 _INNER_TOLERANCE_M = 1e-11
@@ -178,7 +178,7 @@ class PumpSetSolve:
         return total
 
 
-class _PumpHeads:
+class PumpHeads:
     """Each running pump's head at the manifold, with its speed per scenario (shape (S, P)).
 
     The head of each pump is also tabulated once at :data:`_TABLE_POINTS` flows over its
@@ -237,7 +237,7 @@ class _PumpHeads:
         return q, beyond
 
 
-def _pump_scale(pumps: Sequence[SetPump], n_scenarios: int, speed_ratio: ArrayLike | None) -> FloatArray:
+def pump_speeds(pumps: Sequence[SetPump], n_scenarios: int, speed_ratio: ArrayLike | None) -> FloatArray:
     """Speed ratio of each pump per scenario: the common speed (clipped) for variable-speed pumps."""
     own = np.array([p.speed_ratio for p in pumps], dtype=float)
     speeds = np.broadcast_to(own, (n_scenarios, len(pumps))).copy()
@@ -266,10 +266,10 @@ def solve_pump_set(system: SystemHydraulics, fitted_by_id: Mapping[str, FittedPu
     if n_p == 0:
         raise ValueError("a pump set needs at least one running pump")
     fitted = [fitted_by_id[p.pump_id] for p in pumps]
-    speeds = _pump_scale(pumps, n_s, speed_ratio)
+    speeds = pump_speeds(pumps, n_s, speed_ratio)
     trims = np.array([p.trim_ratio for p in pumps], dtype=float)
     scale = speeds * trims
-    heads = _PumpHeads(system, fitted, scale, aged_arr, extension)
+    heads = PumpHeads(system, fitted, scale, aged_arr, extension)
 
     zero = np.zeros(n_s)
     lo = system.manifold_head(zero, static, aged_arr)
@@ -350,8 +350,8 @@ def pump_set_speed_for_flow(system: SystemHydraulics, fitted_by_id: Mapping[str,
     trims = np.array([p.trim_ratio for p in pumps], dtype=float)
 
     def delivered(s: FloatArray) -> FloatArray:
-        scale = _pump_scale(pumps, n_s, s) * trims
-        heads = _PumpHeads(system, fitted, scale, aged_arr, extension)
+        scale = pump_speeds(pumps, n_s, s) * trims
+        heads = PumpHeads(system, fitted, scale, aged_arr, extension)
         q, _ = heads.flows_at(head)
         total: FloatArray = np.sum(q, axis=1)
         return total

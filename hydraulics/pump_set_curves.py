@@ -29,7 +29,7 @@ import numpy as np
 
 from hydraulics.model import Project
 from hydraulics.pump_fit import FittedPump
-from hydraulics.pump_set import SetPump, _pump_scale, _PumpHeads, installed_pumps, run_stages, stage_label
+from hydraulics.pump_set import PumpHeads, SetPump, installed_pumps, pump_speeds, run_stages, stage_label
 from hydraulics.results import PumpSetCurve, PumpSetCurves
 from hydraulics.system_curve import SystemHydraulics
 
@@ -49,9 +49,9 @@ def combined_curve(system: SystemHydraulics, fitted_by_id: Mapping[str, FittedPu
     fitted = [fitted_by_id[p.pump_id] for p in pumps]
     trims = np.array([p.trim_ratio for p in pumps], dtype=float)
 
-    def heads_for(n: int) -> _PumpHeads:
-        scale = _pump_scale(pumps, n, None) * trims
-        return _PumpHeads(system, fitted, scale, np.zeros(n, dtype=bool), extension=1.0)
+    def heads_for(n: int) -> PumpHeads:
+        scale = pump_speeds(pumps, n, None) * trims
+        return PumpHeads(system, fitted, scale, np.zeros(n, dtype=bool), extension=1.0)
 
     ends = heads_for(1)
     tops, bottoms = ends.top[0], ends.bottom[0]
