@@ -39,6 +39,11 @@ Registered steps:
   annual volume, the control strategy).  A version-3 file had neither: the list is empty and
   the profile has no bands, so the file solves exactly as before.
 
+* 4 → 5 (:func:`v4_to_v5`): the report's title block and the pumps' provenance.  The project
+  has a ``"title_block"`` (site, revision, date, prepared by, checked by; free text) and each
+  pump may say which data file its points came from (``"source"``: file name and comment
+  lines).  A version-4 file had neither: the title block is empty and no source is known.
+
 ``sample_projects/README.md`` explains how to add a migration.
 """
 
@@ -164,4 +169,16 @@ def v3_to_v4(data: Mapping[str, Any]) -> dict[str, Any]:
     upgraded.setdefault("other_pumps", [])
     upgraded.setdefault("duty_profile", {"bands": [], "time_basis": "hours", "strategy": "fixed_staging",
                                          "pipe": "aged"})
+    return upgraded
+
+
+@migration(4)
+def v4_to_v5(data: Mapping[str, Any]) -> dict[str, Any]:
+    """Format 4 → 5: an empty title block (the pumps' sources are optional and stay unknown).
+
+    >>> v4_to_v5({"version": 4})["title_block"]
+    {'site': '', 'revision': '', 'date': '', 'prepared_by': '', 'checked_by': ''}
+    """
+    upgraded = dict(data)
+    upgraded.setdefault("title_block", {"site": "", "revision": "", "date": "", "prepared_by": "", "checked_by": ""})
     return upgraded

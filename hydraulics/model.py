@@ -200,6 +200,10 @@ class PumpModel:
     efficiency_fit_order: int = 2
     power_fit_order: int = 2
     notes: str = ""
+    source_file: str = ""
+    """The name of the pump data file the points were read from ("" when typed or unknown)."""
+    source_comments: tuple[str, ...] = ()
+    """The comment lines of that file, as written there (without the leading '#')."""
 
 
 @dataclass(frozen=True)
@@ -334,6 +338,17 @@ class DutyProfile:
 
 
 @dataclass(frozen=True)
+class TitleBlock:
+    """Who made the calculation, for what, and when: the title block of a report (free text)."""
+
+    site: str = ""
+    revision: str = ""
+    date: str = ""
+    prepared_by: str = ""
+    checked_by: str = ""
+
+
+@dataclass(frozen=True)
 class Project:
     """A whole pumping-station scheme."""
 
@@ -353,6 +368,7 @@ class Project:
     """Installed pumps beyond the arrangement's identical duty and standby pumps (see
     :func:`hydraulics.pump_set.installed_pumps` for the whole list)."""
     duty_profile: DutyProfile = field(default_factory=DutyProfile)
+    title_block: TitleBlock = field(default_factory=TitleBlock)
 
     def pump(self, pump_id: str) -> PumpModel | None:
         """The pump model with ``pump_id``, or ``None``."""

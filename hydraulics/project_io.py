@@ -49,13 +49,14 @@ from hydraulics.model import (
     Site,
     TankDelivery,
     TimeBasis,
+    TitleBlock,
     UserFluid,
     WaterFluid,
 )
 from hydraulics.validation import validate_project
 
 FORMAT_NAME = "pumpsketch-project"
-FORMAT_VERSION = 4
+FORMAT_VERSION = 5
 FILE_SUFFIX = ".pumpsketch.json"
 
 
@@ -299,6 +300,7 @@ class _Reader:
     def pump(self, node: object, path: str) -> PumpModel:
         node = self.obj(node, path, frozenset({
             "id", "name", "rated_speed", "impeller_diameter", "fit_orders", "notes", "points", "source_csv",
+            "source",
         }))
         pump_id = self.text(node, "id", path)
         name = self.text(node, "name", path, default=pump_id)
@@ -327,8 +329,10 @@ class _Reader:
                 efficiency_fit_order=self.integer(orders, "efficiency", opath, default=2),
                 power_fit_order=self.integer(orders, "power", opath, default=2),
                 notes=self.text(node, "notes", path, default=""),
-                **columns,
+                flow_m3_s=columns["flow_m3_s"], head_m=columns["head_m"], efficiency=columns["efficiency"],
+                shaft_power_w=columns["shaft_power_w"], npsh_required_m=columns["npsh_required_m"],
             )
+            pump = replace(pump, **self.pump_source(node.get("source"), _join(path, "source")))
         elif source_csv is not None:
             pump = self._pump_from_csv(source_csv, pump_id, name, rated_speed, _join(path, "source_csv"))
             impeller = self.optional_quantity(node, "impeller_diameter", path, "diameter")
@@ -343,6 +347,21 @@ class _Reader:
         else:
             raise ProjectFileError(path, "a pump needs 'points' or 'source_csv'")
         return pump  # its points are checked with the whole project (validation.validate_project)
+
+    def pump_source(self, node: object, path: str) -> dict[str, Any]:
+        """``source_file`` and ``source_comments`` of a pump from its ``"source"`` object (absent: unknown)."""
+        if node is None:
+            return {}
+        node = self.obj(node, path, frozenset({"file", "comments"}))
+        comments = node.get("comments") or []
+        if not isinstance(comments, list) or not all(isinstance(c, str) for c in comments):
+            raise ProjectFileError(_join(path, "comments"), "expected a list of text lines")
+        return {"source_file": self.text(node, "file", path, default=""), "source_comments": tuple(comments)}
+
+    def title_block(self, node: object, path: str = "title_block") -> TitleBlock:
+        node = self.obj(node, path, frozenset({"site", "revision", "date", "prepared_by", "checked_by"}))
+        return TitleBlock(**{key: self.text(node, key, path, default="")
+                             for key in ("site", "revision", "date", "prepared_by", "checked_by")})
 
     def _pump_from_csv(self, relative: str, pump_id: str, name: str, rated_speed: float | None,
                        path: str) -> PumpModel:
@@ -469,6 +488,7 @@ class _Reader:
         root = self.obj(data, "(file)", frozenset({
             "format", "version", "name", "notes", "fluid", "site", "friction_method", "segments", "pumps",
             "arrangement", "criteria", "energy", "flow_grid_max_factor", "profile", "other_pumps", "duty_profile",
+            "title_block",
         }))
         fmt = root.get("format")
         if fmt != FORMAT_NAME:
@@ -513,6 +533,7 @@ class _Reader:
             profile=tuple(self.profile_point(p, f"profile[{i}]") for i, p in enumerate(profile_node)),
             other_pumps=tuple(self.other_pump(p, f"other_pumps[{i}]") for i, p in enumerate(others_node)),
             duty_profile=self.duty_profile(root.get("duty_profile") or {}),
+            title_block=self.title_block(root.get("title_block") or {}),
         )
 
 
@@ -742,6 +763,8 @@ def project_to_dict(project: Project) -> dict[str, object]:
             "impeller_diameter": _q(p.impeller_diameter_m, "diameter"),
             "fit_orders": {"head": p.head_fit_order, "efficiency": p.efficiency_fit_order, "power": p.power_fit_order},
             "notes": p.notes or None,
+            "source": {"file": p.source_file, "comments": list(p.source_comments)}
+            if p.source_file or p.source_comments else None,
             "points": _drop_none({
                 "flow": _qlist(p.flow_m3_s, "flow"),
                 "head": _qlist(p.head_m, "head"),
@@ -811,6 +834,9 @@ def project_to_dict(project: Project) -> dict[str, object]:
                      "air_valve": p.air_valve} for p in project.profile],
         "other_pumps": others,
         "duty_profile": duty_profile,
+        "title_block": {"site": project.title_block.site, "revision": project.title_block.revision,
+                        "date": project.title_block.date, "prepared_by": project.title_block.prepared_by,
+                        "checked_by": project.title_block.checked_by},
     })
 
 

@@ -141,6 +141,12 @@ def _split(line: str, separator: str) -> list[str]:
     return [cell.strip() for cell in line.split(separator)]
 
 
+MAX_SOURCE_COMMENTS = 40
+"""Comment lines kept with a pump as its provenance (the rest of a long preamble is dropped)."""
+MAX_COMMENT_CHARACTERS = 200
+"""Characters kept of each comment line."""
+
+
 def _read_text(path_or_text: str | Path) -> str:
     """The file's text, or the argument itself when it is CSV text (has a line break)."""
     if isinstance(path_or_text, Path):
@@ -240,12 +246,15 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
     decimal_comma = False
     rows: list[tuple[int, dict[str, float]]] = []
     pending_metadata: list[tuple[str, int]] = []
+    comments: list[str] = []
 
     for line_no, raw in enumerate(text.splitlines(), start=1):
         line = raw.strip()
         if not line:
             continue
         if line.startswith("#"):
+            if len(comments) < MAX_SOURCE_COMMENTS:
+                comments.append(line[1:].strip()[:MAX_COMMENT_CHARACTERS])
             if columns is None:
                 pending_metadata.append((line, line_no))
             else:
@@ -332,6 +341,9 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
         shaft_power_w=column("power"),
         npsh_required_m=column("npsh_required"),
         impeller_diameter_m=metadata.get("impeller_diameter"),
+        source_file=path_or_text.name if isinstance(path_or_text, Path) else (
+            "" if "\n" in path_or_text or "\r" in path_or_text else Path(path_or_text).name),
+        source_comments=tuple(comments),
     )
     try:
         validate_pump(pump, "pump")

@@ -7,6 +7,7 @@ B.8): 1 US gallon = 3.785411784 L, 1 ft = 0.3048 m; 1 hp (550 ft·lbf/s) = 745.6
 
 from __future__ import annotations
 
+from dataclasses import replace
 from pathlib import Path
 
 import pytest
@@ -131,7 +132,18 @@ def test_rated_speed_argument_without_metadata():
 def test_reads_from_path(tmp_path):
     path = tmp_path / "pump.csv"
     path.write_text(GOOD, encoding="utf-8")
-    assert read_pump_csv(path, "P", "t") == read_pump_csv(str(path), "P", "t") == read_pump_csv(GOOD, "P", "t")
+    from_path, from_name, from_text = (read_pump_csv(path, "P", "t"), read_pump_csv(str(path), "P", "t"),
+                                       read_pump_csv(GOOD, "P", "t"))
+    assert from_path == from_name
+    assert from_path.source_file == "pump.csv" and from_text.source_file == ""  # the file's name is kept
+    assert replace(from_path, source_file="") == from_text
+
+
+def test_the_comment_lines_are_kept_with_the_pump_as_its_provenance():
+    text = "# Test curve from the works test, 2026-03 (invented)\n# rated_speed [rpm] = 1450\n" + \
+        "flow [L/s], head [m]\n0, 50\n10, 46\n20, 38\n"
+    pump = read_pump_csv(text, "P", "t")
+    assert pump.source_comments == ("Test curve from the works test, 2026-03 (invented)", "rated_speed [rpm] = 1450")
 
 
 def test_missing_file_raises_file_not_found(tmp_path):
