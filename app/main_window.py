@@ -128,7 +128,7 @@ class MainWindow(QMainWindow):
         results = QSplitter(Qt.Orientation.Horizontal)
         results.addWidget(self._titled("Checks", self.checks_panel))
         results.addWidget(self._titled("Operating points", self.points_table))
-        results.setSizes([450, 550])
+        results.setSizes([470, 530])
         self.centre_splitter = QSplitter(Qt.Orientation.Vertical)
         self.centre_splitter.addWidget(self.plot_tabs)
         self.centre_splitter.addWidget(results)

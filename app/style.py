@@ -59,7 +59,12 @@ SYSTEM_BAND_BRUSH = QColor(86, 180, 233, 45)
 PREFERRED_REGION_ALPHA = 90
 """Opacity (0–255) of the broad stroke marking the preferred operating region."""
 
-SEVERITY_COLOURS: dict[str, str] = {"critical": VERMILLION, "warning": ORANGE, "info": BLUE}
+CRITICAL_RED = "#A50F15"
+"""Dark red of critical findings: darker than the vermillion of the maximum-static system curves,
+so a critical mark is never read as one of them (the octagon and the word tell it as well)."""
+
+SEVERITY_COLOURS: dict[str, str] = {"critical": CRITICAL_RED, "warning": ORANGE, "info": SKY_BLUE}
+"""Critical, warning and information: none of them the colour of a system curve (vermillion, blue)."""
 SEVERITY_TITLES: dict[str, str] = {"critical": "Critical", "warning": "Warning", "info": "Information"}
 
 EFFICIENCY_COLOUR = BLUE

@@ -479,7 +479,8 @@ def pump_findings(project: Project, fitted: FittedPump, points: Sequence[Operati
     if trim > criteria.trim_warning_limit:
         out.append(Finding(
             "warning", "large_trim",
-            f"Impeller trim of {percent_number(trim)} % is beyond {percent_number(criteria.trim_warning_limit)} %; "
+            f"Impeller trim of {percent_number(trim)} % (diameter {percent_number(arrangement.trim_ratio)} % of the "
+            f"tested) is beyond {percent_number(criteria.trim_warning_limit)} %; "
             "the affinity laws for trim are only approximate for small trims.",
             pump_where, "Ask the manufacturer for the tested curve of the trimmed impeller.", pump_target))
     out.extend(point_findings(project, fitted, points))

@@ -14,6 +14,9 @@ The rules, each for one kind of place:
   figures but at most ``max_decimals`` decimals, never in exponent form.
 * :func:`plain_number` — editable cells and fields: up to ``digits`` significant
   figures without trailing zeros, so that the text can be typed back unchanged.
+* :func:`cell_number` — the value of a cell or field as shown (not while edited): SI with
+  :func:`plain_number`; US customary rounded as a practising engineer writes it, by the
+  quantity's rule in :data:`US_CUSTOMARY_PRECISION`.
 * :func:`fixed_decimals`, :func:`percent_number`, :func:`general_number` and
   :func:`grouped_whole_number` — report columns with a set number of decimals
   (fractions shown as percentages), dimensionless numbers of any magnitude, and annual
@@ -26,8 +29,8 @@ from __future__ import annotations
 
 import math
 
-__all__ = ["MISSING", "significant_figures", "readout_number", "plain_number", "fixed_decimals",
-           "general_number", "grouped_whole_number", "percent_number"]
+__all__ = ["MISSING", "significant_figures", "readout_number", "plain_number", "cell_number", "fixed_decimals",
+           "general_number", "grouped_whole_number", "percent_number", "US_CUSTOMARY_PRECISION"]
 
 MISSING = "—"
 """Shown where a value does not exist (no pump data, no operating point, not a number)."""
@@ -96,6 +99,61 @@ def plain_number(value: float, digits: int = 5) -> str:
     if text == "-0":
         text = "0"
     return text
+
+
+US_CUSTOMARY_PRECISION: dict[str, tuple[int, int]] = {
+    # quantity: (decimals, at least this many significant figures), common practice in US drawings and
+    # calculations: lengths, levels and heads to 0.1 ft; bores to 0.01 in; velocities to 0.01 ft/s;
+    # pressures, powers and temperatures to 0.1 psi / hp / °F; flows to whole gpm.
+    "length": (1, 2),
+    "elevation": (1, 2),
+    "head": (1, 2),
+    "diameter": (2, 2),
+    "velocity": (2, 2),
+    "pressure": (1, 2),
+    "power": (1, 2),
+    "temperature": (1, 2),
+    "flow": (0, 3),
+    "density": (2, 2),
+    "roughness": (0, 2),
+    "kinematic_viscosity": (0, 3),
+    "volume": (0, 3),
+    "specific_energy": (0, 3),
+}
+"""How a US customary value is shown, by quantity: ``(decimals, minimum significant figures)``.
+
+The value is rounded to ``decimals`` places, but a small value keeps at least the minimum
+significant figures (a 0.164 ft length is 0.16, a roughness of 0.00197 in is 0.002).
+The basis is common practice: the precision to which quantities are written on US
+drawings and in calculations, not a standard.  SI values are shown as typed
+(:func:`plain_number`); quantities not listed here too."""
+
+
+def cell_number(value: float, quantity: str, system: str, digits: int = 5) -> str:
+    """``value`` (already in the display unit of ``system``) as a cell or field shows it.
+
+    SI and quantities without a US rule: :func:`plain_number` with ``digits``.  US customary:
+    the rule of :data:`US_CUSTOMARY_PRECISION`, trailing zeros dropped (the text can be typed
+    back).
+
+    >>> cell_number(29.527559, "length", "US"), cell_number(8.133858, "diameter", "US")
+    ('29.5', '8.13')
+    >>> cell_number(554.79, "flow", "US"), cell_number(0.0019685, "roughness", "US")
+    ('555', '0.002')
+    >>> cell_number(6.5617, "length", "US"), cell_number(0.164, "length", "US"), cell_number(29.527559, "length", "SI")
+    ('6.6', '0.16', '29.528')
+    """
+    rule = US_CUSTOMARY_PRECISION.get(quantity) if system == "US" else None
+    if rule is None or not math.isfinite(value):
+        return plain_number(value, digits)
+    if value == 0.0:
+        return "0"
+    decimals, significant = rule
+    decimals = max(decimals, significant - 1 - math.floor(math.log10(abs(value))))
+    text = f"{value:.{decimals}f}"
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")
+    return _drop_negative_zero(text)
 
 
 def fixed_decimals(value: float | None, decimals: int = 2) -> str:

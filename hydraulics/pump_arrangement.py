@@ -145,8 +145,13 @@ def arrangement_flow_range(fitted: FittedPump, pumps_in_parallel: ArrayLike = 1,
 
 def arrangement_curve(fitted: FittedPump, pumps_running: int = 1, series_stages: int = 1,
                       speed_ratio: float = 1.0, trim_ratio: float = 1.0, n_points: int = 101,
-                      preferred_region: tuple[float, float] = (0.70, 1.20)) -> PumpCurve:
+                      preferred_region: tuple[float, float] = (0.70, 1.20),
+                      reach_flow_m3_s: float | None = None) -> PumpCurve:
     """The pump set's curve over its data range, for plotting.
+
+    ``reach_flow_m3_s`` (station flow) carries the curve on beyond the data range as far
+    as that flow: the furthest duty point found on it, where the fitted curve is
+    extrapolated (the point is flagged as such), so the drawn curve meets every point.
 
     ``preferred_region`` gives the preferred operating region as fractions of
     best-efficiency flow (default 70–120 %, the pump-industry guideline ANSI/HI 9.6.3 as
@@ -163,7 +168,8 @@ def arrangement_curve(fitted: FittedPump, pumps_running: int = 1, series_stages:
     n, stages = int(pumps_running), int(series_stages)
     s, t = float(speed_ratio), float(trim_ratio)
     lo, hi = arrangement_flow_range(fitted, n, s, t)
-    flows = np.linspace(float(lo), float(hi), int(n_points))
+    end = float(hi) if reach_flow_m3_s is None else max(float(hi), float(reach_flow_m3_s))
+    flows = np.linspace(float(lo), end, int(n_points))
     perf = arrangement_performance(fitted, flows, n, stages, s, t)
     bep = pref_lo = pref_hi = None
     if fitted.bep_flow_m3_s is not None:

@@ -12,6 +12,8 @@ The window draws the plot from the first stage before the second has run.
 
 from __future__ import annotations
 
+import math
+from collections.abc import Sequence
 from dataclasses import dataclass, replace
 from functools import lru_cache
 from typing import TYPE_CHECKING
@@ -150,7 +152,8 @@ def solve_curves(project: Project, n_flow_points: int = DEFAULT_FLOW_POINTS) -> 
     points = operating_points(system, fitted, arrangement, npsh_by_case, fluid.density_kg_m3)
     plain_curves = _cached_pump_curves(pump, fluid.density_kg_m3, arrangement.duty_count,
                                        arrangement.series_stages, arrangement.speed_ratio, arrangement.trim_ratio,
-                                       (project.criteria.preferred_region_low, project.criteria.preferred_region_high))
+                                       (project.criteria.preferred_region_low, project.criteria.preferred_region_high),
+                                       _curve_reach(fitted, arrangement, points))
     pump_curves = _curves_at_manifold(system, plain_curves)
     set_curves = pump_set_curves(project, system, fitted_by_id)
     curve_max = max([float(np.max(c.flow_m3_s)) for c in pump_curves]
@@ -319,21 +322,53 @@ def _cached_fit(pump: PumpModel, density_kg_m3: float) -> FittedPump:
     return fit_pump(pump, density_kg_m3)
 
 
+CURVE_REACH_STEP = 0.02
+"""A curve carried beyond its data to a duty point ends at the next whole 2 % of its data range,
+so small edits near that point reuse the cached curves."""
+
+
+def _curve_reach(fitted: FittedPump, arrangement: Arrangement,
+                 points: Sequence[OperatingPoint]) -> tuple[float | None, ...]:
+    """For 1..duty_count pumps running, the station flow the curve must reach (``None``: its data range).
+
+    The furthest found point of that many pumps at the arrangement's speed, where it lies
+    beyond the data range (an extrapolated duty point), rounded up to :data:`CURVE_REACH_STEP`
+    of the range's end.
+    """
+    from hydraulics.pump_arrangement import arrangement_flow_range
+
+    reach: list[float | None] = []
+    for n in range(1, arrangement.duty_count + 1):
+        _low, high = arrangement_flow_range(fitted, n, arrangement.speed_ratio, arrangement.trim_ratio)
+        end = float(high)
+        flows = [float(p.flow_m3_s) for p in points if p.found and p.flow_m3_s is not None
+                 and p.pumps_running == n and abs(p.speed_ratio - arrangement.speed_ratio) < 1e-9]
+        furthest = max(flows, default=0.0)
+        if end <= 0.0 or furthest <= end:
+            reach.append(None)
+            continue
+        reach.append(end * (1.0 + CURVE_REACH_STEP * math.ceil((furthest / end - 1.0) / CURVE_REACH_STEP)))
+    return tuple(reach)
+
+
 @lru_cache(maxsize=16)
 def _cached_pump_curves(pump: PumpModel, density_kg_m3: float, duty_count: int, series_stages: int,
                         speed_ratio: float, trim_ratio: float,
-                        preferred_region: tuple[float, float]) -> tuple[PumpCurve, ...]:
+                        preferred_region: tuple[float, float],
+                        reach: tuple[float | None, ...] = ()) -> tuple[PumpCurve, ...]:
     """The curves of 1..``duty_count`` pumps running, reused while the pump set is unchanged.
 
     They depend on the pump, the fluid density and the arrangement only, not on the
-    pipework, so a pipe edit does not rebuild them.  Their arrays are made read-only,
+    pipework, so a pipe edit does not rebuild them (unless a duty point moves beyond the
+    data range: ``reach`` carries a curve on to it).  Their arrays are made read-only,
     as they are shared by every solution that reuses them.
     """
     from hydraulics.pump_arrangement import arrangement_curve
 
     fitted = _cached_fit(pump, density_kg_m3)
     curves = tuple(
-        arrangement_curve(fitted, n, series_stages, speed_ratio, trim_ratio, preferred_region=preferred_region)
+        arrangement_curve(fitted, n, series_stages, speed_ratio, trim_ratio, preferred_region=preferred_region,
+                          reach_flow_m3_s=reach[n - 1] if n - 1 < len(reach) else None)
         for n in range(1, duty_count + 1)
     )
     for curve in curves:

@@ -91,7 +91,8 @@ SECTIONS = (
         NumberField("trim_warning_limit", "Warn above impeller trim of", "ratio_percent",
                     "criteria.trim_warning_limit",
                     lambda p: p.criteria.trim_warning_limit, lambda p, v: _criteria(p, trim_warning_limit=v),
-                    tooltip="Reduction of impeller diameter beyond which the affinity laws are doubtful."),
+                    tooltip="Trim: the reduction of impeller diameter from the tested one (a diameter of 95 % is a "
+                            "5 % trim). Beyond this the affinity laws for trim are doubtful."),
     )),
     Section("Energy: tariff and the simple estimate", (
         ChoiceField("energy_basis", "Annual duty given as",

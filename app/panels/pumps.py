@@ -2,7 +2,7 @@
 
 The chooser picks the pump model the station uses (``arrangement.pump_id``); the data
 and points below are that pump's.  The arrangement says how many identical pumps run in
-parallel (duty), how many stand by, series stages, speed and impeller trim.  The
+parallel (duty), how many stand by, series stages, speed and impeller diameter.  The
 installed-pumps table below lists every pump of the station (P1, P2, …): the arrangement's,
 read-only, then the pumps installed beside them, of any of the project's models, each
 with its role and speed control.
@@ -14,7 +14,7 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
-from PySide6.QtCore import QSignalBlocker, Signal
+from PySide6.QtCore import QSignalBlocker, Qt, Signal
 from PySide6.QtWidgets import (
     QComboBox,
     QFileDialog,
@@ -76,6 +76,10 @@ def _variable_speed(project: Project) -> bool:
     return project.arrangement is not None and project.arrangement.variable_speed
 
 
+TRIM_MEANING = ("The impeller diameter as a percentage of the tested one (100 %: not trimmed). The trim is the "
+                "reduction: a diameter of 95 % is a 5 % trim, as the criteria and the checks count it.")
+"""What "trim" means wherever the window says it: the reduction of impeller diameter, 100 % − D/D_tested."""
+
 SPEED_CONTROL_CHOICES = [(False, "Fixed speed"), (True, "Variable speed (drive)")]
 
 
@@ -112,8 +116,8 @@ ARRANGEMENT_SECTIONS = (
                            "arrangement.speed_ratio", "min_speed_ratio", enabled=_variable_speed),
         _arrangement_field("max_speed_ratio", "Variable speed to (% of rated)", "ratio_percent",
                            "arrangement.speed_ratio", "max_speed_ratio", enabled=_variable_speed),
-        _arrangement_field("trim_ratio", "Impeller trim (% of tested diameter)", "ratio_percent",
-                           "arrangement.trim_ratio", "trim_ratio"),
+        _arrangement_field("trim_ratio", "Impeller diameter (% of tested)", "ratio_percent",
+                           "arrangement.trim_ratio", "trim_ratio", tooltip=TRIM_MEANING),
         _arrangement_field("motor_efficiency", "Motor efficiency", "ratio_percent", "arrangement.efficiency",
                            "motor_efficiency"),
         _arrangement_field("drive_efficiency", "Drive (VSD) efficiency", "ratio_percent", "arrangement.efficiency",
@@ -138,6 +142,29 @@ NO_ARRANGEMENT_TEXT = "No pump arrangement yet: import or add a pump first, then
 NO_PUMP_TEXT = ("No pump yet. Import a manufacturer's curve (CSV with a header naming each column and its "
                 "unit, e.g. \"flow [L/s], head [m], efficiency [%]\"), or start a new pump from an example "
                 "curve and type its points.")
+
+
+SOURCE_COMMENT_LINES = 3
+"""Comment lines of the pump data file shown under its name (all of them in the tooltip)."""
+
+
+def pump_source_texts(pump: PumpModel) -> tuple[str, str]:
+    """The "Source" line of a pump and its tooltip: the data file's name and its comment lines."""
+    comments = [line.strip() for line in pump.source_comments if line.strip()]
+    if pump.source_file:
+        text = f"Source: {pump.source_file}"
+    else:
+        text = "Source: typed in or example data (no data file)"
+    if comments:
+        shown = comments[:SOURCE_COMMENT_LINES] + (["…"] if len(comments) > SOURCE_COMMENT_LINES else [])
+        text += "\n" + "\n".join(f"  # {line}" for line in shown)
+    if comments:
+        tooltip = "\n".join([f"Pump data read from {pump.source_file or 'a file'}:", *(f"# {c}" for c in comments)])
+    elif pump.source_file:
+        tooltip = f"Pump data read from {pump.source_file}; the file had no comment lines."
+    else:
+        tooltip = "These points were typed in (or are the example curve); no data file records where they came from."
+    return text, tooltip
 
 
 class PumpsPanel(QWidget):
@@ -175,6 +202,12 @@ class PumpsPanel(QWidget):
         self.no_pump_label = QLabel(NO_PUMP_TEXT)
         self.no_pump_label.setWordWrap(True)
         layout.addWidget(self.no_pump_label)
+
+        self.source_label = QLabel()
+        self.source_label.setObjectName("pump_source")
+        self.source_label.setWordWrap(True)
+        self.source_label.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        layout.addWidget(self.source_label)
 
         self.pump_form = FormPanel(document, "pump", PUMP_SECTIONS)
         layout.addWidget(self.pump_form)
@@ -266,6 +299,16 @@ class PumpsPanel(QWidget):
         self.no_pump_label.setVisible(pump is None)
         self.points_box.setVisible(pump is not None)
         self.points_model.set_pump(pump.pump_id if pump is not None else None)
+        self._show_source(pump)
+
+    def _show_source(self, pump: PumpModel | None) -> None:
+        """The pump data's provenance: the file read and its comment lines (read-only)."""
+        self.source_label.setVisible(pump is not None)
+        if pump is None:
+            return
+        text, tooltip = pump_source_texts(pump)
+        self.source_label.setText(text)
+        self.source_label.setToolTip(tooltip)
 
     def show_pump(self, pump_id: str) -> None:
         """Bring a pump into view (the chooser shows the station's pump)."""

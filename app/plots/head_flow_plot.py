@@ -24,12 +24,14 @@ from __future__ import annotations
 
 import numpy as np
 import pyqtgraph as pg
+from PySide6.QtCore import QPointF, QRectF
 from PySide6.QtWidgets import QWidget
 
 from app import style
 from app.plots.plot_base import (
     BandItem,
     HoverReadout,
+    PointKey,
     completes_drawn,
     empty_array,
     make_points_item,
@@ -42,7 +44,8 @@ from app.plots.plot_base import (
 )
 from app.plots.solution_plot import SolutionPlot
 from app.results import scenarios
-from hydraulics.number_format import readout_number
+from hydraulics.model import Project, Segment
+from hydraulics.number_format import cell_number, readout_number
 from hydraulics.results import FloatArray, OperatingPoint, PumpCurve, PumpSetCurve, PumpSetPoint, Solution, SystemCurve
 from hydraulics.units import to_display, unit_label
 
@@ -60,8 +63,58 @@ TESTED_CURVE_NAME = "Pumps as tested"
 """The plain pump-set curve (the manufacturer's test, at the speed drawn), shown thin beside it."""
 
 
+POINT_LABEL_MAX_DISTANCE_PX = 24.0
+"""Farthest (px) the nearest edge of a point's number label lies from the centre of its marker."""
+
+
 def _system_curve_name(static: str, pipe: str) -> str:
     return f"System: {static} static, {pipe} pipe"
+
+
+def speed_phrase(speed_ratio: float) -> str:
+    """``" at 85 % speed"`` below rated speed, ``""`` at rated speed."""
+    return "" if abs(speed_ratio - 1.0) < 0.005 else f" at {speed_ratio * 100:.0f} % speed"
+
+
+def _size_text(segment: Segment, unit_system: str) -> str:
+    """A segment's size as an engineer names it: the nominal size, or the bore."""
+    if segment.nominal_size:
+        return segment.nominal_size
+    bore = cell_number(to_display(segment.internal_diameter_m, "diameter", unit_system), "diameter", unit_system)
+    return f"bore {bore} {unit_label('diameter', unit_system)}"
+
+
+def _short(name: str, length: int = 28) -> str:
+    return name if len(name) <= length else name[: length - 1].rstrip() + "…"
+
+
+def pinned_curve_name(pinned: Project | None, current: Project | None, unit_system: str) -> str:
+    """The legend name of a pinned snapshot: what was pinned, as it differs from the project now.
+
+    The pipe sizes that have changed since (``"Pinned: Rising main DN 150"``), else a changed
+    pump or speed, else the sizes of every segment pinned.
+    """
+    if pinned is None:
+        return "Pinned snapshot"
+    changed: list[str] = []
+    if current is not None and len(current.segments) == len(pinned.segments):
+        for was, now in zip(pinned.segments, current.segments, strict=True):
+            if _size_text(was, unit_system) != _size_text(now, unit_system):
+                changed.append(f"{_short(was.name)} {_size_text(was, unit_system)}")
+    if not changed and current is not None:
+        was_pump, now_pump = pinned.duty_pump, current.duty_pump
+        if was_pump is not None and (now_pump is None or now_pump.name != was_pump.name):
+            changed.append(f"pump {_short(was_pump.name)}")
+        was_speed = None if pinned.arrangement is None else pinned.arrangement.speed_ratio
+        now_speed = None if current.arrangement is None else current.arrangement.speed_ratio
+        if was_speed is not None and now_speed is not None and abs(was_speed - now_speed) > 1e-9:
+            changed.append(f"{was_speed * 100:.0f} % speed")
+    if not changed:
+        sizes = list(dict.fromkeys(_size_text(segment, unit_system) for segment in pinned.segments))
+        changed = [", ".join(sizes)] if sizes else []
+    if len(changed) > 2:
+        changed = [*changed[:2], "…"]
+    return "Pinned: " + "; ".join(changed) if changed else "Pinned snapshot"
 
 
 class _PumpCurveItems:
@@ -93,14 +146,16 @@ class _PumpCurveItems:
         for item in (self.region, self.curve, self.tested, self.end_label):
             item.setVisible(visible)
 
-    def set_names(self, at_manifold: bool, tags: str | None = None) -> None:
+    def set_names(self, at_manifold: bool, tags: str | None = None, speed_ratio: float = 1.0) -> None:
         """Legend names: the plain pump curve, or the curve at the manifold beside the tested one.
 
-        ``tags`` (``"P1+P2"``) is added where pumps of other models are drawn as well.
+        ``tags`` (``"P1+P2"``) is added where pumps of other models are drawn as well; a
+        curve below rated speed says its speed (``"1 pump at 85 % speed"``).
         """
         phrase = scenarios.pumps_phrase(self.pumps_running)
         if tags:
             phrase = f"{phrase} ({tags})"
+        phrase += speed_phrase(speed_ratio)
         if self.end_label.toPlainText() != phrase:
             self.end_label.setText(phrase)
         if at_manifold:
@@ -143,6 +198,11 @@ class HeadFlowPlot(SolutionPlot):
         self.plot_item.addItem(self.points_item)
         self._point_labels: list[pg.TextItem] = []
         self._marked: list[tuple[float, float, str]] = []
+        """Every point marked: (flow, head) in display units and its full label."""
+        self._marker_key = PointKey()
+        self._marked_pumps: list[int] = []
+        self._key_items: list[pg.PlotDataItem] = []
+        """Legend samples of the numbered key: point n's marker and its full label."""
 
         self.design_flow_line = pg.InfiniteLine(
             angle=90, movable=False, pen=style.design_flow_pen(), label="design flow",
@@ -154,6 +214,7 @@ class HeadFlowPlot(SolutionPlot):
         self.plot_item.addItem(self.design_flow_line, ignoreBounds=True)
 
         self._snapshot_items: list[pg.PlotDataItem] = []
+        self._snapshot_project: Project | None = None
 
         self.hover = HoverReadout([self.plot_item], self.readout, self._describe_position, IDLE_READOUT)
         self.view_box.sigTransformChanged.connect(self._place_point_labels)
@@ -178,6 +239,7 @@ class HeadFlowPlot(SolutionPlot):
             self._solution = solution  # the finished solve of what is drawn: nothing to redraw
             if solution is not None and solution.pump_set is not None and solution.pump_set.points:
                 self._update_points()  # but the pump-set points, solved in the second stage
+                self._sync_legend()
             return
         self._solution = solution
         self._unit_system = unit_system
@@ -202,12 +264,14 @@ class HeadFlowPlot(SolutionPlot):
         for set_curve in self._pump_set_curves():
             snapshot.append((set_curve.flow_m3_s.copy(), set_curve.head_m.copy()))
         self._snapshot_si = snapshot
+        self._snapshot_project = None if self._solution is None else self._solution.project
         self._update_snapshot()
         self._sync_legend()
 
     def clear_snapshot(self) -> None:
         """Remove the pinned snapshot."""
         self._snapshot_si = []
+        self._snapshot_project = None
         self._update_snapshot()
         self._sync_legend()
 
@@ -346,7 +410,7 @@ class HeadFlowPlot(SolutionPlot):
             if set_curve_data(items.curve, x, y):
                 items.end_label.setPos(float(x[-1]), float(y[-1]))
             at_manifold = pump_curve.head_at_manifold_m is not None
-            items.set_names(at_manifold, self._stage_tags(pumps))
+            items.set_names(at_manifold, self._stage_tags(pumps), pump_curve.speed_ratio)
             noted = noted or at_manifold
             if at_manifold:
                 set_curve_data(items.tested, x, self._head(pump_curve.head_m))
@@ -433,25 +497,56 @@ class HeadFlowPlot(SolutionPlot):
             scenarios.ordered_points(self._solution, current_speed_only=True))
         spots = []
         self._marked = []
+        looks: list[style.PointStyle] = []
+        self._marked_pumps = []
         for point in points:
             x = to_display(float(point.flow_m3_s or 0.0), "flow", self._unit_system)
             y = to_display(float(point.head_m or 0.0), "head", self._unit_system)
-            look = style.operating_point_style(point.static, point.pipe, point.pumps_running)
-            label = scenarios.point_label(point)
-            spots.append({"pos": (x, y), "symbol": look.symbol, "brush": look.brush, "pen": look.pen,
-                          "size": look.size, "data": label})
-            self._marked.append((x, y, label))
+            looks.append(style.operating_point_style(point.static, point.pipe, point.pumps_running))
+            self._marked.append((x, y, scenarios.point_label(point) + speed_phrase(point.speed_ratio)))
+            self._marked_pumps.append(point.pumps_running)
         for set_point in self._pump_set_points():
             x = to_display(float(set_point.flow_m3_s or 0.0), "flow", self._unit_system)
             y = to_display(float(set_point.manifold_head_m or 0.0), "head", self._unit_system)
-            look = style.operating_point_style(set_point.static, set_point.pipe, len(set_point.running))
-            label = scenarios.pump_set_label(set_point)
+            looks.append(style.operating_point_style(set_point.static, set_point.pipe, len(set_point.running)))
+            self._marked.append((x, y, scenarios.pump_set_label(set_point)))
+            self._marked_pumps.append(len(set_point.running))
+        for number, ((x, y, label), look) in enumerate(zip(self._marked, looks, strict=True), start=1):
             spots.append({"pos": (x, y), "symbol": look.symbol, "brush": look.brush, "pen": look.pen,
-                          "size": look.size, "data": label})
-            self._marked.append((x, y, label))
+                          "size": look.size, "data": f"{number}: {label}"})
         self.points_item.setData(spots)
-        update_label_pool(self.plot_item, self._point_labels, self._marked, fill_alpha=150)
+        # Each marker carries its number; the key in the legend gives the number's full label.
+        numbers = [(x, y, str(number)) for number, (x, y, _label) in enumerate(self._marked, start=1)]
+        update_label_pool(self.plot_item, self._point_labels, numbers, fill_alpha=190)
+        self._update_key(looks)
         self._place_point_labels()
+
+    def _update_key(self, looks: list[style.PointStyle]) -> None:
+        """The numbered key: one legend sample per marked point, its marker and ``"n: label"``."""
+        while len(self._key_items) < len(self._marked):
+            self._key_items.append(pg.PlotDataItem([0.0], [0.0], pen=None, symbol="o"))
+        for index, item in enumerate(self._key_items):
+            if index < len(self._marked):
+                look = looks[index]
+                item.setSymbol(look.symbol)
+                item.setSymbolBrush(look.brush)
+                item.setSymbolPen(look.pen)
+                item.setSymbolSize(9)
+                item.opts["name"] = f"{index + 1}: {self._marked[index][2]}"
+            else:
+                item.opts["name"] = None
+
+    def point_key(self) -> list[str]:
+        """The numbered key of the points marked, in number order (``"1: 1 pump · max static · aged"``)."""
+        return [f"{number}: {label}" for number, (_x, _y, label) in enumerate(self._marked, start=1)]
+
+    def point_label_geometry(self) -> list[tuple[QPointF, QRectF]]:
+        """Each marked point's marker centre and its number label's box, in scene coordinates."""
+        out = []
+        for index, (x, y, _label) in enumerate(self._marked):
+            label = self._point_labels[index]
+            out.append((self.view_box.mapViewToScene(QPointF(x, y)), label.mapRectToScene(label.boundingRect())))
+        return out
 
     def _pump_set_points(self) -> list[PumpSetPoint]:
         """The points of the run sequence's sets with other pumps, every pump at its highest speed."""
@@ -475,7 +570,7 @@ class HeadFlowPlot(SolutionPlot):
                 labels.append((end, position.x(), position.y()))
         labels += [(self._point_labels[i], x, y) for i, (x, y, _) in enumerate(self._marked)]
         if labels:
-            place_labels(self.view_box, labels, obstacles=[(x, y) for x, y, _ in self._marked])
+            place_labels(self.view_box, labels, obstacles=[(x, y) for x, y, _ in self._marked], marker_px=6.0)
 
     def _update_design_flow(self) -> None:
         design = None if self._solution is None else self._solution.design_flow_m3_s
@@ -493,11 +588,14 @@ class HeadFlowPlot(SolutionPlot):
 
     def _update_snapshot(self) -> None:
         while len(self._snapshot_items) < len(self._snapshot_si):
-            name = "Pinned snapshot" if not self._snapshot_items else None
-            item = pg.PlotDataItem(empty_array(), empty_array(), name=name, pen=style.snapshot_pen())
+            item = pg.PlotDataItem(empty_array(), empty_array(), pen=style.snapshot_pen())
             item.setZValue(2)
             self.plot_item.addItem(item)
             self._snapshot_items.append(item)
+        if self._snapshot_items:
+            current = None if self._solution is None else self._solution.project
+            self._snapshot_items[0].opts["name"] = pinned_curve_name(self._snapshot_project, current,
+                                                                     self._unit_system)
         for index, item in enumerate(self._snapshot_items):
             if index < len(self._snapshot_si):
                 flow, head = self._snapshot_si[index]
@@ -559,6 +657,9 @@ class HeadFlowPlot(SolutionPlot):
         ordered.extend(items.region for items in self._pump_items.values())
         if self._snapshot_items:
             ordered.append(self._snapshot_items[0])
+        if self._marked:
+            ordered.extend(self._marker_key.items(self._marked_pumps, compact=True))
+            ordered.extend(self._key_items[: len(self._marked)])
         self._legend_sync.sync(ordered)
 
     def _describe_position(self, _index: int, x: float, y: float) -> str:

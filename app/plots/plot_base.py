@@ -507,10 +507,20 @@ class PointKey:
                     [0.0], [0.0], pen=None, symbol="o", symbolBrush=look.brush,
                     symbolPen=look.pen, symbolSize=look.size, name=f"{static} static, {pipe} pipe"))
         self._pump_items: dict[int, pg.PlotDataItem] = {}
+        self.fill_items: list[pg.PlotDataItem] = []
+        for pipe, words in (("new", "filled marker: new pipe"), ("aged", "hollow marker: aged pipe")):
+            brush = pg.mkBrush(style.GREY) if pipe == "new" else pg.mkBrush(style.PLOT_BACKGROUND)
+            self.fill_items.append(pg.PlotDataItem([0.0], [0.0], pen=None, symbol="o", symbolBrush=brush,
+                                                   symbolPen=pg.mkPen(style.GREY, width=2), symbolSize=10,
+                                                   name=words))
 
-    def items(self, pump_counts: Iterable[int]) -> list[pg.PlotDataItem]:
-        """Sample items for the scenarios and for each number of pumps in ``pump_counts``."""
-        out = list(self.scenario_items)
+    def items(self, pump_counts: Iterable[int], compact: bool = False) -> list[pg.PlotDataItem]:
+        """Sample items for the scenarios and for each number of pumps in ``pump_counts``.
+
+        ``compact``: the pipe state by fill only (filled new, hollow aged), for a plot whose
+        curves already tell the static extremes by colour.
+        """
+        out = list(self.fill_items if compact else self.scenario_items)
         for count in sorted(set(pump_counts)):
             item = self._pump_items.get(count)
             if item is None:

@@ -11,9 +11,17 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from PySide6.QtCore import QModelIndex, Qt, Signal
+from PySide6.QtCore import QModelIndex, QPersistentModelIndex, QRect, QSize, Qt, Signal
 from PySide6.QtGui import QBrush, QColor, QFont, QStandardItem, QStandardItemModel
-from PySide6.QtWidgets import QAbstractItemView, QHeaderView, QTreeView, QVBoxLayout, QWidget
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QHeaderView,
+    QStyledItemDelegate,
+    QStyleOptionViewItem,
+    QTreeView,
+    QVBoxLayout,
+    QWidget,
+)
 
 from app import style
 from hydraulics.results import SEVERITY_ORDER, Finding
@@ -25,10 +33,39 @@ _SEVERITY_ROLE = Qt.ItemDataRole.UserRole + 2
 """Item data role holding the severity of a group row."""
 
 COLUMNS = ("Finding", "Where", "Remedy")
+FINDING_COLUMN, WHERE_COLUMN, REMEDY_COLUMN = 0, 1, 2
+WHERE_WIDTH = 170
+"""Width (px) of the "Where" column, shown first; a longer place wraps onto further lines of its row."""
+MAX_ROW_LINES = 4
+"""Lines a finding's row grows to; a longer text ends in "…" (whole in the tooltip)."""
+TEXT_MARGIN_PX = 18
+"""Room (px) the item style takes beside a cell's text."""
 SEVERITIES = tuple(sorted(SEVERITY_ORDER, key=SEVERITY_ORDER.__getitem__))
 
 _Group = tuple[str, list[tuple[int, Finding]]]
 """One severity and its findings, each with its position in :attr:`ChecksPanel.findings`."""
+
+
+class _WrappingDelegate(QStyledItemDelegate):
+    """Rows as tall as their wrapped "Where" and finding texts at the columns' present widths
+    (at most :data:`MAX_ROW_LINES` lines)."""
+
+    def __init__(self, view: QTreeView) -> None:
+        super().__init__(view)
+        self._view = view
+
+    def sizeHint(self, option: QStyleOptionViewItem, index: QModelIndex | QPersistentModelIndex) -> QSize:
+        hint = super().sizeHint(option, index)
+        if index.column() not in (WHERE_COLUMN, FINDING_COLUMN) or not index.parent().isValid():
+            return hint
+        width = self._view.columnWidth(index.column()) - TEXT_MARGIN_PX
+        if index.column() == self._view.treePosition():
+            width -= self._view.indentation() * 2
+        text = str(index.data() or "")
+        wrapped = option.fontMetrics.boundingRect(QRect(0, 0, max(width, 20), 100000),
+                                                  int(Qt.TextFlag.TextWordWrap), text)
+        most = option.fontMetrics.lineSpacing() * MAX_ROW_LINES
+        return QSize(hint.width(), max(hint.height(), min(wrapped.height(), most) + 4))
 
 
 def _group_title(severity: str, count: int) -> str:
@@ -63,10 +100,18 @@ class ChecksPanel(QWidget):
         # tree (and repaint it whole) on every edit that crosses the count that fits.
         self.view.setVerticalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAlwaysOn)
         header = self.view.header()
-        header.setStretchLastSection(True)
-        header.setSectionResizeMode(0, QHeaderView.ResizeMode.Interactive)
-        self.view.setColumnWidth(0, 380)
-        self.view.setColumnWidth(1, 260)
+        header.setStretchLastSection(False)
+        header.setSectionResizeMode(QHeaderView.ResizeMode.Interactive)
+        # "Where" is shown first and the finding fills the rest, both wrapped, so the place and
+        # the text of every finding are in view without scrolling sideways (the model keeps its
+        # columns: finding, where, remedy; the remedy is in every cell's tooltip).
+        header.moveSection(WHERE_COLUMN, 0)
+        header.setSectionResizeMode(FINDING_COLUMN, QHeaderView.ResizeMode.Stretch)
+        self.view.setColumnHidden(REMEDY_COLUMN, True)
+        self.view.setTreePosition(FINDING_COLUMN)
+        self.view.setColumnWidth(WHERE_COLUMN, WHERE_WIDTH)
+        self.view.setItemDelegate(_WrappingDelegate(self.view))
+        header.sectionResized.connect(self._on_column_resized)
         self.view.clicked.connect(self._on_index)
         self.view.activated.connect(self._on_index)
         layout = QVBoxLayout(self)
@@ -174,7 +219,8 @@ class ChecksPanel(QWidget):
         """(text, tooltip) of the three cells of ``finding``'s row."""
         message = finding.text(self._unit_system)
         where, remedy, code = finding.where, finding.remedy, finding.code
-        tooltip = message + (f"\n\nRemedy: {remedy}" if remedy else "") + (f"\n\nCheck: {code}" if code else "")
+        tooltip = ((f"Where: {where}\n\n" if where else "") + message
+                   + (f"\n\nRemedy: {remedy}" if remedy else "") + (f"\n\nCheck: {code}" if code else ""))
         return [(message, tooltip), (where, tooltip), (remedy, tooltip)]
 
     def _finding_row(self, index: int, finding: Finding) -> list[QStandardItem]:
@@ -185,6 +231,15 @@ class ChecksPanel(QWidget):
             cell.setData(index, FINDING_INDEX_ROLE)
             cells.append(cell)
         return cells
+
+    def _on_column_resized(self, logical: int, _old: int, _new: int) -> None:
+        if logical in (WHERE_COLUMN, FINDING_COLUMN):
+            self.view.scheduleDelayedItemsLayout()  # the rows re-measure their wrapped texts
+
+    def where_rect(self, position: int) -> QRect:
+        """The rectangle (viewport coordinates) of the "Where" cell of the finding at ``position``."""
+        index = self.index_of_finding(position)
+        return self.view.visualRect(index.siblingAtColumn(WHERE_COLUMN)) if index.isValid() else QRect()
 
     def _on_index(self, index: QModelIndex) -> None:
         position = index.data(FINDING_INDEX_ROLE)

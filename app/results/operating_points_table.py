@@ -64,31 +64,33 @@ COLUMNS: tuple[Column, ...] = (
     Column("Speed", "percent", lambda p: p.speed_ratio, 3, 1, "Speed as a percentage of rated speed",
            read_share=lambda s: s.speed_ratio),
     Column("Flow", "flow", lambda p: p.flow_m3_s, tooltip="Station flow", read_set=lambda s: s.flow_m3_s),
-    Column("Flow per\npump", "flow", lambda p: p.flow_per_pump_m3_s, read_share=lambda s: s.flow_m3_s),
     Column("Head", "head", lambda p: p.head_m,
            tooltip="Total head of the station at the operating point (of a set: at the manifold; of one "
                    "pump of a set: its own head)",
            read_set=lambda s: s.manifold_head_m, read_share=lambda s: s.head_m),
     Column("Efficiency", "percent", lambda p: p.efficiency, 3, 1, "Pump efficiency at the operating point",
            read_share=lambda s: s.efficiency),
-    Column("Shaft power\ntotal", "power", lambda p: p.shaft_power_total_w,
-           tooltip="Shaft power of all pumps running (of one pump of a set: its own)",
-           read_share=lambda s: s.shaft_power_w),
     Column("Input power", "power", lambda p: p.input_power_w,
            tooltip="Electrical input power of all pumps running (of one pump of a set: its own)",
            read_set=lambda s: s.input_power_w, read_share=lambda s: s.input_power_w),
+    Column("NPSH\nmargin", "head", lambda p: p.npsh_margin_m, tooltip="NPSH available − NPSH required",
+           read_share=lambda s: s.npsh_margin_m),
+    Column("Share of\nBEP flow", "percent", lambda p: p.bep_flow_ratio, 3, 0,
+           "Flow per pump as a percentage of the best-efficiency flow", read_share=lambda s: s.bep_flow_ratio),
+    Column("Flow per\npump", "flow", lambda p: p.flow_per_pump_m3_s, read_share=lambda s: s.flow_m3_s),
+    Column("Shaft power\ntotal", "power", lambda p: p.shaft_power_total_w,
+           tooltip="Shaft power of all pumps running (of one pump of a set: its own)",
+           read_share=lambda s: s.shaft_power_w),
     Column("Specific\nenergy", "specific_energy", lambda p: p.specific_energy_kwh_m3, 3, 4,
            "Electrical energy per volume pumped", read_set=lambda s: s.specific_energy_kwh_m3),
     Column("NPSH\navailable", "head", lambda p: p.npsh_available_m, read_share=lambda s: s.npsh_available_m),
     Column("NPSH\nrequired", "head", lambda p: p.npsh_required_m, read_share=lambda s: s.npsh_required_m),
-    Column("NPSH\nmargin", "head", lambda p: p.npsh_margin_m, tooltip="NPSH available − NPSH required",
-           read_share=lambda s: s.npsh_margin_m),
     Column("NPSH\nratio", None, lambda p: p.npsh_margin_ratio, 3, 2, "NPSH available / NPSH required"),
-    Column("Share of\nBEP flow", "percent", lambda p: p.bep_flow_ratio, 3, 0,
-           "Flow per pump as a percentage of the best-efficiency flow", read_share=lambda s: s.bep_flow_ratio),
     Column("Extrapolated", None, lambda p: p.extrapolated, tooltip="Operating point beyond the pump's tested data",
            read_share=lambda s: s.extrapolated),
 )
+"""Key columns first (scenario, pumps, speed, flow, head, efficiency, input power, NPSH margin, share of
+best-efficiency flow), so they are in view at the default window size; the rest follow."""
 
 FIRST_VALUE_COLUMN = 3
 """Columns from here on hold values; a row without an operating point spans them."""
@@ -212,7 +214,13 @@ class OperatingPointsModel(QAbstractTableModel):
                 text = self._display_cache[key] = self._display(row, column, index.column(), found)
             return text
         if role == Qt.ItemDataRole.ToolTipRole:
-            return self._tooltip(row, column, index.column(), found)
+            tip = self._tooltip(row, column, index.column(), found)
+            if found and index.column() >= 1:
+                shown = self.data(index, Qt.ItemDataRole.DisplayRole)
+                meaning = _blank_meaning(row, str(shown))
+                if meaning:
+                    return meaning + (f"\n\n{tip}" if tip else "")
+            return tip
         if role == Qt.ItemDataRole.TextAlignmentRole:
             if index.column() == 0 or (not found and index.column() == FIRST_VALUE_COLUMN):
                 return _ALIGN_LEFT
@@ -282,6 +290,25 @@ class OperatingPointsModel(QAbstractTableModel):
         elif column.quantity is not None:
             number = to_display(number, column.quantity, self._unit_system)
         return readout_number(number, column.significant, column.max_decimals)
+
+
+BLANK_ON_SET_ROW = "Blank: not a value of the set as a whole; the rows of its running pumps below give their own."
+BLANK_ON_PUMP_ROW = "Blank: a value of the whole set, given on the set's row above."
+MISSING_MEANING = (f"{MISSING}: no value here — the pump data give none for it (no efficiency, power or NPSH "
+                   "required points), or it cannot be computed at this point.")
+
+
+def _blank_meaning(row: Row, shown: str) -> str:
+    """What a blank or "—" cell of ``row`` means (for its tooltip); ``""`` for a cell with a value."""
+    if shown == MISSING:
+        return MISSING_MEANING
+    if shown:
+        return ""
+    if isinstance(row, PumpSetPoint):
+        return BLANK_ON_SET_ROW
+    if isinstance(row, PumpShare):
+        return BLANK_ON_PUMP_ROW
+    return ""
 
 
 def _reader(row: Row, column: Column) -> Callable[[Any], CellValue] | None:

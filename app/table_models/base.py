@@ -64,6 +64,8 @@ class Column:
     limit: str | None = None
     optional: bool = False
     tooltip: str = ""
+    blank: str = ""
+    """What a blank cell of this column means (said in the tooltips), e.g. "the catalogue K is used"."""
 
     @property
     def editable(self) -> bool:
@@ -289,10 +291,12 @@ class ProjectTableModel(QAbstractTableModel):
 
     def _column_tooltip(self, column: Column) -> str:
         parts = [column.tooltip] if column.tooltip else []
+        if column.blank:
+            parts.append(f"Blank: {column.blank}")
         if column.kind == "number" and column.limit is not None and column.quantity is not None:
             parts.append(f"Allowed: {range_text(LIMITS[column.limit], column.quantity, self.unit_system)}.")
             parts.append("A bare number is read in the unit shown; any unit may be typed (\"300 mm\", \"12 in\").")
-        if column.optional:
+        if column.optional and not column.blank:
             parts.append("Leave blank for none.")
         return " ".join(parts)
 
@@ -375,7 +379,12 @@ class ProjectTableModel(QAbstractTableModel):
         if column.optional and self.value(project, row, column) is None:
             hint = self.derived_hint(project, row, column)
             if hint is not None:
+                if column.blank:
+                    return f"Blank: {column.blank} Type a value to override it."
                 return "Catalogue value; type a value to override it."
+        if column.blank and self.display(project, row, column) == "":
+            rest = self._column_tooltip(column).replace(f"Blank: {column.blank}", "").strip()
+            return f"Blank: {column.blank}" + (f"\n\n{rest}" if rest else "")
         return self._column_tooltip(column) or None
 
     def setData(self, index: ModelIndex, value: Any, role: int = Qt.ItemDataRole.EditRole) -> bool:

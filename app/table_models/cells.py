@@ -12,7 +12,7 @@ from __future__ import annotations
 import math
 
 from hydraulics.model import ModelError
-from hydraulics.number_format import plain_number
+from hydraulics.number_format import cell_number, plain_number
 from hydraulics.units import UnitInputError, display_unit, parse_quantity, to_display, unit_label
 from hydraulics.validation import LIMITS, Limit
 
@@ -20,7 +20,7 @@ EDIT_DIGITS = 10
 """Significant digits put in an editor: enough that re-entering the text changes nothing."""
 
 DISPLAY_DIGITS = 5
-"""Significant digits shown in a cell (11.811 in, 204.2 mm, 1250.5 m)."""
+"""Significant digits shown in an SI cell (204.2 mm, 1250.5 m); US values follow their own rule."""
 
 SAME_VALUE_TOLERANCE = 1e-9
 """Relative difference below which a re-typed value counts as unchanged."""
@@ -31,10 +31,13 @@ class CellError(ValueError):
 
 
 def display_text(value_si: float | None, quantity: str, system: str, digits: int = DISPLAY_DIGITS) -> str:
-    """The text of a stored value in the display unit of ``system`` (no unit label)."""
+    """The text of a stored value in the display unit of ``system`` (no unit label).
+
+    US customary values are rounded by :func:`hydraulics.number_format.cell_number` (29.5 ft, 8.13 in).
+    """
     if value_si is None:
         return ""
-    return plain_number(float(to_display(float(value_si), quantity, system)), digits)
+    return cell_number(float(to_display(float(value_si), quantity, system)), quantity, system, digits)
 
 
 def edit_text(value_si: float | None, quantity: str, system: str) -> str:

@@ -37,14 +37,17 @@ _COLUMNS: tuple[Column, ...] = (
            tooltip="K of one fitting from the catalogue at this segment's bore, "
                    "referred to the segment velocity."),
     Column("k_override", "K override", quantity="dimensionless", limit="fitting.k_override", optional=True,
-           tooltip="Your own K for one fitting, e.g. from a manufacturer; replaces the catalogue K."),
+           tooltip="Your own K for one fitting, e.g. from a manufacturer; replaces the catalogue K.",
+           blank="the catalogue K is used."),
     Column("angle_deg", "Cone angle", quantity="dimensionless", limit="fitting.angle_deg", optional=True,
-           tooltip="Included cone angle of a conical reducer or expander, in degrees; blank for a sudden "
-                   "one (180°). Used by reducers and expanders only."),
+           tooltip="Included cone angle of a conical reducer or expander, in degrees. Used by reducers and "
+                   "expanders only.",
+           blank="a sudden reducer or expander (180°); nothing for other fittings."),
     Column("other_diameter_m", "Upstream bore", quantity="diameter", limit="fitting.other_diameter_m",
            optional=True,
-           tooltip="Bore on the upstream side of a reducer or expander at this segment's inlet; blank for the "
-                   "previous segment's bore in flow order (shown in grey). Used by reducers and expanders only."),
+           tooltip="Bore on the upstream side of a reducer or expander at this segment's inlet. Used by reducers "
+                   "and expanders only.",
+           blank="the previous segment's bore in flow order (shown in grey); nothing for other fittings."),
 )
 
 _BORE_CHANGE_METHODS = frozenset({"reducer", "expander"})

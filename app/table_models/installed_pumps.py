@@ -4,7 +4,7 @@ The first rows are the arrangement's identical duty and standby pumps, read-only
 count, speed and efficiencies are set under "How the station runs it"), so the whole list
 shows in one place; the rows after them are the pumps installed beside them
 (:attr:`hydraulics.model.Project.other_pumps`), each with its model, role, speed control,
-speeds, impeller trim and motor and drive efficiencies.  The tags are those of
+speeds, impeller diameter and motor and drive efficiencies.  The tags are those of
 :func:`hydraulics.pump_set.installed_pumps` (the results and the reports use the same).
 
 Every edit goes through :mod:`hydraulics.project_edits` and is checked by the document
@@ -45,15 +45,17 @@ _COLUMNS: tuple[Column, ...] = (
            tooltip="Speed it runs at in the operating points, as a percentage of rated speed "
                    "(a variable-speed pump's highest)."),
     Column("min_speed_ratio", "Lowest speed", quantity="ratio_percent", limit="arrangement.speed_ratio",
-           tooltip="Lowest speed of a variable-speed pump, as a percentage of rated speed."),
-    Column("trim_ratio", "Impeller trim", quantity="ratio_percent", limit="arrangement.trim_ratio",
-           tooltip="Impeller diameter as a percentage of the tested diameter."),
+           tooltip="Lowest speed of a variable-speed pump, as a percentage of rated speed.",
+           blank="a fixed-speed pump: it runs only at its speed."),
+    Column("trim_ratio", "Impeller diameter", quantity="ratio_percent", limit="arrangement.trim_ratio",
+           tooltip="Impeller diameter as a percentage of the tested one (100 %: not trimmed). The trim is the "
+                   "reduction: a diameter of 95 % is a 5 % trim."),
     Column("motor_efficiency", "Motor efficiency", quantity="ratio_percent", limit="arrangement.efficiency"),
     Column("drive_efficiency", "Drive efficiency", quantity="ratio_percent", limit="arrangement.efficiency",
            tooltip="Efficiency of the variable-speed drive; 100 % for a motor direct on line."),
     Column("motor_rating_w", "Motor rating", quantity="power", limit="arrangement.motor_rating_w", optional=True,
-           tooltip="The motor's rated output power; blank when not chosen yet (the check then gives the "
-                   "non-overloading size only)."),
+           tooltip="The motor's rated output power.",
+           blank="no motor chosen yet; the check then gives the non-overloading size only."),
     Column("service_factor", "Service factor", quantity="dimensionless", limit="arrangement.service_factor",
            tooltip="NEMA MG 1 motors 1.0 or 1.15, IEC motors 1.0 (common practice)."),
 )

@@ -26,9 +26,15 @@ _COLUMNS: tuple[Column, ...] = (
     Column("flow_m3_s", "Flow", quantity="flow", limit="pump.flow_m3_s", tooltip="Flow of one pump."),
     Column("head_m", "Head", quantity="head", limit="pump.head_m", tooltip="Head of one pump at rated speed."),
     Column("efficiency", "Efficiency", quantity="ratio_percent", limit="pump.efficiency", optional=True,
-           tooltip="Pump (hydraulic) efficiency."),
-    Column("npsh_required_m", "NPSH required", quantity="head", limit="pump.npsh_required_m", optional=True),
-    Column("shaft_power_w", "Shaft power", quantity="power", limit="pump.shaft_power_w", optional=True),
+           tooltip="Pump (hydraulic) efficiency.",
+           blank="not given at this point (give it at every point or at none; none: no efficiency, power or "
+                 "energy results)."),
+    Column("npsh_required_m", "NPSH required", quantity="head", limit="pump.npsh_required_m", optional=True,
+           blank="not given at this point (give it at every point or at none; none: the NPSH margin is not "
+                 "checked)."),
+    Column("shaft_power_w", "Shaft power", quantity="power", limit="pump.shaft_power_w", optional=True,
+           blank="not given at this point (give it at every point or at none; none: the power follows from "
+                 "head, flow and efficiency)."),
 )
 _ATTRIBUTES = tuple(c.key for c in _COLUMNS)
 _OPTIONAL = tuple(c.key for c in _COLUMNS if c.optional)

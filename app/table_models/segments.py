@@ -45,24 +45,29 @@ _COMMON_COLUMNS: tuple[Column, ...] = (
     Column("pipe_series", "Pipe series", kind="choice",
            tooltip="A product series whose sizes set the bore; \"typed\" when the diameter was typed."),
     Column("start_elevation", "Start elevation", quantity="elevation", limit="segment.elevation_m", optional=True,
-           tooltip="Pipe elevation at the start (used to find a high point above the delivery level)."),
-    Column("end_elevation", "End elevation", quantity="elevation", limit="segment.elevation_m", optional=True),
+           tooltip="Pipe elevation at the start (used to find a high point above the delivery level).",
+           blank="not given: this segment is left out of the high-point check."),
+    Column("end_elevation", "End elevation", quantity="elevation", limit="segment.elevation_m", optional=True,
+           tooltip="Pipe elevation at the end (used to find a high point above the delivery level).",
+           blank="not given: this segment is left out of the high-point check."),
     Column("parallel_pipes", "Parallel pipes", quantity="dimensionless", limit="segment.parallel_pipes",
            tooltip="Identical pipes sharing the flow."),
 )
 
 _DARCY_COLUMNS: tuple[Column, ...] = (
     Column("roughness_new", "Roughness, new", quantity="roughness", limit="segment.roughness_m", optional=True,
-           tooltip="Absolute roughness of new pipe."),
+           tooltip="Absolute roughness of new pipe.", blank="the material catalogue's value (shown in grey)."),
     Column("roughness_aged", "Roughness, aged", quantity="roughness", limit="segment.roughness_m", optional=True,
-           tooltip="Absolute roughness of aged pipe."),
+           tooltip="Absolute roughness of aged pipe.", blank="the material catalogue's value (shown in grey)."),
 )
 
 _HAZEN_COLUMNS: tuple[Column, ...] = (
     Column("hw_c_new", "H–W C, new", quantity="dimensionless", limit="segment.hw_c", optional=True,
-           tooltip="Hazen–Williams coefficient of new pipe."),
+           tooltip="Hazen–Williams coefficient of new pipe.",
+           blank="the material catalogue's value (shown in grey)."),
     Column("hw_c_aged", "H–W C, aged", quantity="dimensionless", limit="segment.hw_c", optional=True,
-           tooltip="Hazen–Williams coefficient of aged pipe."),
+           tooltip="Hazen–Williams coefficient of aged pipe.",
+           blank="the material catalogue's value (shown in grey)."),
 )
 
 _VELOCITY_COLUMN = Column("velocity", "Velocity at design flow", kind="readonly", quantity="velocity",
