@@ -156,8 +156,9 @@ def pump_source_texts(pump: PumpModel) -> tuple[str, str]:
     else:
         text = "Source: typed in or example data (no data file)"
     if comments:
-        shown = comments[:SOURCE_COMMENT_LINES] + (["…"] if len(comments) > SOURCE_COMMENT_LINES else [])
-        text += "\n" + "\n".join(f"  # {line}" for line in shown)
+        text += "\n" + "\n".join(f"  # {line}" for line in comments[:SOURCE_COMMENT_LINES])
+        if len(comments) > SOURCE_COMMENT_LINES:
+            text += f"\n  … {len(comments) - SOURCE_COMMENT_LINES} more (every line in the tooltip)"
     if comments:
         tooltip = "\n".join([f"Pump data read from {pump.source_file or 'a file'}:", *(f"# {c}" for c in comments)])
     elif pump.source_file:
@@ -207,6 +208,7 @@ class PumpsPanel(QWidget):
         self.source_label.setObjectName("pump_source")
         self.source_label.setWordWrap(True)
         self.source_label.setTextInteractionFlags(Qt.TextInteractionFlag.TextSelectableByMouse)
+        self.source_label.setStyleSheet("color: #505050;")
         layout.addWidget(self.source_label)
 
         self.pump_form = FormPanel(document, "pump", PUMP_SECTIONS)
