@@ -53,6 +53,17 @@ ACTIONS: tuple[ActionSpec, ...] = (
                "Remove the pinned snapshot", True),
     ActionSpec("fit_view", "&Fit plots to data", "fit_plots", "Ctrl+0",
                "Return the plots to the automatic view of their data"),
+    # File ▸ Export and Edit ▸ Copy plot (every export entry of the window is declared here and in EXPORT_MENU)
+    ActionSpec("export_curves", "&System curves (CSV)…", "export_system_curves",
+               tip="Write the system curves (flow, total head and its parts) as a CSV table"),
+    ActionSpec("export_points", "&Operating points (CSV)…", "export_operating_points",
+               tip="Write every operating point, with each pump's share in sets of other models, as a CSV table"),
+    ActionSpec("export_segments", "S&egments (CSV)…", "export_segments",
+               tip="Write the segment table at the design flow as a CSV table"),
+    ActionSpec("export_png", "Plot as &PNG…", "export_plot_png", tip="Save the plot now shown as a PNG image"),
+    ActionSpec("export_svg", "Plot as S&VG…", "export_plot_svg", tip="Save the plot now shown as an SVG drawing"),
+    ActionSpec("copy_plot", "Copy p&lot", "copy_plot", "Ctrl+Shift+C",
+               "Copy the plot now shown to the clipboard as an image"),
     ActionSpec("methods", "&Methods and references", "show_methods", QKeySequence.StandardKey.HelpContents,
                "The methods used, with their references, and the cautions"),
     ActionSpec("shortcuts", "&Keyboard shortcuts", "show_shortcuts"),
@@ -60,12 +71,16 @@ ACTIONS: tuple[ActionSpec, ...] = (
 )
 
 MENUS: tuple[tuple[str, tuple[str | None, ...]], ...] = (
-    ("&File", ("new", "open", "@samples", "@recent", None, "save", "save_as", None, "quit")),
-    ("&Edit", ("undo", "redo", None, "copy", "paste", None, "larger_pipe", "smaller_pipe")),
+    ("&File", ("new", "open", "@samples", "@recent", None, "save", "save_as", None, "@export", None, "quit")),
+    ("&Edit", ("undo", "redo", None, "copy", "paste", "copy_plot", None, "larger_pipe", "smaller_pipe")),
     ("&View", ("@units", None, "pin", "clear_pin", "fit_view")),
     ("&Help", ("methods", "shortcuts", None, "about")),
 )
 """Menu titles and their entries: action keys, ``None`` for a separator, ``@name`` for a submenu."""
+
+EXPORT_MENU: tuple[str, tuple[str | None, ...]] = (
+    "&Export", ("export_curves", "export_points", "export_segments", None, "export_png", "export_svg"))
+"""File ▸ Export: the CSV tables, then the images of the plot now shown."""
 
 TOOLBAR: tuple[str | None, ...] = ("new", "open", "save", None, "undo_button", "redo_button", None,
                                   "smaller_pipe", "larger_pipe", None, "pin", "clear_pin", None, "@units")
@@ -156,6 +171,18 @@ def build_menus(window: QMainWindow, actions: dict[str, QAction], submenus: dict
                 menu.addAction(actions[entry])
 
 
+def build_submenu(parent: QWidget, actions: dict[str, QAction], declared: tuple[str, tuple[str | None, ...]]) -> QMenu:
+    """A submenu from its declaration ``(title, entries)`` (action keys, ``None`` for a separator)."""
+    title, entries = declared
+    menu = QMenu(title, parent)
+    for entry in entries:
+        if entry is None:
+            menu.addSeparator()
+        else:
+            menu.addAction(actions[entry])
+    return menu
+
+
 def build_toolbar(window: QMainWindow, actions: dict[str, QAction], widgets: dict[str, QWidget]) -> QToolBar:
     """The main tool bar from :data:`TOOLBAR` (``@name`` entries are widgets)."""
     toolbar = QToolBar("Main", window)
@@ -180,7 +207,7 @@ def shortcut_rows(actions: dict[str, QAction]) -> list[tuple[str, str]]:
     """``(command, shortcut)`` for every action that has one, plus the table keys."""
     rows = []
     for key in ("new", "open", "save", "save_as", "undo", "redo", "copy", "paste", "larger_pipe",
-                "smaller_pipe", "pin", "clear_pin", "fit_view", "methods", "quit"):
+                "smaller_pipe", "copy_plot", "pin", "clear_pin", "fit_view", "methods", "quit"):
         action = actions[key]
         shortcut = action.shortcut().toString(QKeySequence.SequenceFormat.NativeText)
         if shortcut:
