@@ -77,7 +77,7 @@ class MainWindow(QMainWindow):
             self.document.setParent(self)  # the window owns its document
         self._remember_layout = remember_layout
         self.files = FileController(self)
-        self.exports = ExportController(self)
+        self.exports = ExportController(self)  # File > Export and Edit > Copy plot
         self._help_dialog: HelpDialog | None = None
         self._build_widgets()
         self._build_layout()
@@ -165,10 +165,8 @@ class MainWindow(QMainWindow):
             units_menu.addAction(action)
         self.samples_menu = self.files.samples_menu()
         self.recent_menu = self.files.recent_menu()
-        self.export_menu = action_table.build_submenu(self, self.named_actions, action_table.EXPORT_MENU)
         action_table.build_menus(self, self.named_actions,
-                                 {"units": units_menu, "samples": self.samples_menu, "recent": self.recent_menu,
-                                  "export": self.export_menu})
+                                 {"units": units_menu, "samples": self.samples_menu, "recent": self.recent_menu})
         self.toolbar = action_table.build_toolbar(self, self.named_actions, {"units": self.units_combo})
         self._show_unit_system(self.document.unit_system)
 
@@ -357,24 +355,6 @@ class MainWindow(QMainWindow):
     def fit_plots(self) -> None:
         self.plot_tabs.fit_view()
 
-    def export_system_curves(self) -> None:
-        self.exports.export_table("curves")
-
-    def export_operating_points(self) -> None:
-        self.exports.export_table("points")
-
-    def export_segments(self) -> None:
-        self.exports.export_table("segments")
-
-    def export_plot_png(self) -> None:
-        self.exports.export_plot("png")
-
-    def export_plot_svg(self) -> None:
-        self.exports.export_plot("svg")
-
-    def copy_plot(self) -> None:
-        self.exports.copy_plot()
-
     def show_methods(self) -> None:
         if self._help_dialog is None:
             self._help_dialog = HelpDialog(self, self.document.project.criteria)
@@ -404,12 +384,6 @@ class MainWindow(QMainWindow):
     def ask_save_path(self) -> str:
         suggested = str(Path(self._start_folder()) / (self.document.display_name() + FILE_SUFFIX))
         path, _filter = QFileDialog.getSaveFileName(self, "Save project as", suggested, PROJECT_FILTER)
-        return path
-
-    def ask_export_path(self, title: str, suggested_name: str, file_filter: str) -> str:
-        """Which file to export to ("" to cancel)."""
-        suggested = str(Path(self._start_folder()) / suggested_name)
-        path, _filter = QFileDialog.getSaveFileName(self, title, suggested, file_filter)
         return path
 
     def show_error(self, title: str, text: str) -> None:

@@ -1,9 +1,10 @@
 """File ▸ Export and Edit ▸ Copy plot: the results as CSV tables, the visible plot as PNG, SVG or on the clipboard.
 
 The tables come from :mod:`hydraulics.csv_export` in the window's unit system; the
-images from :mod:`app.plots.plot_image`.  Which file to write is asked through the
-window's ``ask_export_path`` (tests replace it); a failure is shown with ``show_error``
-and nothing half-written is left behind (every file is written atomically).
+images from :mod:`app.plots.plot_image`.  Which file to write is asked by
+:meth:`ExportController.ask_export_path` (tests replace it, as they replace the window's
+``ask_*`` questions); a failure is shown with the window's ``show_error`` and nothing
+half-written is left behind (every file is written atomically).
 """
 
 from __future__ import annotations
@@ -15,7 +16,7 @@ from typing import Protocol
 
 from PySide6.QtCore import QObject
 from PySide6.QtGui import QGuiApplication
-from PySide6.QtWidgets import QWidget
+from PySide6.QtWidgets import QFileDialog, QWidget
 
 from app.document import ProjectDocument
 from app.plots import plot_image
@@ -45,8 +46,6 @@ class ExportWindow(Protocol):
     @property
     def plot_tabs(self) -> PlotTabs: ...
 
-    def ask_export_path(self, title: str, suggested_name: str, file_filter: str) -> str: ...
-
     def show_error(self, title: str, text: str) -> None: ...
 
     def show_status(self, message: str) -> None: ...
@@ -67,8 +66,33 @@ class ExportController(QObject):
     """Carries out the export commands for a main window (see the module docstring)."""
 
     def __init__(self, window: ExportWindow) -> None:
-        super().__init__(window if isinstance(window, QWidget) else None)
+        self._dialog_parent = window if isinstance(window, QWidget) else None
+        super().__init__(self._dialog_parent)
         self._window = window
+
+    # ------------------------------------------------------------------ the question (tests replace it)
+    def ask_export_path(self, title: str, suggested_name: str, file_filter: str) -> str:
+        """Which file to export to, beside the project file ("" to cancel)."""
+        folder = self._window.document.file_path
+        start = (folder.parent if folder is not None else Path.home()) / suggested_name
+        path, _filter = QFileDialog.getSaveFileName(self._dialog_parent, title, str(start), file_filter)
+        return path
+
+    # ------------------------------------------------------------------ the menu commands
+    def export_system_curves(self) -> None:
+        self.export_table("curves")
+
+    def export_operating_points(self) -> None:
+        self.export_table("points")
+
+    def export_segments(self) -> None:
+        self.export_table("segments")
+
+    def export_plot_png(self) -> None:
+        self.export_plot("png")
+
+    def export_plot_svg(self) -> None:
+        self.export_plot("svg")
 
     # ------------------------------------------------------------------ tables
     def export_table(self, key: str) -> Path | None:
@@ -77,7 +101,7 @@ class ExportController(QObject):
         solution = self._current_solution(f"Export {title.lower()}")
         if solution is None:
             return None
-        chosen = self._window.ask_export_path(f"Export {title.lower()} (CSV)", self._suggested(part, ".csv"),
+        chosen = self.ask_export_path(f"Export {title.lower()} (CSV)", self._suggested(part, ".csv"),
                                               CSV_FILTER)
         if not chosen:
             return None
@@ -94,7 +118,7 @@ class ExportController(QObject):
         if self._current_solution(f"Export the {name} plot") is None:
             return None
         extension, file_filter = (".png", PNG_FILTER) if kind == "png" else (".svg", SVG_FILTER)
-        chosen = self._window.ask_export_path(f"Export the {name} plot as {kind.upper()}",
+        chosen = self.ask_export_path(f"Export the {name} plot as {kind.upper()}",
                                               self._suggested(_file_part(name), extension), file_filter)
         if not chosen:
             return None

@@ -37,7 +37,7 @@ class ExportAnswers:
 def shown(window, qtbot, monkeypatch):
     """The hilltop window shown (the plots laid out at their size), its export question answered."""
     answers = ExportAnswers()
-    monkeypatch.setattr(window, "ask_export_path", answers)
+    monkeypatch.setattr(window.exports, "ask_export_path", answers)
     window.show()
     qtbot.waitExposed(window)
     window.answers = answers
@@ -56,11 +56,12 @@ def _table_rows(text: str) -> list[list[str]]:
 
 
 def test_the_export_entries_are_in_the_file_and_edit_menus(shown):
-    titles = [a.text() for a in shown.export_menu.actions() if not a.isSeparator()]
+    export_menu = shown.findChild(QMenu, "menu_export")
+    titles = [a.text() for a in export_menu.actions() if not a.isSeparator()]
     assert titles == ["&System curves (CSV)…", "&Operating points (CSV)…", "S&egments (CSV)…", "Plot as &PNG…",
                       "Plot as S&VG…"]
     menus = {m.title(): m for m in shown.menuBar().findChildren(QMenu)}
-    assert shown.export_menu.menuAction() in menus["&File"].actions()
+    assert export_menu.menuAction() in menus["&File"].actions()
     assert shown.named_actions["copy_plot"] in menus["&Edit"].actions()
 
 
@@ -85,7 +86,7 @@ def test_names_with_formulas_come_out_neutralised(shown, tmp_path):
     segments = (replace(project.segments[0], name="@SUM(1+1)"), *project.segments[1:])
     assert document.apply(replace(project, name=INJECTION, segments=segments), "Rename")
     shown.answers.path = tmp_path / "segments.csv"
-    shown.export_segments()  # the pending solve runs first: the table is of the renamed project
+    shown.exports.export_segments()  # the pending solve runs first: the table is of the renamed project
     rows = _table_rows((tmp_path / "segments.csv").read_bytes().decode("utf-8"))
     assert rows[0] == ["project", "'" + INJECTION]
     assert rows[csv_export.PREAMBLE_ROWS + 1][0] == "'@SUM(1+1)"
@@ -93,15 +94,15 @@ def test_names_with_formulas_come_out_neutralised(shown, tmp_path):
 
 def test_a_cancelled_question_writes_nothing(shown, tmp_path, dialogs):
     shown.answers.path = ""
-    shown.export_system_curves()
-    shown.export_plot_png()
+    shown.exports.export_system_curves()
+    shown.exports.export_plot_png()
     assert list(tmp_path.glob("*.csv")) == [] and list(tmp_path.glob("*.png")) == []
     assert dialogs.errors == []
 
 
 def test_a_file_that_cannot_be_written_is_reported(shown, tmp_path, dialogs):
     shown.answers.path = tmp_path / "no such folder" / "curves.csv"
-    shown.export_system_curves()
+    shown.exports.export_system_curves()
     assert dialogs.errors and dialogs.errors[0][0] == "Export failed"
     assert "curves.csv" in dialogs.errors[0][1]
 
@@ -111,7 +112,7 @@ def test_the_png_has_the_plots_size_and_shows_it(shown, tmp_path, tab):
     shown.plot_tabs.setCurrentIndex(tab)
     QApplication.processEvents()
     shown.answers.path = tmp_path / "plot.png"
-    shown.export_plot_png()
+    shown.exports.export_plot_png()
     image = QImage(str(tmp_path / "plot.png"))
     canvas = shown.plot_tabs.current_canvas()
     assert not image.isNull()
@@ -141,7 +142,7 @@ def test_the_svg_is_valid_xml_with_drawn_content(shown, tmp_path, tab):
     shown.plot_tabs.setCurrentIndex(tab)
     QApplication.processEvents()
     shown.answers.path = tmp_path / "plot"
-    shown.export_plot_svg()
+    shown.exports.export_plot_svg()
     canvas = shown.plot_tabs.current_canvas()
     _check_svg((tmp_path / "plot.svg").read_text(encoding="utf-8"), canvas.viewport().width(),
                canvas.viewport().height())
@@ -153,7 +154,7 @@ def test_the_svg_falls_back_to_the_svg_generator(shown, tmp_path, monkeypatch, c
 
     monkeypatch.setattr(plot_image.pg_exporters, "SVGExporter", failing)
     shown.answers.path = tmp_path / "fallback.svg"
-    shown.export_plot_svg()
+    shown.exports.export_plot_svg()
     canvas = shown.plot_tabs.current_canvas()
     _check_svg((tmp_path / "fallback.svg").read_text(encoding="utf-8"), canvas.viewport().width(),
                canvas.viewport().height())
