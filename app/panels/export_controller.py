@@ -144,7 +144,7 @@ class ExportController(QObject):
         self._window.show_status(f"The {name} plot copied as an image ({image.width()} × {image.height()} px).")
         return True
 
-    # ------------------------------------------------------------------ helpers
+    # ------------------------------------------------------------------ shared steps
     def _current_solution(self, what: str) -> Solution | None:
         """The solution of the project as it is now (a pending solve is run first), or ``None`` with a message."""
         document = self._window.document

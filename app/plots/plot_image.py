@@ -83,14 +83,14 @@ def svg_by_generator(canvas: pg.GraphicsView) -> str:
     generator.setTitle("PumpSketch plot")
     painter = QPainter(generator)
     # pyqtgraph items draw for export (no screen caches) while export mode is on
-    helper = pg_exporters.ImageExporter(canvas.scene())
+    switch = pg_exporters.ImageExporter(canvas.scene())
     try:
         painter.setRenderHint(QPainter.RenderHint.Antialiasing, True)
         painter.fillRect(target, QColor(EXPORT_BACKGROUND))
-        helper.setExportMode(True, {"antialias": True, "background": QColor(EXPORT_BACKGROUND), "painter": painter})
+        switch.setExportMode(True, {"antialias": True, "background": QColor(EXPORT_BACKGROUND), "painter": painter})
         canvas.scene().render(painter, target, source)
     finally:
-        helper.setExportMode(False)
+        switch.setExportMode(False)
         painter.end()
     buffer.close()
     return bytes(data.data()).decode("utf-8")
