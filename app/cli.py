@@ -8,6 +8,8 @@
 ``pumpsketch import-pump CSV [--speed RPM]``          validate pump data and show the fit
 ``pumpsketch shot FILE -o OUT.png``                   render the window offscreen to a PNG
 ``pumpsketch shot --sample NAME -o OUT.png``          the same for a bundled sample
+``pumpsketch export FILE [--sample NAME] [--units SI|US] --curves F --points F --segments F``
+                                                     write the results as CSV tables (at least one)
 
 Exit status: 0 on success, 2 on bad input (with a one-line reason on stderr).
 """
@@ -24,7 +26,7 @@ from typing import TYPE_CHECKING
 if TYPE_CHECKING:  # the engine is imported by each sub-command only, to keep start-up short
     from hydraulics.results import Solution
 
-SUBCOMMANDS = ("solve", "import-pump", "shot")
+SUBCOMMANDS = ("solve", "import-pump", "shot", "export")
 BAD_INPUT = 2
 
 
@@ -111,6 +113,38 @@ def _cmd_shot(args: argparse.Namespace) -> int:
     return 0
 
 
+EXPORT_TABLES = (("curves", "system curves"), ("points", "operating points"), ("segments", "segments"))
+"""The CSV tables of ``pumpsketch export``: option name, what it holds."""
+
+
+def _cmd_export(args: argparse.Namespace) -> int:
+    outputs = [(option, Path(getattr(args, option))) for option, _what in EXPORT_TABLES
+               if getattr(args, option) is not None]
+    if not outputs:
+        raise BadInputError("export: give at least one of --curves F, --points F, --segments F")
+    file = _project_file(args)
+    resolved = [path.resolve() for _option, path in outputs]
+    for (option, path), full in zip(outputs, resolved, strict=True):
+        if full == Path(file).resolve():
+            raise BadInputError(f"--{option}: {path} is the project file itself; choose another file name")
+        if resolved.count(full) > 1:
+            raise BadInputError(f"--{option}: {path} is given for two tables; give each its own file")
+        if not full.parent.is_dir():
+            raise BadInputError(f"--{option}: {path.parent}: no such folder")
+    solution = _load_and_solve(file)
+    from hydraulics import csv_export
+
+    writers = {"curves": csv_export.system_curves_csv, "points": csv_export.operating_points_csv,
+               "segments": csv_export.segments_csv}
+    for option, path in outputs:
+        try:
+            csv_export.write_csv(str(path), writers[option](solution, args.units))
+        except OSError as exc:
+            raise BadInputError(f"--{option}: {path}: {exc.strerror or exc}") from None
+        print(f"wrote {path}")
+    return 0
+
+
 def _open_sample(names: list[str]) -> int:
     from app.samples import sample_names, sample_path
 
@@ -150,6 +184,13 @@ def build_parser() -> argparse.ArgumentParser:
     shot.add_argument("--width", type=int, default=1500)
     shot.add_argument("--height", type=int, default=950)
     shot.set_defaults(handler=_cmd_shot)
+    export = sub.add_parser("export", help="write the system curves, operating points and segments as CSV tables")
+    export.add_argument("file", nargs="?", help="the project file (*.pumpsketch.json)")
+    export.add_argument("--sample", metavar="NAME", help="export a bundled sample instead of a file")
+    export.add_argument("--units", choices=("SI", "US"), default="SI", help="unit system of the tables (default SI)")
+    for option, what in EXPORT_TABLES:
+        export.add_argument(f"--{option}", metavar="F", default=None, help=f"write the {what} to the CSV file F")
+    export.set_defaults(handler=_cmd_export)
     return parser
 
 

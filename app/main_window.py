@@ -36,6 +36,7 @@ from app.layout_barrier import LayoutBarrier
 from app.panels import actions as action_table
 from app.panels.criteria import CriteriaPanel
 from app.panels.duty import DutyPanel
+from app.panels.export_controller import ExportController
 from app.panels.file_controller import FileController
 from app.panels.message_bar import MessageBar
 from app.panels.pipework import PipeworkPanel
@@ -76,6 +77,7 @@ class MainWindow(QMainWindow):
             self.document.setParent(self)  # the window owns its document
         self._remember_layout = remember_layout
         self.files = FileController(self)
+        self.exports = ExportController(self)  # File > Export and Edit > Copy plot
         self._help_dialog: HelpDialog | None = None
         self._build_widgets()
         self._build_layout()

@@ -22,7 +22,7 @@ SMALLER_PIPE_SHORTCUT = "Ctrl+Down"
 
 @dataclass(frozen=True)
 class ActionSpec:
-    """One command of the window: ``slot`` is the name of a window method."""
+    """One command of the window: ``slot`` names a window method (``"exports.copy_plot"``: a method of a part)."""
 
     key: str
     text: str
@@ -53,6 +53,19 @@ ACTIONS: tuple[ActionSpec, ...] = (
                "Remove the pinned snapshot", True),
     ActionSpec("fit_view", "&Fit plots to data", "fit_plots", "Ctrl+0",
                "Return the plots to the automatic view of their data"),
+    # File ▸ Export and Edit ▸ Copy plot (every export entry of the window is declared here and in SUBMENUS)
+    ActionSpec("export_curves", "&System curves (CSV)…", "exports.export_system_curves",
+               tip="Write the system curves (flow, total head and its parts) as a CSV table"),
+    ActionSpec("export_points", "&Operating points (CSV)…", "exports.export_operating_points",
+               tip="Write every operating point, with each pump's share in sets of other models, as a CSV table"),
+    ActionSpec("export_segments", "S&egments (CSV)…", "exports.export_segments",
+               tip="Write the segment table at the design flow as a CSV table"),
+    ActionSpec("export_png", "Plot as &PNG…", "exports.export_plot_png",
+               tip="Save the plot now shown as a PNG image"),
+    ActionSpec("export_svg", "Plot as S&VG…", "exports.export_plot_svg",
+               tip="Save the plot now shown as an SVG drawing"),
+    ActionSpec("copy_plot", "Copy p&lot", "exports.copy_plot", "Ctrl+Shift+C",
+               "Copy the plot now shown to the clipboard as an image"),
     ActionSpec("methods", "&Methods and references", "show_methods", QKeySequence.StandardKey.HelpContents,
                "The methods used, with their references, and the cautions"),
     ActionSpec("shortcuts", "&Keyboard shortcuts", "show_shortcuts"),
@@ -60,12 +73,18 @@ ACTIONS: tuple[ActionSpec, ...] = (
 )
 
 MENUS: tuple[tuple[str, tuple[str | None, ...]], ...] = (
-    ("&File", ("new", "open", "@samples", "@recent", None, "save", "save_as", None, "quit")),
-    ("&Edit", ("undo", "redo", None, "copy", "paste", None, "larger_pipe", "smaller_pipe")),
+    ("&File", ("new", "open", "@samples", "@recent", None, "save", "save_as", None, "@export", None, "quit")),
+    ("&Edit", ("undo", "redo", None, "copy", "paste", "copy_plot", None, "larger_pipe", "smaller_pipe")),
     ("&View", ("@units", None, "pin", "clear_pin", "fit_view")),
     ("&Help", ("methods", "shortcuts", None, "about")),
 )
 """Menu titles and their entries: action keys, ``None`` for a separator, ``@name`` for a submenu."""
+
+SUBMENUS: dict[str, tuple[str, tuple[str | None, ...]]] = {
+    "export": ("&Export", ("export_curves", "export_points", "export_segments", None, "export_png", "export_svg")),
+}
+"""Submenus made of actions: ``@name`` in :data:`MENUS` → (title, entries).  File ▸ Export: the CSV
+tables, then the images of the plot now shown."""
 
 TOOLBAR: tuple[str | None, ...] = ("new", "open", "save", None, "undo_button", "redo_button", None,
                                   "smaller_pipe", "larger_pipe", None, "pin", "clear_pin", None, "@units")
@@ -84,7 +103,10 @@ def build_actions(window: QMainWindow, stack: QUndoStack) -> dict[str, QAction]:
             action.setStatusTip(spec.tip)
             action.setToolTip(f"{spec.tip} ({action.shortcut().toString(QKeySequence.SequenceFormat.NativeText)})"
                               if spec.shortcut is not None else spec.tip)
-        action.triggered.connect(getattr(window, spec.slot))
+        target: object = window
+        for name in spec.slot.split("."):
+            target = getattr(target, name)
+        action.triggered.connect(target)
         actions[spec.key] = action
     undo = stack.createUndoAction(window, "&Undo")
     undo.setShortcut(QKeySequence(QKeySequence.StandardKey.Undo))
@@ -143,7 +165,7 @@ class StepTooltip(QObject):
 
 
 def build_menus(window: QMainWindow, actions: dict[str, QAction], submenus: dict[str, QMenu]) -> None:
-    """Fill the window's menu bar from :data:`MENUS`."""
+    """Fill the window's menu bar from :data:`MENUS` (``submenus`` given, or declared in :data:`SUBMENUS`)."""
     bar = window.menuBar()
     for title, entries in MENUS:
         menu = bar.addMenu(title)
@@ -151,9 +173,23 @@ def build_menus(window: QMainWindow, actions: dict[str, QAction], submenus: dict
             if entry is None:
                 menu.addSeparator()
             elif entry.startswith("@"):
-                menu.addMenu(submenus[entry[1:]])
+                name = entry[1:]
+                menu.addMenu(submenus[name] if name in submenus else build_submenu(window, actions, name))
             else:
                 menu.addAction(actions[entry])
+
+
+def build_submenu(parent: QWidget, actions: dict[str, QAction], name: str) -> QMenu:
+    """The submenu ``name`` of :data:`SUBMENUS` (action keys, ``None`` for a separator)."""
+    title, entries = SUBMENUS[name]
+    menu = QMenu(title, parent)
+    menu.setObjectName(f"menu_{name}")
+    for entry in entries:
+        if entry is None:
+            menu.addSeparator()
+        else:
+            menu.addAction(actions[entry])
+    return menu
 
 
 def build_toolbar(window: QMainWindow, actions: dict[str, QAction], widgets: dict[str, QWidget]) -> QToolBar:
@@ -180,7 +216,7 @@ def shortcut_rows(actions: dict[str, QAction]) -> list[tuple[str, str]]:
     """``(command, shortcut)`` for every action that has one, plus the table keys."""
     rows = []
     for key in ("new", "open", "save", "save_as", "undo", "redo", "copy", "paste", "larger_pipe",
-                "smaller_pipe", "pin", "clear_pin", "fit_view", "methods", "quit"):
+                "smaller_pipe", "copy_plot", "pin", "clear_pin", "fit_view", "methods", "quit"):
         action = actions[key]
         shortcut = action.shortcut().toString(QKeySequence.SequenceFormat.NativeText)
         if shortcut:

@@ -48,7 +48,7 @@ def test_the_window_shows_inputs_plots_results_and_the_cautions(window):
 
 def test_menus_offer_the_commands_with_standard_shortcuts(window):
     menus = _menu_texts(window)
-    assert menus["File"] == ["New", "Open…", "Open sample", "Open recent", "Save", "Save As…", "Quit"]
+    assert menus["File"] == ["New", "Open…", "Open sample", "Open recent", "Save", "Save As…", "Export", "Quit"]
     assert menus["Edit"][:2] == ["Undo", "Redo"] and "Paste" in menus["Edit"]
     assert "Larger pipe size" in menus["Edit"] and "Pin curves" in menus["View"]
     assert menus["Help"] == ["Methods and references", "Keyboard shortcuts", "About PumpSketch"]
