@@ -122,15 +122,19 @@ class FileController(QObject):
         try:
             self._document.open(path)
         except ProjectFileError as exc:
-            self._window.show_error("Cannot open the project", str(exc))
+            self._refuse_open(path, str(exc))
             return False
         except Exception as exc:  # a reader fault (nesting too deep, a number too long): refused, never fatal
             log.exception("reading %s failed", path)
-            self._window.show_error("Cannot open the project", unreadable_message(path, exc))
+            self._refuse_open(path, unreadable_message(path, exc))
             return False
         settings.add_recent_file(path)
         self._window.show_status(f"Opened {Path(path).name}")
         return True
+
+    def _refuse_open(self, path: str | Path, message: str) -> None:
+        self._window.show_error("Cannot open the project", message)
+        self._window.show_status(f"Not opened: {Path(path).name} (the project shown is unchanged)")
 
     def open_sample(self, path: str | Path) -> bool:
         """Open a sample project as an unsaved copy."""
