@@ -5,7 +5,7 @@ PY := $(VENV)/bin/python
 STAMP := $(VENV)/.installed
 SAMPLE := hilltop_booster
 
-.PHONY: run test lint typecheck bench install clean
+.PHONY: run test lint typecheck bench stress install clean
 
 $(PY):
 	$(PYTHON) -m venv $(VENV)
@@ -33,6 +33,10 @@ typecheck: $(STAMP)
 
 bench: $(STAMP)
 	QT_QPA_PLATFORM=offscreen $(PY) benchmarks/run_benchmarks.py
+
+# Not part of `make test`: generated inputs, 100 kills during a save, kills after an edit; prints a summary.
+stress: $(STAMP)
+	QT_QPA_PLATFORM=offscreen $(PY) benchmarks/stress.py
 
 clean:
 	rm -rf $(VENV) .pytest_cache build *.egg-info

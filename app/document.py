@@ -209,6 +209,15 @@ class ProjectDocument(QObject):
         self.fileStateChanged.emit()
         self.schedule_recompute()
 
+    def restore(self, project: Project, path: Path | None) -> None:
+        """Start over on recovered unsaved edits of the file ``path`` (``None``: never saved).
+
+        Like opening, but the project is marked unsaved: Save writes it to ``path`` (or asks
+        where), and closing asks first.  The undo history of the lost session is not recovered.
+        """
+        self.replace_project(project, path)
+        self.undo_stack.resetClean()  # no state of this stack matches the file on disk (emits fileStateChanged)
+
     def new(self) -> None:
         """A fresh editable project, not yet saved anywhere."""
         self.replace_project(new_project(), None)

@@ -8,7 +8,7 @@ from pathlib import Path
 
 from PySide6.QtWidgets import QApplication
 
-from app import settings
+from app import error_report, settings
 from app.main_window import APP_TITLE, MainWindow
 
 
@@ -27,9 +27,14 @@ def application() -> QApplication:
 def open_window(path: str | Path | None, as_copy: bool = False) -> MainWindow:
     """A main window on ``path``; on the last project when ``path`` is None and one is
     remembered; else on a new project.  A file that cannot be read leaves a new project
-    open and says why.  ``as_copy`` opens ``path`` as an unsaved copy (a sample), so
+    open and says why.  Unsaved edits left by a window that did not close normally are offered
+    first; restored, they are opened instead.  ``as_copy`` opens ``path`` as an unsaved copy (a sample), so
     that saving asks where instead of overwriting it."""
     window = MainWindow()
+    if window.offer_recovered_edits():
+        if path is not None:
+            window.show_status(f"Unsaved edits restored; {Path(path).name} was not opened.")
+        return window
     if path is not None and as_copy:
         window.files.open_sample(path)
         return window
@@ -62,7 +67,9 @@ def _end_after_first_plot_paint(window: MainWindow) -> None:
 def run_gui(path: str | None, as_copy: bool = False) -> int:
     """Open the window (see :func:`open_window`) and run until it closes; the exit code."""
     app = application()
+    reporter = error_report.install()
     window = open_window(path, as_copy)
+    reporter.on_error = window.autosaver.save_now
     if os.environ.get(STARTUP_PROBE_VARIABLE):
         _end_after_first_plot_paint(window)
     window.show()

@@ -44,6 +44,7 @@ from app.panels.pumps import PumpsPanel
 from app.panels.site_fluid import SiteFluidPanel
 from app.panels.table_view import SpreadsheetView
 from app.plots.plot_tabs import PlotTabs
+from app.recovery import Autosaver, RecoveredEdits, orphaned_recoveries
 from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable
 from hydraulics.cautions import CAUTIONS_TEXT
@@ -78,6 +79,7 @@ class MainWindow(QMainWindow):
         self._remember_layout = remember_layout
         self.files = FileController(self)
         self.exports = ExportController(self)  # File > Export and Edit > Copy plot
+        self.autosaver = Autosaver(self.document, parent=self)  # unsaved edits to a recovery file (app.recovery)
         self._help_dialog: HelpDialog | None = None
         self._build_widgets()
         self._build_layout()
@@ -186,6 +188,7 @@ class MainWindow(QMainWindow):
         self.checks_panel.findingActivated.connect(self.focus_target)
         self.cautions.helpRequested.connect(self.show_methods)
         self.pumps_panel.message.connect(self.show_status)
+        self.autosaver.failed.connect(self.show_status)
 
     # ------------------------------------------------------------------ showing results
     def _show_first_stage(self, first: Solution) -> None:  # the plot is painted first, the checks a few ms later
@@ -369,6 +372,29 @@ class MainWindow(QMainWindow):
     def show_about(self) -> None:
         self.show_information(f"About {APP_TITLE}", action_table.about_html(APP_TITLE, CAUTIONS_TEXT))
 
+    # ------------------------------------------------------------------ recovery
+    def offer_recovered_edits(self) -> bool:
+        """At start-up: offer the newest unsaved edits a window left after an abnormal exit.
+
+        Restored, they become this window's project, marked unsaved, and are kept in this
+        window's own recovery file before the old one is removed; declined, the old recovery
+        file is deleted.  Older ones (several windows lost at once) are offered at later starts.
+        Returns whether edits were restored.
+        """
+        found = orphaned_recoveries()
+        if not found:
+            return False
+        edits = found[0]
+        if not self.ask_restore(edits):
+            edits.discard()
+            self.show_status("Recovered edits discarded.")
+            return False
+        self.document.restore(edits.project, edits.project_path)
+        if self.autosaver.save_now() is not None:
+            edits.discard()
+        self.show_status("Unsaved edits restored: save them to keep them.")
+        return True
+
     # ------------------------------------------------------------------ questions (tests replace these)
     def ask_save_changes(self) -> str:
         """Ask whether to save unsaved changes: "save", "discard" or "cancel"."""
@@ -376,6 +402,16 @@ class MainWindow(QMainWindow):
         answer = QMessageBox.question(self, APP_TITLE, f"Save the changes to {self.document.display_name()}?",
                                       buttons.Save | buttons.Discard | buttons.Cancel, buttons.Save)
         return {buttons.Save: "save", buttons.Discard: "discard"}.get(answer, "cancel")
+
+    def ask_restore(self, edits: RecoveredEdits) -> bool:
+        """Ask whether to restore unsaved edits left by a window that did not close normally."""
+        buttons = QMessageBox.StandardButton
+        answer = QMessageBox.question(
+            self, APP_TITLE,
+            f"PumpSketch did not close normally last time.\n\n{edits.description()}.\n\n"
+            "Restore them? (No deletes them.)",
+            buttons.Yes | buttons.No, buttons.Yes)
+        return answer == buttons.Yes
 
     def ask_open_path(self) -> str:
         path, _filter = QFileDialog.getOpenFileName(self, "Open project", self._start_folder(), PROJECT_FILTER)
@@ -402,6 +438,7 @@ class MainWindow(QMainWindow):
             if self._remember_layout:
                 settings.set_window_state(bytes(self.saveGeometry().data()),
                                           [bytes(s.saveState().data()) for s in self._splitters()])
+            self.autosaver.close()  # a clean exit: the recovery file goes
             event.accept()
         else:
             event.ignore()

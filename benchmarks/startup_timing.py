@@ -58,6 +58,7 @@ def _environment(settings_folder: str) -> dict[str, str]:
     env["PYTHONPATH"] = os.pathsep.join([str(ROOT), *filter(None, [env.get("PYTHONPATH")])])
     env["QT_QPA_PLATFORM"] = "offscreen"
     env["XDG_CONFIG_HOME"] = settings_folder
+    env["PUMPSKETCH_DATA_DIR"] = os.path.join(settings_folder, "data")  # no recovery files of the user's offered
     env[STARTUP_PROBE_VARIABLE] = "1"
     return env
 

@@ -18,6 +18,7 @@ from __future__ import annotations
 import json
 import math
 import os
+import shutil
 import tempfile
 from collections.abc import Mapping
 from dataclasses import replace
@@ -845,15 +846,96 @@ def project_to_json(project: Project) -> str:
     return json.dumps(project_to_dict(project), indent=2, ensure_ascii=False) + "\n"
 
 
-def atomic_write_text(path: str | os.PathLike[str], text: str) -> None:
-    """Write ``text`` to ``path`` atomically: temporary file, fsync, then rename over."""
+BACKUP_SUFFIX = ".bak"
+"""The previous version of a saved project is kept beside it as ``NAME.pumpsketch.json.bak`` (one generation)."""
+
+
+def backup_path(path: str | os.PathLike[str]) -> Path:
+    """Where :func:`save_project` keeps the previous version of ``path``."""
     path = Path(path)
+    return path.with_name(path.name + BACKUP_SUFFIX)
+
+
+def _is_temporary_of(name: str, target_name: str) -> bool:
+    """True for the name of a temporary file :func:`atomic_write_text` makes for ``target_name``.
+
+    Those are ``"." + target_name + "." + random + ".tmp"``; the temporaries of the backup
+    (``target_name + ".bak"``) share the prefix and are matched too.
+    """
+    prefix = f".{target_name}."
+    return name.startswith(prefix) and name.endswith(".tmp") and len(name) > len(prefix) + len(".tmp")
+
+
+def remove_stale_temporaries(path: str | os.PathLike[str]) -> list[Path]:
+    """Delete the temporary files an interrupted save of ``path`` left beside it; the ones removed.
+
+    A save killed between creating its temporary file and the rename leaves that file
+    behind (the project itself is whole: the old or the new version).  Files that cannot be
+    removed are left alone: cleaning up never makes a save fail.
+    """
+    path = Path(path)
+    removed: list[Path] = []
+    try:
+        entries = list(os.scandir(path.parent))
+    except OSError:
+        return removed
+    for entry in entries:
+        if _is_temporary_of(entry.name, path.name) and entry.is_file(follow_symlinks=False):
+            try:
+                os.unlink(entry.path)
+            except OSError:
+                continue
+            removed.append(Path(entry.path))
+    return removed
+
+
+def _keep_backup(path: Path) -> None:
+    """Make ``path``'s present contents its backup (:func:`backup_path`), atomically.
+
+    A hard link costs no copy and leaves the backup a whole file at every moment; where the
+    file system has no hard links the bytes are copied through a temporary file instead.
+    """
+    backup = backup_path(path)
+    try:
+        if os.path.samefile(path, backup):
+            return  # a save stopped after this step last time: the backup already is the present file
+    except OSError:
+        pass  # no backup yet
+    fd, tmp_name = tempfile.mkstemp(prefix=f".{backup.name}.", suffix=".tmp", dir=path.parent)
+    os.close(fd)
+    try:
+        try:
+            os.unlink(tmp_name)
+            os.link(path, tmp_name)
+        except OSError:
+            shutil.copy2(path, tmp_name)
+        os.replace(tmp_name, backup)
+    except BaseException:
+        try:
+            os.unlink(tmp_name)
+        except FileNotFoundError:
+            pass
+        raise
+
+
+def atomic_write_text(path: str | os.PathLike[str], text: str, keep_backup: bool = False) -> None:
+    """Write ``text`` to ``path`` atomically: temporary file, fsync, then rename over.
+
+    With ``keep_backup``, an existing ``path`` first becomes its backup (:func:`backup_path`),
+    after the new text is safely on disk and before the rename.  At every moment ``path`` is
+    the old or the new version, whole.  Temporary files that an interrupted earlier write
+    left for ``path`` are removed (:func:`remove_stale_temporaries`).
+    """
+    path = Path(path)
+    remove_stale_temporaries(path)
     try:
         mode = path.stat().st_mode & 0o777  # keep the permissions of the file replaced
+        exists = True
     except FileNotFoundError:
         umask = os.umask(0)
         os.umask(umask)
         mode = 0o666 & ~umask  # what an ordinary new file would get
+        exists = False
     fd, tmp_name = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as handle:
@@ -861,6 +943,8 @@ def atomic_write_text(path: str | os.PathLike[str], text: str) -> None:
             handle.flush()
             os.fsync(handle.fileno())
         os.chmod(tmp_name, mode)
+        if keep_backup and exists:
+            _keep_backup(path)
         os.replace(tmp_name, path)
     except BaseException:
         try:
@@ -871,9 +955,13 @@ def atomic_write_text(path: str | os.PathLike[str], text: str) -> None:
 
 
 def save_project(project: Project, path: str | os.PathLike[str]) -> None:
-    """Validate and save ``project`` atomically (the old file survives any failure)."""
+    """Validate and save ``project`` atomically (the old file survives any failure).
+
+    The version replaced is kept as ``NAME.pumpsketch.json.bak`` beside the file (one
+    generation, :func:`backup_path`).
+    """
     validate_project(project)
-    atomic_write_text(path, project_to_json(project))
+    atomic_write_text(path, project_to_json(project), keep_backup=True)
 
 
 def new_project() -> Project:

@@ -12,11 +12,12 @@ Layer  Name            Modules
 4      views           ``app.panels.*``, ``app.plots.*``, ``app.results.*`` (but the two below),
                        ``app.help_page``, ``app.layout_barrier``
 3      table models    ``app.table_models.*``, ``app.delegates``, ``app.clipboard``
-2      document        ``app.document``, ``app.commands``
+2      document        ``app.document``, ``app.commands``, ``app.recovery``
 1      foundation      ``app`` (the package), ``app.style``, ``app.settings``, ``app.cautions``,
                        ``app.text_report``, ``app.pump_report``, ``app.pump_set_report``,
                        ``app.results.formatting``,
-                       ``app.results.scenarios``, ``app.samples``, ``app.platform_check``
+                       ``app.results.scenarios``, ``app.samples``, ``app.platform_check``,
+                       ``app.data_folder``, ``app.error_report``
 0      engine          ``hydraulics.*`` (outside ``app``)
 =====  ==============  ==========================================================================
 
@@ -42,8 +43,8 @@ LAYERS: dict[str, int] = {
     # exact modules first; a name ending in ".*" covers a package's modules
     "app": 1, "app.style": 1, "app.settings": 1, "app.cautions": 1, "app.text_report": 1,
     "app.pump_report": 1, "app.pump_set_report": 1, "app.results.formatting": 1, "app.results.scenarios": 1,
-    "app.samples": 1, "app.platform_check": 1,
-    "app.document": 2, "app.commands": 2,
+    "app.samples": 1, "app.platform_check": 1, "app.data_folder": 1, "app.error_report": 1,
+    "app.document": 2, "app.commands": 2, "app.recovery": 2,
     "app.table_models": 3, "app.table_models.*": 3, "app.delegates": 3, "app.clipboard": 3,
     "app.panels": 4, "app.panels.*": 4, "app.plots": 4, "app.plots.*": 4, "app.results": 4,
     "app.results.*": 4, "app.help_page": 4, "app.layout_barrier": 4,

@@ -8,6 +8,7 @@ sample itself is never overwritten.
 
 from __future__ import annotations
 
+import logging
 from pathlib import Path
 from typing import Protocol
 
@@ -20,6 +21,8 @@ from app.samples import sample_projects
 from hydraulics.model import ModelError
 from hydraulics.project_io import FILE_SUFFIX, ProjectFileError, load_project
 
+log = logging.getLogger(__name__)
+
 
 def with_suffix(path: str | Path) -> Path:
     """``path`` ending in ``.pumpsketch.json`` (added when missing)."""
@@ -29,6 +32,11 @@ def with_suffix(path: str | Path) -> Path:
     if path.suffix == ".json":
         path = path.with_suffix("")
     return path.with_name(path.name + FILE_SUFFIX)
+
+
+def unreadable_message(path: str | Path, exc: Exception) -> str:
+    """What the window says about a file the reader failed on with something other than a ProjectFileError."""
+    return f"{path}: cannot read the project ({exc or type(exc).__name__})"
 
 
 class FileWindow(Protocol):
@@ -114,11 +122,19 @@ class FileController(QObject):
         try:
             self._document.open(path)
         except ProjectFileError as exc:
-            self._window.show_error("Cannot open the project", str(exc))
+            self._refuse_open(path, str(exc))
+            return False
+        except Exception as exc:  # a reader fault (nesting too deep, a number too long): refused, never fatal
+            log.exception("reading %s failed", path)
+            self._refuse_open(path, unreadable_message(path, exc))
             return False
         settings.add_recent_file(path)
         self._window.show_status(f"Opened {Path(path).name}")
         return True
+
+    def _refuse_open(self, path: str | Path, message: str) -> None:
+        self._window.show_error("Cannot open the project", message)
+        self._window.show_status(f"Not opened: {Path(path).name} (the project shown is unchanged)")
 
     def open_sample(self, path: str | Path) -> bool:
         """Open a sample project as an unsaved copy."""
@@ -128,6 +144,10 @@ class FileController(QObject):
             project = load_project(path)
         except ProjectFileError as exc:
             self._window.show_error("Cannot open the sample", str(exc))
+            return False
+        except Exception as exc:  # as in open_path
+            log.exception("reading %s failed", path)
+            self._window.show_error("Cannot open the sample", unreadable_message(path, exc))
             return False
         self._document.replace_project(project, None)
         self._window.show_status(f"Sample '{project.name}' opened as a copy: Save As to keep your changes.")

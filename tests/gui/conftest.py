@@ -2,6 +2,7 @@
 
 * Every test gets its own QSettings INI folder, so the unit system and the recent
   files of one test never leak into another (or into the user's own settings).
+* Every test gets its own data folder (recovery files, error log), subprocesses included.
 * The clipboard is cleared after each test (a clipboard holding data at exit has
   crashed offscreen Qt).
 * ``window`` is a main window on a sample project whose questions (save changes? which
@@ -17,6 +18,7 @@ import pytest
 from PySide6.QtCore import QSettings
 from PySide6.QtWidgets import QApplication
 
+from app.data_folder import DATA_DIR_VARIABLE
 from app.document import ProjectDocument
 from app.main_window import MainWindow
 
@@ -58,6 +60,17 @@ def isolated_settings(tmp_path):
     folder = tmp_path / "settings"
     folder.mkdir()
     QSettings.setPath(QSettings.Format.IniFormat, QSettings.Scope.UserScope, str(folder))
+    yield folder
+
+
+@pytest.fixture(autouse=True)
+def isolated_data_folder(tmp_path, monkeypatch):
+    """Point the user's data folder (recovery files, error log) at a folder of this test.
+
+    Set in the environment, so windows started in subprocesses by a test use it too.
+    """
+    folder = tmp_path / "data"
+    monkeypatch.setenv(DATA_DIR_VARIABLE, str(folder))
     yield folder
 
 
