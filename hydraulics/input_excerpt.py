@@ -44,6 +44,18 @@ def quote_input(value: object, limit: int = MAX_EXCERPT_CHARACTERS) -> str:
     return text if len(text) <= limit else f"{text[:limit]}…"
 
 
+def excerpt(text: str, limit: int = MAX_EXCERPT_CHARACTERS) -> str:
+    """``text`` cut to ``limit`` characters without quotes, for a message that shows a typed value as typed.
+
+    >>> excerpt("-5 m")
+    '-5 m'
+    >>> excerpt("9" * 50)
+    '9999999999999999999999999999999999999999… (50 characters)'
+    """
+    shown = "".join(c if c.isprintable() else repr(c)[1:-1] for c in text[:limit])
+    return shown if len(text) <= limit else f"{shown}… ({len(text)} characters)"
+
+
 def _digits(value: int) -> int:
     """Decimal digits of a whole number, without converting it to text (that is slow and limited)."""
     magnitude = abs(value)

@@ -76,8 +76,10 @@ class PumpCsvError(ValueError):
     """
 
     def __init__(self, problem: str, line: int | None = None, column: int | None = None,
-                 column_name: str | None = None):
+                 column_name: str | None = None, quotes_content: bool = True):
         self.problem = problem
+        self.quotes_content = quotes_content
+        """False when ``problem`` holds nothing of the file's content (its size, its kind, its encoding)."""
         self.line = line
         self.column = column
         self.column_name = column_name
@@ -177,7 +179,7 @@ def _read_text(path_or_text: str | Path) -> str:
     try:
         return read_text_file(path_or_text, MAX_PUMP_CSV_BYTES)
     except BoundedReadError as exc:
-        raise PumpCsvError(exc.problem) from None
+        raise PumpCsvError(exc.problem, quotes_content=False) from None
 
 
 def _parse_header(cells: list[str], line_no: int) -> list[_Column]:

@@ -512,7 +512,8 @@ def check_unit_text(unit_text: str, quantity: str = "") -> str:
             if len(rest) > 1 and rest[1][0] == "power":
                 raise UnitTextError(f"a power of a power ('**{rest[0][1]}**') is not a unit")
             if len(rest[0][1]) > 2 or int(rest[0][1]) > MAX_UNIT_EXPONENT:
-                raise UnitTextError(f"a power in a unit is at most {MAX_UNIT_EXPONENT}; got {sign * int(rest[0][1][:3])}")
+                power = sign * int(rest[0][1][:3])
+                raise UnitTextError(f"a power in a unit is at most {MAX_UNIT_EXPONENT}; got {power}")
         if token == "(":
             depth += 1
             if depth > _MAX_UNIT_PARENTHESES:

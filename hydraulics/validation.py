@@ -14,6 +14,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
+from hydraulics.input_excerpt import quote_input
 from hydraulics.model import (
     Arrangement,
     Criteria,
@@ -311,9 +312,9 @@ def validate_segment(segment: Segment, path: str) -> None:
     if not segment.name.strip():
         raise ModelError(f"{path}.name", "a segment needs a name")
     if segment.side not in ("suction", "delivery"):
-        raise ModelError(f"{path}.side", f"side must be 'suction' or 'delivery'; got {segment.side!r}")
+        raise ModelError(f"{path}.side", f"side must be 'suction' or 'delivery'; got {quote_input(segment.side)}")
     if segment.carries not in ("pump", "station"):
-        raise ModelError(f"{path}.carries", f"carries must be 'pump' or 'station'; got {segment.carries!r}")
+        raise ModelError(f"{path}.carries", f"carries must be 'pump' or 'station'; got {quote_input(segment.carries)}")
     check("segment.length_m", segment.length_m, f"{path}.length")
     check("segment.internal_diameter_m", segment.internal_diameter_m, f"{path}.internal_diameter")
     _optional("segment.elevation_m", segment.start_elevation_m, f"{path}.start_elevation")
@@ -404,7 +405,7 @@ def validate_arrangement(arrangement: Arrangement, project: Project, path: str =
     """Check the pump arrangement and that it names a pump of the project."""
     if project.pump(arrangement.pump_id) is None:
         ids = ", ".join(p.pump_id for p in project.pumps) or "none defined"
-        raise ModelError(f"{path}.pump_id", f"no pump {arrangement.pump_id!r} in the project (pumps: {ids})")
+        raise ModelError(f"{path}.pump_id", f"no pump {quote_input(arrangement.pump_id)} in the project (pumps: {ids})")
     check("arrangement.duty_count", arrangement.duty_count, f"{path}.duty_count")
     check("arrangement.standby_count", arrangement.standby_count, f"{path}.standby_count")
     check("arrangement.series_stages", arrangement.series_stages, f"{path}.series_stages")
@@ -424,9 +425,9 @@ def validate_other_pump(pump: InstalledPump, project: Project, path: str) -> Non
     """Check one installed pump beside the arrangement's: its model, role, speeds and efficiencies."""
     if project.pump(pump.pump_id) is None:
         ids = ", ".join(p.pump_id for p in project.pumps) or "none defined"
-        raise ModelError(f"{path}.pump", f"no pump {pump.pump_id!r} in the project (pumps: {ids})")
+        raise ModelError(f"{path}.pump", f"no pump {quote_input(pump.pump_id)} in the project (pumps: {ids})")
     if pump.role not in ("duty", "assist", "standby"):
-        raise ModelError(f"{path}.role", f"must be 'duty', 'assist' or 'standby', got {pump.role!r}")
+        raise ModelError(f"{path}.role", f"must be 'duty', 'assist' or 'standby', got {quote_input(pump.role)}")
     check("arrangement.speed_ratio", pump.speed_ratio, f"{path}.speed_ratio")
     if pump.variable_speed:
         check("arrangement.speed_ratio", pump.min_speed_ratio, f"{path}.min_speed_ratio")
@@ -443,11 +444,12 @@ def validate_duty_profile(profile: DutyProfile, path: str = "duty_profile") -> N
     """Check the duty bands, their time basis (hours ≤ a leap year's, shares summing to at most 1)."""
     check("duty_profile.bands", len(profile.bands), f"{path}.bands")
     if profile.time_basis not in ("hours", "share"):
-        raise ModelError(f"{path}.time_basis", f"must be 'hours' or 'share', got {profile.time_basis!r}")
+        raise ModelError(f"{path}.time_basis", f"must be 'hours' or 'share', got {quote_input(profile.time_basis)}")
     if profile.strategy not in ("fixed_staging", "variable_speed"):
-        raise ModelError(f"{path}.strategy", f"must be 'fixed_staging' or 'variable_speed', got {profile.strategy!r}")
+        raise ModelError(f"{path}.strategy",
+                         f"must be 'fixed_staging' or 'variable_speed', got {quote_input(profile.strategy)}")
     if profile.pipe not in ("new", "aged"):
-        raise ModelError(f"{path}.pipe", f"must be 'new' or 'aged', got {profile.pipe!r}")
+        raise ModelError(f"{path}.pipe", f"must be 'new' or 'aged', got {quote_input(profile.pipe)}")
     time_key = "duty_band.hours" if profile.time_basis == "hours" else "duty_band.share"
     total = 0.0
     for i, band in enumerate(profile.bands):
