@@ -18,10 +18,11 @@ from __future__ import annotations
 
 import argparse
 import json
+import math
 import sys
 from collections.abc import Callable
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, NoReturn
 
 if TYPE_CHECKING:  # the engine is imported by each sub-command only, to keep start-up short
     from hydraulics.results import Solution
@@ -32,6 +33,50 @@ BAD_INPUT = 2
 
 class BadInputError(Exception):
     """A problem with what the user gave: reported in one line, exit status 2."""
+
+
+MAX_MESSAGE_CHARACTERS = 600
+"""Longest line the command prints about bad input (the messages quote only excerpts of the input)."""
+
+
+def one_line(message: str) -> str:
+    r"""``message`` as one printable line: line breaks and control characters escaped, at most
+    :data:`MAX_MESSAGE_CHARACTERS` characters.
+
+    >>> print(one_line("a\nb\x00c"))
+    a\nb\x00c
+    """
+    text = "".join(c if c.isprintable() else repr(c)[1:-1] for c in message[: 2 * MAX_MESSAGE_CHARACTERS])
+    return text if len(text) <= MAX_MESSAGE_CHARACTERS else text[: MAX_MESSAGE_CHARACTERS - 1] + "…"
+
+
+def _number_in(low: float, high: float, what: str) -> Callable[[str], float]:
+    """An argparse type: a finite number in ``[low, high]`` (``inf`` and ``nan`` refused)."""
+    def parse(text: str) -> float:
+        from hydraulics.input_excerpt import quote_input
+
+        try:
+            value = float(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"{quote_input(text)} is not a number") from None
+        if not math.isfinite(value) or not low <= value <= high:
+            raise argparse.ArgumentTypeError(f"{what} must be a number between {low:g} and {high:g}; "
+                                             f"got {quote_input(text)}")
+        return value
+    return parse
+
+
+def _whole_number_in(low: int, high: int, what: str) -> Callable[[str], int]:
+    """An argparse type: a whole number in ``[low, high]``."""
+    def parse(text: str) -> int:
+        from hydraulics.input_excerpt import quote_input
+
+        stripped = text.strip()
+        if len(stripped) > 9 or not stripped.isdigit() or not low <= int(stripped) <= high:
+            raise argparse.ArgumentTypeError(f"{what} must be a whole number between {low} and {high}; "
+                                             f"got {quote_input(text)}")
+        return int(stripped)
+    return parse
 
 
 def _load_and_solve(path: str) -> Solution:
@@ -55,10 +100,12 @@ def _project_file(args: argparse.Namespace) -> str:
     if args.sample is None:
         return str(args.file)
     from app.samples import sample_names, sample_path
+    from hydraulics.input_excerpt import quote_input
 
     path = sample_path(args.sample)
     if path is None:
-        raise BadInputError(f"--sample: no sample called {args.sample!r}; the samples are {', '.join(sample_names())}")
+        raise BadInputError(f"--sample: no sample called {quote_input(args.sample)}; "
+                            f"the samples are {', '.join(sample_names())}")
     return str(path)
 
 
@@ -90,6 +137,8 @@ def _cmd_import_pump(args: argparse.Namespace) -> int:
         raise BadInputError(f"{path}: file not found") from None
     except (PumpCsvError, ModelError, ValueError) as exc:
         raise BadInputError(f"{path}: {exc}") from None
+    except OSError as exc:
+        raise BadInputError(f"{path}: cannot read the file ({exc.strerror or type(exc).__name__})") from None
     from app.pump_report import pump_fit_text
 
     for message in messages:
@@ -147,19 +196,33 @@ def _cmd_export(args: argparse.Namespace) -> int:
 
 def _open_sample(names: list[str]) -> int:
     from app.samples import sample_names, sample_path
+    from hydraulics.input_excerpt import quote_input
 
     path = sample_path(names[0]) if len(names) == 1 else None
     if path is None:
-        given = f"no sample called {names[0]!r}" if len(names) == 1 else "give one sample name"
-        print(f"pumpsketch: --sample: {given}; the samples are {', '.join(sample_names())}", file=sys.stderr)
+        given = f"no sample called {quote_input(names[0])}" if len(names) == 1 else "give one sample name"
+        print(f"pumpsketch: --sample: {one_line(given)}; the samples are {', '.join(sample_names())}", file=sys.stderr)
         return BAD_INPUT
     from app.gui import run_gui
 
     return run_gui(str(path), as_copy=True)
 
 
+SHOT_PIXELS = (200, 8000)
+"""Smallest and largest width or height of a rendered window (pixels)."""
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse with its usage errors reported as one line (exit status 2), like every other bad input."""
+
+    def error(self, message: str) -> NoReturn:
+        raise BadInputError(f"{self.prog}: {message} (see --help)")
+
+
 def build_parser() -> argparse.ArgumentParser:
-    parser = argparse.ArgumentParser(
+    from hydraulics.validation import LIMITS
+
+    parser = _Parser(
         prog="pumpsketch",
         description="System curves, pump operating points and pipe sizing for pumping stations. "
                     "Without a sub-command, opens the window.",
@@ -174,15 +237,18 @@ def build_parser() -> argparse.ArgumentParser:
     imp = sub.add_parser("import-pump", help="validate a pump-curve CSV file and show the fitted curves")
     imp.add_argument("csv")
     imp.add_argument("--name", default=None)
-    imp.add_argument("--speed", type=float, default=None, help="rated speed in rpm (if the file lacks it)")
-    imp.add_argument("--density", type=float, default=998.2, help="fluid density in kg/m³ for power (default 998.2)")
+    speed, density = LIMITS["pump.rated_speed_rpm"], LIMITS["fluid.density_kg_m3"]
+    imp.add_argument("--speed", type=_number_in(speed.low, speed.high, "--speed (rpm)"), default=None,
+                     help="rated speed in rpm (if the file lacks it)")
+    imp.add_argument("--density", type=_number_in(density.low, density.high, "--density (kg/m³)"), default=998.2,
+                     help="fluid density in kg/m³ for power (default 998.2)")
     imp.set_defaults(handler=_cmd_import_pump)
     shot = sub.add_parser("shot", help="render the window for a project offscreen to a PNG")
     shot.add_argument("file", nargs="?", help="the project file (*.pumpsketch.json)")
     shot.add_argument("--sample", metavar="NAME", help="render a bundled sample instead of a file")
     shot.add_argument("-o", "--output", required=True)
-    shot.add_argument("--width", type=int, default=1500)
-    shot.add_argument("--height", type=int, default=950)
+    shot.add_argument("--width", type=_whole_number_in(*SHOT_PIXELS, "--width"), default=1500)
+    shot.add_argument("--height", type=_whole_number_in(*SHOT_PIXELS, "--height"), default=950)
     shot.set_defaults(handler=_cmd_shot)
     export = sub.add_parser("export", help="write the system curves, operating points and segments as CSV tables")
     export.add_argument("file", nargs="?", help="the project file (*.pumpsketch.json)")
@@ -195,15 +261,29 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def main(argv: list[str] | None = None) -> int:
-    argv = list(sys.argv[1:] if argv is None else argv)
+    """Run the command; bad input of any kind ends with one line on stderr and exit status 2, never a traceback."""
+    try:
+        return _main(list(sys.argv[1:] if argv is None else argv))
+    except BadInputError as exc:
+        print(f"pumpsketch: {one_line(str(exc))}", file=sys.stderr)
+        return BAD_INPUT
+    except BrokenPipeError:
+        return 0
+    except Exception as exc:  # noqa: BLE001 - the last guard: whatever the input, one line and exit 2
+        print(f"pumpsketch: cannot process this input ({type(exc).__name__}: {one_line(str(exc))[:200]})",
+              file=sys.stderr)
+        return BAD_INPUT
+
+
+def _main(argv: list[str]) -> int:
     if argv and argv[0] == "--sample":
         return _open_sample(argv[1:])
     if not argv or (argv[0] not in SUBCOMMANDS and not argv[0].startswith("-")):
         if len(argv) > 1:
             print("pumpsketch: give at most one project file to open", file=sys.stderr)
             return BAD_INPUT
-        if argv and not Path(argv[0]).is_file():
-            print(f"pumpsketch: {argv[0]}: file not found", file=sys.stderr)
+        if argv and ("\x00" in argv[0] or not Path(argv[0]).is_file()):
+            print(f"pumpsketch: {one_line(argv[0])}: file not found", file=sys.stderr)
             return BAD_INPUT
         from app.gui import run_gui
 
@@ -217,13 +297,7 @@ def main(argv: list[str] | None = None) -> int:
         parser.print_help()
         return 0
     handler: Callable[[argparse.Namespace], int] = args.handler
-    try:
-        return handler(args)
-    except BadInputError as exc:
-        print(f"pumpsketch: {exc}", file=sys.stderr)
-        return BAD_INPUT
-    except BrokenPipeError:
-        return 0
+    return handler(args)
 
 
 if __name__ == "__main__":

@@ -39,6 +39,7 @@ from pathlib import Path
 from types import EllipsisType, MappingProxyType
 from typing import Any, TypeVar, overload
 
+from hydraulics.input_excerpt import quote_input
 from hydraulics.model import ModelError, PipeState
 from hydraulics.package_data import resources_dir
 
@@ -193,7 +194,7 @@ class PipeSeries:
                 return hits[0]
         raise CatalogueLookupError(
             "nominal_size",
-            f"{nominal!r} is not a size of pipe series {self.series_id!r} ({self.name}); "
+            f"{quote_input(nominal)} is not a size of pipe series {quote_input(self.series_id)} ({self.name}); "
             f"{self._nearby_text(query)}",
             nominal,
         )
@@ -265,7 +266,7 @@ def material(material_id: str) -> Material:
     except (KeyError, TypeError):
         raise CatalogueLookupError(
             "material_id",
-            f"unknown material {material_id!r}; valid ids: {', '.join(sorted(table))}",
+            f"unknown material {quote_input(material_id)}; valid ids: {', '.join(sorted(table))}",
             material_id,
         ) from None
 
@@ -291,7 +292,7 @@ def series(series_id: str) -> PipeSeries:
     except (KeyError, TypeError):
         raise CatalogueLookupError(
             "pipe_series",
-            f"unknown pipe series {series_id!r}; valid ids: {', '.join(sorted(table))}",
+            f"unknown pipe series {quote_input(series_id)}; valid ids: {', '.join(sorted(table))}",
             series_id,
         ) from None
 
@@ -452,7 +453,7 @@ def load_pipe_series_file(path: Path | str) -> PipeSeries:
         where = f"sizes[{i}] ({nominal})"
         _no_unknown_keys(entry, _SIZE_KEYS, path, where)
         if _squash(nominal) in seen:
-            raise CatalogueError(path, where, f"duplicate nominal size {nominal!r}")
+            raise CatalogueError(path, where, f"duplicate nominal size {quote_input(nominal)}")
         seen.add(_squash(nominal))
         od = _number(entry, "outside_diameter_mm", path, where, 0.0, 10_000.0, low_open=True)
         wall = _number(entry, "wall_thickness_mm", path, where, 0.0, 1_000.0, low_open=True)
@@ -503,7 +504,7 @@ def load_pipe_series(directory: Path | str,
         if known_material_ids is not None and s.material_id not in known_material_ids:
             raise CatalogueError(
                 path, "material_id",
-                f"unknown material {s.material_id!r}; valid ids: {', '.join(sorted(known_material_ids))}",
+                f"unknown material {quote_input(s.material_id)}; valid ids: {', '.join(sorted(known_material_ids))}",
                 s.material_id)
         table[s.series_id] = s
     if not table:

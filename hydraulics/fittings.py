@@ -28,6 +28,7 @@ from numpy.typing import ArrayLike
 from hydraulics.bore_change import SUDDEN_ANGLE_DEG, bore_change_k, transition_angle_deg
 from hydraulics.constants import STANDARD_GRAVITY_M_S2
 from hydraulics.friction import fully_turbulent_friction_factor
+from hydraulics.input_excerpt import quote_input
 from hydraulics.model import Fitting, ModelError
 from hydraulics.package_data import resources_dir
 
@@ -340,7 +341,8 @@ def segment_k_total(
         fitting_type = catalogue.get(fitting.fitting_id)
         if fitting_type is None:
             raise ModelError(
-                f"{path}.fitting_id", f"unknown fitting type {fitting.fitting_id!r} (not in the fittings catalogue)",
+                f"{path}.fitting_id",
+                f"unknown fitting type {quote_input(fitting.fitting_id)} (not in the fittings catalogue)",
                 fitting.fitting_id,
             )
         override = fitting.k_override

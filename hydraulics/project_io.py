@@ -26,7 +26,9 @@ from pathlib import Path
 from typing import Any
 
 from hydraulics import units
+from hydraulics.bounded_read import BoundedReadError, read_text_file
 from hydraulics.format_migrations import MigrationError, migrate
+from hydraulics.input_excerpt import quote_input
 from hydraulics.model import (
     Arrangement,
     Carries,
@@ -54,7 +56,19 @@ from hydraulics.model import (
     UserFluid,
     WaterFluid,
 )
-from hydraulics.validation import validate_project
+from hydraulics.validation import (
+    MAX_FITTINGS_PER_SEGMENT,
+    MAX_INTEGER_DIGITS,
+    MAX_JSON_NESTING,
+    MAX_NOTES_CHARACTERS,
+    MAX_PROFILE_POINTS,
+    MAX_PROJECT_FILE_BYTES,
+    MAX_PUMP_POINTS,
+    MAX_PUMPS,
+    MAX_SEGMENTS,
+    require_at_most,
+    validate_project,
+)
 
 FORMAT_NAME = "pumpsketch-project"
 FORMAT_VERSION = 5
@@ -77,8 +91,9 @@ class ProjectFileError(ValueError):
 class _Reader:
     """Walks the JSON tree, converting each value and remembering where it is."""
 
-    def __init__(self, base_dir: Path | None):
+    def __init__(self, base_dir: Path | None, data_folders: tuple[Path, ...] = ()):
         self.base_dir = base_dir
+        self.data_folders = data_folders
 
     # ---- primitive accessors -------------------------------------------------
     @staticmethod
@@ -111,7 +126,7 @@ class _Reader:
             return default
         if not isinstance(value, str):
             raise ProjectFileError(_join(path, key), f"expected text, got {_kind(value)}")
-        return value
+        return _bounded_text(value, _join(path, key))
 
     def optional_text(self, node: Mapping[str, object], key: str, path: str) -> str | None:
         value = node.get(key)
@@ -119,7 +134,7 @@ class _Reader:
             return None
         if not isinstance(value, str):
             raise ProjectFileError(_join(path, key), f"expected text or null, got {_kind(value)}")
-        return value
+        return _bounded_text(value, _join(path, key))
 
     def integer(self, node: Mapping[str, object], key: str, path: str, default: int | None = None) -> int:
         value = node.get(key)
@@ -146,6 +161,22 @@ class _Reader:
         if value is None:
             return None
         return _finite(value, _join(path, key))
+
+    @staticmethod
+    def list_or_empty(node: Mapping[str, object], key: str, path: str) -> list[object]:
+        """The list at ``key``; absent or null is an empty list, anything else (``{}``, ``""``) is refused."""
+        value = node.get(key)
+        if value is None:
+            return []
+        if not isinstance(value, list):
+            raise ProjectFileError(_join(path, key), f"expected a list, got {_kind(value)}")
+        return value
+
+    @staticmethod
+    def obj_or_empty(node: Mapping[str, object], key: str, path: str) -> object:
+        """The object at ``key``; absent or null is an empty object, anything else is passed on to be refused."""
+        value = node.get(key)
+        return {} if value is None else value
 
     def boolean(self, node: Mapping[str, object], key: str, path: str, default: bool) -> bool:
         value = node.get(key)
@@ -188,7 +219,7 @@ class _Reader:
             raise ProjectFileError(_join(where, "values"), f"expected a list of numbers, got {_kind(values)}")
         numbers = [_finite(v, f"{where}.values[{i}]") for i, v in enumerate(values)]
         factor, offset = _unit_factor(unit, quantity, _join(where, "unit"))
-        return tuple(n * factor + offset for n in numbers)
+        return tuple(_finite_si(n * factor + offset, n, unit, f"{where}.values[{i}]") for i, n in enumerate(numbers))
 
     # ---- sections ----------------------------------------------------------
     def fluid(self, node: object, path: str = "fluid") -> WaterFluid | UserFluid:
@@ -206,7 +237,7 @@ class _Reader:
                 vapour_pressure_pa=self.quantity(node, "vapour_pressure", path, "pressure"),
                 temperature_c=self.quantity(node, "temperature", path, "temperature", default=20.0),
             )
-        raise ProjectFileError(_join(path, "kind"), f"must be 'water' or 'user', got {kind!r}")
+        raise ProjectFileError(_join(path, "kind"), f"must be 'water' or 'user', got {quote_input(kind)}")
 
     def site(self, node: object, path: str = "site") -> Site:
         node = self.obj(node, path, frozenset({
@@ -230,7 +261,7 @@ class _Reader:
                 pressure_pa=self.quantity(delivery_node, "pressure", dpath, "pressure"),
             )
         else:
-            raise ProjectFileError(_join(dpath, "kind"), f"must be 'tank' or 'pressurised', got {kind!r}")
+            raise ProjectFileError(_join(dpath, "kind"), f"must be 'tank' or 'pressurised', got {quote_input(kind)}")
         return Site(
             suction_level_low_m=self.quantity(suction, "level_low", spath, "elevation"),
             suction_level_high_m=self.quantity(suction, "level_high", spath, "elevation"),
@@ -274,9 +305,7 @@ class _Reader:
         else:
             self.optional_quantity(node, "internal_diameter", path, "diameter")  # a stored bore must still be valid
             diameter = _catalogue_diameter(series_id, nominal, path)
-        fittings_node = node.get("fittings") or []
-        if not isinstance(fittings_node, list):
-            raise ProjectFileError(_join(path, "fittings"), f"expected a list, got {_kind(fittings_node)}")
+        fittings_node = self.list_or_empty(node, "fittings", path)
         side = _side(self.text(node, "side", path), _join(path, "side"))
         carries = _carries(self.text(node, "carries", path), _join(path, "carries"))
         return Segment(
@@ -306,7 +335,7 @@ class _Reader:
         pump_id = self.text(node, "id", path)
         name = self.text(node, "name", path, default=pump_id)
         rated_speed = self.optional_quantity(node, "rated_speed", path, "speed")
-        orders = self.obj(node.get("fit_orders") or {}, _join(path, "fit_orders"),
+        orders = self.obj(self.obj_or_empty(node, "fit_orders", path), _join(path, "fit_orders"),
                           frozenset({"head", "efficiency", "power"}))
         opath = _join(path, "fit_orders")
         points_node = node.get("points")
@@ -354,7 +383,8 @@ class _Reader:
         if node is None:
             return {}
         node = self.obj(node, path, frozenset({"file", "comments"}))
-        comments = node.get("comments") or []
+        comments = node.get("comments")
+        comments = [] if comments is None else comments
         if not isinstance(comments, list) or not all(isinstance(c, str) for c in comments):
             raise ProjectFileError(_join(path, "comments"), "expected a list of text lines")
         return {"source_file": self.text(node, "file", path, default=""), "source_comments": tuple(comments)}
@@ -368,15 +398,52 @@ class _Reader:
                        path: str) -> PumpModel:
         from hydraulics.pump_csv import PumpCsvError, read_pump_csv
 
-        csv_path = Path(relative)
-        if not csv_path.is_absolute() and self.base_dir is not None:
-            csv_path = self.base_dir / csv_path
+        csv_path = self._allowed_csv_path(relative, path)
         try:
             return read_pump_csv(csv_path, pump_id=pump_id, name=name, rated_speed_rpm=rated_speed)
         except FileNotFoundError:
-            raise ProjectFileError(path, f"pump data file not found: {relative}") from None
-        except (PumpCsvError, OSError, ValueError) as exc:
-            raise ProjectFileError(path, f"pump data file {relative}: {exc}") from None
+            raise ProjectFileError(path, f"pump data file not found: {quote_input(relative)}") from None
+        except PumpCsvError as exc:
+            if not exc.quotes_content:
+                raise ProjectFileError(path, f"pump data file {quote_input(relative)}: {exc.problem}") from None
+            # Where the problem is, not what the file holds: a refusal never shows the file's content.
+            where = ", ".join(part for part in (
+                f"line {exc.line}" if exc.line is not None else "",
+                f"column {exc.column}" + (f" ({exc.column_name})" if exc.column_name else "")
+                if exc.column is not None else "") if part)
+            raise ProjectFileError(path, f"pump data file {quote_input(relative)} is not valid pump data"
+                                         + (f" at {where}" if where else "")
+                                         + "; `pumpsketch import-pump FILE` shows the problem in detail") from None
+        except (OSError, ValueError) as exc:
+            reason = exc.strerror if isinstance(exc, OSError) and exc.strerror else type(exc).__name__
+            raise ProjectFileError(path, f"pump data file {quote_input(relative)} cannot be read ({reason})") from None
+
+    def _allowed_csv_path(self, relative: str, path: str) -> Path:
+        """The pump data file named by ``source_csv``, resolved inside the project's folder or a chosen folder.
+
+        Links and ``..`` are resolved first, so a path may not leave those folders by either; the
+        file must be a ``.csv`` file.  Anything else is refused without opening the file.
+        """
+        if "\x00" in relative:
+            raise ProjectFileError(path, "a file name cannot contain a NUL character")
+        folders = tuple(f.resolve() for f in ((self.base_dir,) if self.base_dir is not None else ())
+                        + self.data_folders)
+        given = Path(relative)
+        if not given.is_absolute():
+            if self.base_dir is None:
+                raise ProjectFileError(path, "a pump data file is named relative to the project's folder, "
+                                             "and this project has no folder (save it first)")
+            given = self.base_dir / given
+        try:
+            resolved = given.resolve()
+        except (OSError, RuntimeError):
+            raise ProjectFileError(path, f"pump data file {quote_input(relative)} cannot be resolved") from None
+        if not any(resolved.is_relative_to(folder) for folder in folders):
+            raise ProjectFileError(path, f"pump data file {quote_input(relative)} is outside the project's folder; "
+                                         "keep pump data files in the project's folder (or one below it)")
+        if resolved.suffix.lower() != ".csv":
+            raise ProjectFileError(path, f"pump data file {quote_input(relative)} is not a .csv file")
+        return resolved
 
     def arrangement(self, node: object, path: str = "arrangement") -> Arrangement:
         node = self.obj(node, path, frozenset({
@@ -426,9 +493,7 @@ class _Reader:
         node = self.obj(node, path, frozenset({"bands", "time_basis", "annual_volume", "strategy", "pipe"}))
         basis: TimeBasis = _choice(self.text(node, "time_basis", path, default="hours"), ("hours", "share"),
                                    f"{path}.time_basis")
-        bands_node = node.get("bands") or []
-        if not isinstance(bands_node, list):
-            raise ProjectFileError(f"{path}.bands", f"expected a list, got {_kind(bands_node)}")
+        bands_node = self.list_or_empty(node, "bands", path)
         bands = []
         for i, band in enumerate(bands_node):
             bpath = f"{path}.bands[{i}]"
@@ -493,7 +558,8 @@ class _Reader:
         }))
         fmt = root.get("format")
         if fmt != FORMAT_NAME:
-            raise ProjectFileError("format", f"not a PumpSketch project (expected {FORMAT_NAME!r}, got {fmt!r})")
+            raise ProjectFileError("format",
+                                   f"not a PumpSketch project (expected {FORMAT_NAME!r}, got {quote_input(fmt)})")
         version = root.get("version")
         if isinstance(version, bool) or not isinstance(version, int):
             raise ProjectFileError("version", f"expected a whole number, got {_kind(version)}")
@@ -508,17 +574,13 @@ class _Reader:
         segments_node = self.get(root, "segments", "")
         if not isinstance(segments_node, list):
             raise ProjectFileError("segments", f"expected a list, got {_kind(segments_node)}")
-        pumps_node = root.get("pumps") or []
-        if not isinstance(pumps_node, list):
-            raise ProjectFileError("pumps", f"expected a list, got {_kind(pumps_node)}")
+        pumps_node = self.list_or_empty(root, "pumps", "")
         method = _friction_method(self.text(root, "friction_method", "", default="darcy_weisbach"), "friction_method")
         arrangement_node = root.get("arrangement")
         profile_node = self.get(root, "profile", "")
         if not isinstance(profile_node, list):
             raise ProjectFileError("profile", f"expected a list, got {_kind(profile_node)}")
-        others_node = root.get("other_pumps") or []
-        if not isinstance(others_node, list):
-            raise ProjectFileError("other_pumps", f"expected a list, got {_kind(others_node)}")
+        others_node = self.list_or_empty(root, "other_pumps", "")
         return Project(
             name=self.text(root, "name", "", default="Untitled"),
             notes=self.text(root, "notes", "", default=""),
@@ -528,13 +590,13 @@ class _Reader:
             friction_method=method,
             pumps=tuple(self.pump(p, f"pumps[{i}]") for i, p in enumerate(pumps_node)),
             arrangement=None if arrangement_node is None else self.arrangement(arrangement_node),
-            criteria=self.criteria(root.get("criteria") or {}),
-            energy=self.energy(root.get("energy") or {}),
+            criteria=self.criteria(self.obj_or_empty(root, "criteria", "")),
+            energy=self.energy(self.obj_or_empty(root, "energy", "")),
             flow_grid_max_factor=self.number(root, "flow_grid_max_factor", "", default=1.6),
             profile=tuple(self.profile_point(p, f"profile[{i}]") for i, p in enumerate(profile_node)),
             other_pumps=tuple(self.other_pump(p, f"other_pumps[{i}]") for i, p in enumerate(others_node)),
-            duty_profile=self.duty_profile(root.get("duty_profile") or {}),
-            title_block=self.title_block(root.get("title_block") or {}),
+            duty_profile=self.duty_profile(self.obj_or_empty(root, "duty_profile", "")),
+            title_block=self.title_block(self.obj_or_empty(root, "title_block", "")),
         )
 
 
@@ -543,7 +605,7 @@ def _choice(text: str, allowed: tuple[str, ...], path: str) -> Any:
     if text in allowed:
         return text
     names = ", ".join(repr(a) for a in allowed[:-1]) + f" or {allowed[-1]!r}"
-    raise ProjectFileError(path, f"must be {names}, got {text!r}")
+    raise ProjectFileError(path, f"must be {names}, got {quote_input(text)}")
 
 
 def _side(text: str, path: str) -> Side:
@@ -551,7 +613,7 @@ def _side(text: str, path: str) -> Side:
         return "suction"
     if text == "delivery":
         return "delivery"
-    raise ProjectFileError(path, f"must be 'suction' or 'delivery', got {text!r}")
+    raise ProjectFileError(path, f"must be 'suction' or 'delivery', got {quote_input(text)}")
 
 
 def _carries(text: str, path: str) -> Carries:
@@ -559,7 +621,7 @@ def _carries(text: str, path: str) -> Carries:
         return "pump"
     if text == "station":
         return "station"
-    raise ProjectFileError(path, f"must be 'pump' or 'station', got {text!r}")
+    raise ProjectFileError(path, f"must be 'pump' or 'station', got {quote_input(text)}")
 
 
 def _friction_method(text: str, path: str) -> FrictionMethod:
@@ -567,7 +629,14 @@ def _friction_method(text: str, path: str) -> FrictionMethod:
         return "darcy_weisbach"
     if text == "hazen_williams":
         return "hazen_williams"
-    raise ProjectFileError(path, f"must be 'darcy_weisbach' or 'hazen_williams', got {text!r}")
+    raise ProjectFileError(path, f"must be 'darcy_weisbach' or 'hazen_williams', got {quote_input(text)}")
+
+
+def _bounded_text(value: str, path: str) -> str:
+    """Text of a file no longer than the longest field allows (notes); the exact limits are the model's rules."""
+    if len(value) > MAX_NOTES_CHARACTERS:
+        raise ProjectFileError(path, f"at most {MAX_NOTES_CHARACTERS} characters are allowed; it has {len(value)}")
+    return value
 
 
 def _join(path: str, key: str) -> str:
@@ -580,9 +649,9 @@ def _kind(value: object) -> str:
     if isinstance(value, bool):
         return "true/false"
     if isinstance(value, (int, float)):
-        return f"the number {value!r}"
+        return f"the number {quote_input(value)}"
     if isinstance(value, str):
-        return f"the text {value!r}"
+        return f"the text {quote_input(value)}"
     if isinstance(value, list):
         return "a list"
     if isinstance(value, dict):
@@ -623,7 +692,7 @@ def _unit_factor(unit: str, quantity: str, path: str) -> tuple[float, float]:
             one = float(units.convert_to_si(1.0, quantity, unit))
         except Exception:  # noqa: BLE001 - pint raises several error types for unknown or wrong units
             expected = FILE_UNITS[quantity]
-            raise ProjectFileError(path, f"{unit!r} is not a unit of {quantity.replace('_', ' ')} "
+            raise ProjectFileError(path, f"{quote_input(unit)} is not a unit of {quantity.replace('_', ' ')} "
                                          f"(for example {expected!r})") from None
         _FACTOR_CACHE[key] = (one - zero, zero)
     return _FACTOR_CACHE[key]
@@ -641,7 +710,15 @@ def _quantity_to_si(node: object, path: str, quantity: str) -> float:
     if unit == _file_unit(quantity):
         return value
     factor, offset = _unit_factor(unit, quantity, f"{path}.unit")
-    return value * factor + offset
+    return _finite_si(value * factor + offset, value, unit, f"{path}.value")
+
+
+def _finite_si(si: float, value: float, unit: str, path: str) -> float:
+    """A converted value; one that overflows to infinity through its unit is refused (it could not be saved)."""
+    if not math.isfinite(si):
+        raise ProjectFileError(path, f"{value:g} {quote_input(unit)} is too large: it is not a finite number in SI "
+                                     "units")
+    return si
 
 
 def _catalogue_diameter(series_id: str, nominal: str, path: str) -> float:
@@ -654,17 +731,140 @@ def _catalogue_diameter(series_id: str, nominal: str, path: str) -> float:
         raise ProjectFileError(_join(path, field), exc.problem) from None
 
 
-def project_from_dict(data: object, source: str = "", base_dir: Path | None = None) -> Project:
+class _LongInteger:
+    """A whole number of the file with more than MAX_INTEGER_DIGITS digits, kept as its digit count.
+
+    Converting it would be slow (or refused by Python's limit on digits) and no range of the
+    format holds it; :func:`_check_tree` refuses it with its field path.
+    """
+
+    def __init__(self, digits: int):
+        self.digits = digits
+
+
+class _NonFiniteConstant:
+    """``NaN``, ``Infinity`` or ``-Infinity`` in a file: not JSON, and never a value of a project."""
+
+    def __init__(self, name: str):
+        self.name = name
+
+
+class _DuplicateKeys(dict[str, object]):
+    """An object of the file in which a key appears twice (the first repeated key is remembered)."""
+
+    duplicate = ""
+
+
+def _integer(text: str) -> int | _LongInteger:
+    digits = len(text.lstrip("-"))
+    return _LongInteger(digits) if digits > MAX_INTEGER_DIGITS else int(text)
+
+
+def _object(pairs: list[tuple[str, object]]) -> dict[str, object]:
+    result = dict(pairs)
+    if len(result) == len(pairs):
+        return result
+    seen: set[str] = set()
+    duplicated = _DuplicateKeys(result)
+    for key, _ in pairs:
+        if key in seen:
+            duplicated.duplicate = key
+            break
+        seen.add(key)
+    return duplicated
+
+
+def parse_project_json(text: str, source: str = "") -> object:
+    """The parsed JSON of a project file's text, or :class:`ProjectFileError` with the line and column.
+
+    Whole numbers longer than :data:`~hydraulics.validation.MAX_INTEGER_DIGITS`, ``NaN`` and
+    ``Infinity`` and repeated keys are kept as markers, refused with their field path by
+    :func:`project_from_dict`.
+    """
+    try:
+        return json.loads(text, parse_int=_integer, parse_constant=_NonFiniteConstant,
+                          object_pairs_hook=_object)
+    except json.JSONDecodeError as exc:
+        raise ProjectFileError(
+            "", f"not valid JSON (line {exc.lineno}, column {exc.colno}: {exc.msg}); the file may be truncated",
+            source,
+        ) from None
+    except RecursionError:
+        raise ProjectFileError("", f"objects and lists are nested too deeply (at most {MAX_JSON_NESTING} levels)",
+                               source) from None
+
+
+def _check_tree(data: object) -> None:
+    """Refuse, with the field path, what the reader must never see: too deep a nesting, a repeated key,
+    a whole number too long, NaN or infinity.  Iterative: a deep file cannot exhaust the stack."""
+    stack: list[tuple[object, str, int]] = [(data, "", 0)]
+    while stack:
+        node, path, depth = stack.pop()
+        if depth > MAX_JSON_NESTING:
+            raise ProjectFileError(path, f"nested too deeply (at most {MAX_JSON_NESTING} levels of objects and lists)")
+        if isinstance(node, dict):
+            if isinstance(node, _DuplicateKeys):
+                raise ProjectFileError(_join(path, node.duplicate),
+                                       "this key appears twice in the same object; keep one")
+            stack.extend((value, _join(path, str(key)), depth + 1) for key, value in node.items())
+        elif isinstance(node, list):
+            stack.extend((value, f"{path}[{i}]", depth + 1) for i, value in enumerate(node))
+        elif isinstance(node, _LongInteger):
+            raise ProjectFileError(path, f"a whole number of {node.digits} digits; a number in a project file has "
+                                         f"at most {MAX_INTEGER_DIGITS} digits")
+        elif isinstance(node, _NonFiniteConstant):
+            raise ProjectFileError(path, f"{node.name} is not a number of a project; give a finite number")
+        elif isinstance(node, float) and not math.isfinite(node):
+            raise ProjectFileError(path, "must be a finite number (too large a number?)")
+        elif isinstance(node, int) and not isinstance(node, bool) and abs(node) >= 10 ** MAX_INTEGER_DIGITS:
+            raise ProjectFileError(path, f"a whole number of {quote_input(node)}; at most {MAX_INTEGER_DIGITS} "
+                                         "digits are allowed")
+
+
+def _check_counts(data: object) -> None:
+    """The counts of the file within the size limits, before any value is converted."""
+    if not isinstance(data, dict):
+        return
+    counted: list[tuple[object, int, str, str]] = [
+        (data.get("segments"), MAX_SEGMENTS, "pipe segments", "segments"),
+        (data.get("pumps"), MAX_PUMPS, "pumps", "pumps"),
+        (data.get("profile"), MAX_PROFILE_POINTS, "profile points", "profile"),
+    ]
+    for i, segment in enumerate(data.get("segments") or ()) if isinstance(data.get("segments"), list) else ():
+        if isinstance(segment, dict):
+            counted.append((segment.get("fittings"), MAX_FITTINGS_PER_SEGMENT, "fitting rows in a segment",
+                            f"segments[{i}].fittings"))
+    for i, pump in enumerate(data.get("pumps") or ()) if isinstance(data.get("pumps"), list) else ():
+        points = pump.get("points") if isinstance(pump, dict) else None
+        for key, column in points.items() if isinstance(points, dict) else ():
+            values = column.get("values") if isinstance(column, dict) else None
+            counted.append((values, MAX_PUMP_POINTS, "points in a pump curve", f"pumps[{i}].points.{key}.values"))
+    for value, limit, what, path in counted:
+        if isinstance(value, list):
+            try:
+                require_at_most(len(value), limit, what, path)
+            except ModelError as exc:
+                raise ProjectFileError(exc.field_path, exc.problem) from None
+
+
+def project_from_dict(data: object, source: str = "", base_dir: Path | None = None,
+                      data_folders: tuple[Path, ...] = ()) -> Project:
     """Build a validated :class:`Project` from parsed JSON, or raise ProjectFileError.
 
     A file of an older format version is first brought up to :data:`FORMAT_VERSION` by the
     registered migrations (:mod:`hydraulics.format_migrations`); the caller's ``data`` is not
-    changed.
+    changed.  Before any of that the tree is checked (nesting, repeated keys, long numbers) and
+    the counts are held against the size limits of :mod:`hydraulics.validation`.
+
+    A pump's ``source_csv`` is read only when it resolves to a ``.csv`` file inside ``base_dir``
+    (the project's folder) or one of ``data_folders`` (folders the user chose for pump data).
     """
     try:
+        _check_tree(data)
+        _check_counts(data)
         if isinstance(data, dict) and data.get("format") == FORMAT_NAME:
             data = migrate(data, FORMAT_VERSION)
-        project = _Reader(base_dir).project(data)
+        project = _Reader(base_dir, data_folders).project(data)
         validate_project(project)
     except (ProjectFileError, MigrationError) as exc:
         raise ProjectFileError(exc.field_path, exc.problem, source) from None
@@ -673,23 +873,24 @@ def project_from_dict(data: object, source: str = "", base_dir: Path | None = No
     return project
 
 
-def load_project(path: str | os.PathLike[str]) -> Project:
-    """Read a project file; raise :class:`ProjectFileError` for any problem."""
+def load_project(path: str | os.PathLike[str], data_folders: tuple[Path, ...] = ()) -> Project:
+    """Read a project file; raise :class:`ProjectFileError` for any problem.
+
+    The file is read by :func:`hydraulics.bounded_read.read_text_file`: a regular file of at most
+    :data:`~hydraulics.validation.MAX_PROJECT_FILE_BYTES`, UTF-8 with or without a byte-order mark.
+    ``data_folders`` are folders besides the project's own from which pump data files may be read.
+    """
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        text = read_text_file(path, MAX_PROJECT_FILE_BYTES)
     except FileNotFoundError:
         raise ProjectFileError("", "file not found", str(path)) from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise ProjectFileError("", f"cannot read the file ({exc})", str(path)) from None
-    try:
-        data = json.loads(text)
-    except json.JSONDecodeError as exc:
-        raise ProjectFileError(
-            "", f"not valid JSON (line {exc.lineno}, column {exc.colno}: {exc.msg}); the file may be truncated",
-            str(path),
-        ) from None
-    return project_from_dict(data, source=str(path), base_dir=path.parent)
+    except BoundedReadError as exc:
+        raise ProjectFileError("", f"cannot read the file ({exc.problem})", str(path)) from None
+    except OSError as exc:
+        raise ProjectFileError("", f"cannot read the file ({exc.strerror or type(exc).__name__})", str(path)) from None
+    data = parse_project_json(text, str(path))
+    return project_from_dict(data, source=str(path), base_dir=path.parent, data_folders=data_folders)
 
 
 # =========================================================================== writing
@@ -843,7 +1044,7 @@ def project_to_dict(project: Project) -> dict[str, object]:
 
 def project_to_json(project: Project) -> str:
     """The file text: two-space indented, keys in a fixed order, newline at the end."""
-    return json.dumps(project_to_dict(project), indent=2, ensure_ascii=False) + "\n"
+    return json.dumps(project_to_dict(project), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
 
 
 BACKUP_SUFFIX = ".bak"
@@ -957,6 +1158,8 @@ def atomic_write_text(path: str | os.PathLike[str], text: str, keep_backup: bool
 def save_project(project: Project, path: str | os.PathLike[str]) -> None:
     """Validate and save ``project`` atomically (the old file survives any failure).
 
+    The rules are those of reading (:func:`~hydraulics.validation.validate_project`), and the
+    text never holds ``NaN`` or ``Infinity`` (``allow_nan=False``): what is saved can be opened.
     The version replaced is kept as ``NAME.pumpsketch.json.bak`` beside the file (one
     generation, :func:`backup_path`).
     """

@@ -49,9 +49,17 @@ import re
 from dataclasses import dataclass
 from pathlib import Path
 
+from hydraulics.bounded_read import BoundedReadError, read_text_file
+from hydraulics.input_excerpt import quote_input
 from hydraulics.model import ModelError, PumpModel
 from hydraulics.units import convert_to_si
-from hydraulics.validation import require_pump_points, validate_pump
+from hydraulics.validation import (
+    MAX_PUMP_CSV_BYTES,
+    MAX_PUMP_POINTS,
+    MAX_SOURCE_COMMENT_LINES,
+    require_pump_points,
+    validate_pump,
+)
 
 __all__ = ["PumpCsvError", "read_pump_csv", "read_pump_csv_with_messages"]
 
@@ -68,8 +76,10 @@ class PumpCsvError(ValueError):
     """
 
     def __init__(self, problem: str, line: int | None = None, column: int | None = None,
-                 column_name: str | None = None):
+                 column_name: str | None = None, quotes_content: bool = True):
         self.problem = problem
+        self.quotes_content = quotes_content
+        """False when ``problem`` holds nothing of the file's content (its size, its kind, its encoding)."""
         self.line = line
         self.column = column
         self.column_name = column_name
@@ -112,6 +122,15 @@ def _to_si(value: float, key: str, unit: str) -> float:
     return float(convert_to_si(value, quantity, unit))
 
 
+def _finite_si(value: float, key: str, unit: str, line: int, column: int) -> float:
+    """``value`` in SI; a value that overflows to infinity through its unit is refused, not kept."""
+    si = _to_si(value, key, unit)
+    if not math.isfinite(si):
+        raise PumpCsvError(f"{value:g} [{unit}] is too large: it is not a finite number in SI units",
+                           line, column, key)
+    return si
+
+
 def _check_unit(key: str, unit: str, line: int, column: int) -> None:
     """Refuse a unit of the wrong dimension or one the registry does not know."""
     try:
@@ -124,7 +143,7 @@ def _check_unit(key: str, unit: str, line: int, column: int) -> None:
             "power": "a power unit such as kW or hp",
             "efficiency": "% or - (a fraction)",
         }[key]
-        raise PumpCsvError(f"unit '[{unit}]' is not {expected}", line, column, key) from None
+        raise PumpCsvError(f"unit {quote_input(unit)} is not {expected}", line, column, key) from None
 
 
 def _parse_number(text: str, decimal_comma: bool) -> float | None:
@@ -141,19 +160,26 @@ def _split(line: str, separator: str) -> list[str]:
     return [cell.strip() for cell in line.split(separator)]
 
 
-MAX_SOURCE_COMMENTS = 40
+MAX_SOURCE_COMMENTS = MAX_SOURCE_COMMENT_LINES
 """Comment lines kept with a pump as its provenance (the rest of a long preamble is dropped)."""
 MAX_COMMENT_CHARACTERS = 200
 """Characters kept of each comment line."""
 
 
 def _read_text(path_or_text: str | Path) -> str:
-    """The file's text, or the argument itself when it is CSV text (has a line break)."""
-    if isinstance(path_or_text, Path):
-        return path_or_text.read_text(encoding="utf-8-sig")
-    if "\n" in path_or_text or "\r" in path_or_text:
-        return path_or_text
-    return Path(path_or_text).read_text(encoding="utf-8-sig")
+    """The file's text, or the argument itself when it is CSV text (has a line break).
+
+    A file is read by :func:`hydraulics.bounded_read.read_text_file`: a regular file of at most
+    :data:`~hydraulics.validation.MAX_PUMP_CSV_BYTES`, UTF-8 with or without a byte-order mark.
+    """
+    if isinstance(path_or_text, str) and ("\n" in path_or_text or "\r" in path_or_text):
+        if len(path_or_text) > MAX_PUMP_CSV_BYTES:
+            raise PumpCsvError(f"the data have {len(path_or_text)} characters; at most {MAX_PUMP_CSV_BYTES} are read")
+        return path_or_text.removeprefix("\ufeff")
+    try:
+        return read_text_file(path_or_text, MAX_PUMP_CSV_BYTES)
+    except BoundedReadError as exc:
+        raise PumpCsvError(exc.problem, quotes_content=False) from None
 
 
 def _parse_header(cells: list[str], line_no: int) -> list[_Column]:
@@ -163,13 +189,13 @@ def _parse_header(cells: list[str], line_no: int) -> list[_Column]:
         match = _HEADER_CELL.match(cell)
         if match is None:
             raise PumpCsvError(
-                f"header cell '{cell}' needs a name and a unit in brackets, e.g. 'flow [L/s]'",
+                f"header cell {quote_input(cell)} needs a name and a unit in brackets, e.g. 'flow [L/s]'",
                 line_no, index + 1)
         name = match.group("name").strip().lower().replace(" ", "_")
         key = _NAME_TO_COLUMN.get(name)
         if key is None:
             raise PumpCsvError(
-                f"unknown column '{match.group('name').strip()}'; expected flow, head, efficiency, "
+                f"unknown column {quote_input(match.group('name').strip())}; expected flow, head, efficiency, "
                 "npsh_required or power", line_no, index + 1)
         if key in seen:
             raise PumpCsvError(f"column '{key}' appears twice (also column {seen[key]})", line_no, index + 1, key)
@@ -190,16 +216,20 @@ def _parse_metadata(line: str, line_no: int, decimal_comma: bool, metadata: dict
     key = match.group("key").lower()
     if key not in _METADATA_KEYS:
         raise PumpCsvError(
-            f"unknown setting '{match.group('key')}'; the settings are rated_speed and impeller_diameter",
+            f"unknown setting {quote_input(match.group('key'))}; the settings are rated_speed and impeller_diameter",
             line_no)
     value = _parse_number(match.group("value"), decimal_comma)
     if value is None or value <= 0:
-        raise PumpCsvError(f"{key} '{match.group('value')}' is not a positive number", line_no)
+        raise PumpCsvError(f"{key} {quote_input(match.group('value'))} is not a positive number", line_no)
     unit = match.group("unit").strip()
     try:
-        metadata[key] = float(convert_to_si(value, _METADATA_KEYS[key], unit))
+        converted = float(convert_to_si(value, _METADATA_KEYS[key], unit))
     except Exception:  # noqa: BLE001 - pint's parser raises assorted types for non-units
-        raise PumpCsvError(f"{key}: unit '[{unit}]' is not a unit of {_METADATA_KEYS[key]}", line_no) from None
+        raise PumpCsvError(f"{key}: unit {quote_input(unit)} is not a unit of {_METADATA_KEYS[key]}",
+                           line_no) from None
+    if not math.isfinite(converted):
+        raise PumpCsvError(f"{key} {value:g} [{unit}] is too large: it is not a finite number in SI units", line_no)
+    metadata[key] = converted
 
 
 def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: str,
@@ -282,11 +312,11 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
             value = _parse_number(cell, decimal_comma)
             if value is None:
                 hint = " (decimal comma needs ';' as separator)" if ("," in cell and not decimal_comma) else ""
-                raise PumpCsvError(f"'{cell}' is not a number{hint}", line_no, column_no, col.key)
+                raise PumpCsvError(f"{quote_input(cell)} is not a number{hint}", line_no, column_no, col.key)
             if value < 0:
                 raise PumpCsvError(f"{value:g} is negative; {col.key} must be zero or more",
                                    line_no, column_no, col.key)
-            si = _to_si(value, col.key, col.unit)
+            si = _finite_si(value, col.key, col.unit, line_no, column_no)
             if col.key == "efficiency" and si > 1.0:
                 raise PumpCsvError(
                     f"efficiency {value:g} [{col.unit}] is above 100 %"
@@ -294,6 +324,9 @@ def read_pump_csv_with_messages(path_or_text: str | Path, pump_id: str, name: st
                     line_no, column_no, col.key)
             row[col.key] = si
         rows.append((line_no, row))
+        if len(rows) > MAX_PUMP_POINTS:
+            raise PumpCsvError(f"more than {MAX_PUMP_POINTS} data rows; a pump curve has at most {MAX_PUMP_POINTS} "
+                               "points", line_no)
 
     if columns is None:
         raise PumpCsvError("no header line found; the first data line must name the columns, e.g. "

@@ -42,6 +42,7 @@ import numpy as np
 import pint
 from numpy.typing import NDArray
 
+from hydraulics.input_excerpt import quote_input
 from hydraulics.number_format import significant_figures
 from hydraulics.results import FloatArray
 
@@ -49,6 +50,8 @@ __all__ = [
     "ureg",
     "Q_",
     "UnitInputError",
+    "UnitTextError",
+    "check_unit_text",
     "QUANTITIES",
     "UNIT_SYSTEMS",
     "parse_quantity",
@@ -96,6 +99,15 @@ class UnitInputError(ValueError):
         self.text = text
         self.problem = problem
         super().__init__(f"{field}: {problem}" if field else problem)
+
+
+class UnitTextError(ValueError):
+    """A unit text refused before pint sees it (too long, a character or a unit outside the allow-list,
+    an exponent tower or an exponent out of range); ``problem`` says which, in plain words."""
+
+    def __init__(self, problem: str):
+        self.problem = problem
+        super().__init__(problem)
 
 
 # --------------------------------------------------------------------------- quantities
@@ -426,6 +438,100 @@ def _cached_linear(unit_text: str, quantity: str) -> _Linear:
     return _linear_to_stored(unit, quantity)
 
 
+_UNIT_CHARACTERS: Final = frozenset(
+    "abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789 */^()._-%"
+    "°²³¹⁰⁴⁵⁶⁷⁸⁹⁻µμℓ·×℃℉\u2212\u2013\u00a0\u202f\u2009"
+)
+"""Every character a unit may contain: ASCII letters and digits, the operators, and the symbols the
+trade writes (degree, superscript powers, micro, litre, middle dot and times).  Anything else (a
+control character, a letter of another script that only looks like a Latin one) is refused."""
+_UNIT_TOKEN: Final = re.compile(r"\s*(?:(?P<name>[A-Za-z_%°][A-Za-z0-9_]*)|(?P<number>\d+(?:\.\d+)?)"
+                                r"|(?P<power>\*\*|\^)|(?P<op>[*/()])|(?P<minus>-))")
+_MAX_UNIT_TOKENS: Final = 16
+_MAX_UNIT_PARENTHESES: Final = 2
+_MAX_UNIT_FACTOR_DIGITS: Final = 6
+
+
+def check_unit_text(unit_text: str, quantity: str = "") -> str:
+    """``unit_text`` normalised for pint, or :class:`UnitTextError` when it is outside the allow-list.
+
+    A unit is refused, in far less than a second, when it is longer than
+    :data:`~hydraulics.validation.MAX_UNIT_CHARACTERS`, holds a character outside the trade's set, a
+    name the registry does not know, a power tower (``m**2**3``) or a power beyond
+    :data:`~hydraulics.validation.MAX_UNIT_EXPONENT`, a factor of more than six digits, or more
+    than two levels of brackets.  Nothing is evaluated: pint parses only what passes.
+
+    >>> check_unit_text("m³/h")
+    'm**3/h'
+    >>> check_unit_text("m*9**9**9")
+    Traceback (most recent call last):
+    ...
+    hydraulics.units.UnitTextError: a power of a power ('**9**') is not a unit
+    >>> check_unit_text("\u043c")  # Cyrillic em, which looks like m
+    Traceback (most recent call last):
+    ...
+    hydraulics.units.UnitTextError: the character 'м' (U+043C) is not allowed in a unit
+    """
+    from hydraulics.validation import MAX_UNIT_CHARACTERS, MAX_UNIT_EXPONENT
+
+    if len(unit_text) > MAX_UNIT_CHARACTERS:
+        raise UnitTextError(f"a unit has at most {MAX_UNIT_CHARACTERS} characters; this one has {len(unit_text)}")
+    for character in unit_text:
+        if character not in _UNIT_CHARACTERS:
+            raise UnitTextError(f"the character {character!r} (U+{ord(character):04X}) is not allowed in a unit")
+    text = _normalise_unit_text(unit_text, quantity)
+    tokens: list[tuple[str, str]] = []
+    position = 0
+    while position < len(text):
+        match = _UNIT_TOKEN.match(text, position)
+        if match is None or match.end() == position:
+            if text[position:].strip() == "":
+                break
+            raise UnitTextError(f"{text[position:position + 1]!r} is not understood in a unit")
+        kind = match.lastgroup or ""
+        tokens.append((kind, match.group(kind)))
+        position = match.end()
+    if len(tokens) > _MAX_UNIT_TOKENS:
+        raise UnitTextError(f"a unit has at most {_MAX_UNIT_TOKENS} parts; this one has {len(tokens)}")
+    depth = 0
+    for index, (kind, token) in enumerate(tokens):
+        before = tokens[index - 1][0] if index else ""
+        if kind == "name" and token not in ureg:
+            raise UnitTextError(f"the unit {token!r} is not known")
+        if kind == "number" and before not in ("power", "minus") and len(token) > _MAX_UNIT_FACTOR_DIGITS:
+            raise UnitTextError(f"a factor in a unit has at most {_MAX_UNIT_FACTOR_DIGITS} digits")
+        if kind == "minus" and before != "power":
+            raise UnitTextError("a minus sign in a unit belongs to a power (m**-1)")
+        if kind == "power":
+            rest = tokens[index + 1:index + 4]
+            sign = 1
+            if rest and rest[0][0] == "minus":
+                sign, rest = -1, rest[1:]
+            if not rest or rest[0][0] != "number" or "." in rest[0][1]:
+                raise UnitTextError("a power in a unit is a whole number (m**3, s**-1)")
+            if len(rest) > 1 and rest[1][0] == "power":
+                raise UnitTextError(f"a power of a power ('**{rest[0][1]}**') is not a unit")
+            if len(rest[0][1]) > 2 or int(rest[0][1]) > MAX_UNIT_EXPONENT:
+                power = sign * int(rest[0][1][:3])
+                raise UnitTextError(f"a power in a unit is at most {MAX_UNIT_EXPONENT}; got {power}")
+        if token == "(":
+            depth += 1
+            if depth > _MAX_UNIT_PARENTHESES:
+                raise UnitTextError(f"a unit has at most {_MAX_UNIT_PARENTHESES} levels of brackets")
+        elif token == ")":
+            depth -= 1
+            if depth < 0:
+                raise UnitTextError("a closing bracket without its opening one")
+    if depth:
+        raise UnitTextError("an opening bracket without its closing one")
+    return text
+
+
+def _linear_for(unit_text: str, quantity: str) -> _Linear:
+    """The conversion of a unit text after :func:`check_unit_text`; raises it or pint's errors."""
+    return _cached_linear(check_unit_text(unit_text, quantity), quantity)
+
+
 @overload
 def convert_to_si(value: Scalar, quantity: str, unit: str) -> float: ...
 @overload
@@ -439,7 +545,7 @@ def convert_to_si(value: Scalar | NDArray[np.number], quantity: str, unit: str) 
     0.03333333333333333
     """
     _check_quantity(quantity)
-    linear = _cached_linear(_normalise_unit_text(unit, quantity), quantity)
+    linear = _linear_for(unit, quantity)
     return _apply(value, linear.scale, linear.offset)
 
 
@@ -454,7 +560,7 @@ def convert_from_si(value_si: Scalar | NDArray[np.number], quantity: str, unit: 
     360.0
     """
     _check_quantity(quantity)
-    linear = _cached_linear(_normalise_unit_text(unit, quantity), quantity)
+    linear = _linear_for(unit, quantity)
     return _apply(value_si, linear.inverse_scale, linear.inverse_offset)
 
 
@@ -554,47 +660,54 @@ def parse_quantity(text: str, quantity: str, default_unit: str | None = None, fi
     ...
     hydraulics.units.UnitInputError: Length: '1,5 m' has a comma; use a decimal point (1.5) and no thousands separator
     """
+    from hydraulics.validation import MAX_TYPED_CHARACTERS
+
     _check_quantity(quantity)
     wording = _WORDING[quantity]
     label = field or wording.label
     if not isinstance(text, str):
-        raise UnitInputError(label, repr(text), f"expected text, got {type(text).__name__}")
+        raise UnitInputError(label, quote_input(text), f"expected text, got {type(text).__name__}")
+    if len(text) > MAX_TYPED_CHARACTERS:
+        raise UnitInputError(label, quote_input(text), f"{quote_input(text)} is too long: a value with its unit has "
+                                                       f"at most {MAX_TYPED_CHARACTERS} characters")
     shown = text.strip()
+    quoted = quote_input(shown)
     if not shown:
         raise UnitInputError(label, text, f"nothing typed; {_expected(quantity)}")
     if "," in shown:
         raise UnitInputError(
-            label, text, f"'{shown}' has a comma; use a decimal point (1.5) and no thousands separator"
+            label, text, f"{quoted} has a comma; use a decimal point (1.5) and no thousands separator"
         )
     if _NOT_FINITE.match(shown):
-        raise UnitInputError(label, text, f"'{shown}' is not a finite number; {_expected(quantity)}")
+        raise UnitInputError(label, text, f"{quoted} is not a finite number; {_expected(quantity)}")
     match = _NUMBER_AND_UNIT.match(shown.translate(_CHARACTER_SUBSTITUTES))
     if match is None:
-        raise UnitInputError(label, text, f"'{shown}' does not start with a number; {_expected(quantity)}")
+        raise UnitInputError(label, text, f"{quoted} does not start with a number; {_expected(quantity)}")
     number = float(match.group("number"))
     if not math.isfinite(number):
-        raise UnitInputError(label, text, f"'{shown}' is too large a number; {_expected(quantity)}")
+        raise UnitInputError(label, text, f"{quoted} is too large a number; {_expected(quantity)}")
     unit_text = match.group("unit")
     if not unit_text:
         unit_text = default_unit if default_unit is not None else QUANTITIES[quantity][1]
-    normalised = _normalise_unit_text(unit_text, quantity)
     try:
-        linear = _cached_linear(normalised, quantity)
+        linear = _linear_for(unit_text, quantity)
+    except UnitTextError as exc:
+        raise UnitInputError(label, text, f"{quoted}: {exc.problem}; {_expected(quantity)}") from None
     except pint.DimensionalityError:
-        raise UnitInputError(label, text, f"'{shown}' is not {wording.noun}; {_expected(quantity)}") from None
+        raise UnitInputError(label, text, f"{quoted} is not {wording.noun}; {_expected(quantity)}") from None
     except pint.UndefinedUnitError:
         raise UnitInputError(
-            label, text, f"'{shown}': the unit '{unit_text}' is not known; {_expected(quantity)}"
+            label, text, f"{quoted}: the unit {quote_input(unit_text)} is not known; {_expected(quantity)}"
         ) from None
     except Exception:  # noqa: BLE001 - pint's parser raises many types for non-units
         # For text that is not a unit expression at all pint raises assorted types
         # (tokenize.TokenError, AssertionError, ValueError, ...); all mean the same here.
         raise UnitInputError(
-            label, text, f"'{shown}' is not understood; {_expected(quantity)}"
+            label, text, f"{quoted} is not understood; {_expected(quantity)}"
         ) from None
     value = number * linear.scale + linear.offset
     if not math.isfinite(value):
-        raise UnitInputError(label, text, f"'{shown}' is too large a number; {_expected(quantity)}")
+        raise UnitInputError(label, text, f"{quoted} is too large a number; {_expected(quantity)}")
     return value
 
 

@@ -14,6 +14,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
+from hydraulics.input_excerpt import quote_input
 from hydraulics.model import (
     Arrangement,
     Criteria,
@@ -160,6 +161,41 @@ MIN_SEGMENTS = 1
 MIN_PUMP_POINTS = 3
 """Fewest test points a pump curve may have: a second-order fit needs three."""
 
+# --------------------------------------------------------------------------- sizes of input
+# Checked before any work is done on an input, so no file, table or typed text can make the
+# program run for minutes or fill the memory.  Each limit is far above what a pumping-station
+# design needs (its reason beside it) and is named in the refusal.
+MAX_PROJECT_FILE_BYTES = 20_000_000
+"""Largest project file read (20 MB).  A file at every count limit below is about 8 MB."""
+MAX_PUMP_CSV_BYTES = 1_000_000
+"""Largest pump data file read (1 MB): MAX_PUMP_POINTS rows and a long comment preamble fit in 50 kB."""
+MAX_JSON_NESTING = 20
+"""Deepest nesting of objects and lists in a project file: the format itself nests 5 levels."""
+MAX_INTEGER_DIGITS = 18
+"""Digits of a whole number in a file: more cannot be held exactly as a float and never fit a range."""
+MAX_SEGMENTS = 500
+"""Pipe segments in a project: a station with every branch modelled has tens."""
+MAX_FITTINGS_PER_SEGMENT = 200
+"""Fitting rows in one segment (each row has a count up to LIMITS["fitting.count"])."""
+MAX_PUMPS = 50
+"""Pump models in a project: a station installs a few; a shortlist of candidates, some tens."""
+MAX_PUMP_POINTS = 200
+"""Test points of one pump curve: a data sheet gives 5 to 30."""
+MAX_PROFILE_POINTS = 20_000
+"""Points of the main's profile: a 100 km main surveyed every 5 m."""
+MAX_TEXT_CHARACTERS = 200
+"""Characters of a name, an id or a title-block field."""
+MAX_NOTES_CHARACTERS = 20_000
+"""Characters of the project's or a pump's notes (several pages of text)."""
+MAX_SOURCE_COMMENT_LINES = 40
+"""Comment lines of a pump data file kept with the pump as its provenance (each up to MAX_TEXT_CHARACTERS)."""
+MAX_TYPED_CHARACTERS = 100
+"""Characters of a typed value with its unit ("1450 rpm", "0.0355 m³/s") in a cell or a file's unit text."""
+MAX_UNIT_CHARACTERS = 40
+"""Characters of a unit ("kWh/m³", "ft³/s", "mm²/s"): the longest the trade writes are about 12."""
+MAX_UNIT_EXPONENT = 4
+"""Largest power in a unit (m⁴ is the most a hydraulic unit uses; m³ is common)."""
+
 _POINT_COLUMNS = (
     ("flow_m3_s", "pump.flow_m3_s", "flow"),
     ("head_m", "pump.head_m", "head"),
@@ -169,6 +205,61 @@ _POINT_COLUMNS = (
 )
 _OPTIONAL_POINT_COLUMNS = ("efficiency", "npsh_required_m", "shaft_power_w")
 _FIT_ORDERS = ("head_fit_order", "efficiency_fit_order", "power_fit_order")
+
+
+def require_at_most(count: int, limit: int, what: str, field_path: str) -> None:
+    """Refuse ``count`` items of ``what`` above ``limit`` (one of the size limits above), naming the limit.
+
+    >>> require_at_most(482_103, MAX_SEGMENTS, "pipe segments", "segments")
+    Traceback (most recent call last):
+    ...
+    hydraulics.model.ModelError: segments: at most 500 pipe segments are allowed; there are 482103
+    """
+    if count > limit:
+        raise ModelError(field_path, f"at most {limit} {what} are allowed; there are {count}", count)
+
+
+def check_text(value: object, field_path: str, limit: int = MAX_TEXT_CHARACTERS) -> None:
+    """Refuse a text field that is not text or is longer than ``limit`` characters."""
+    if not isinstance(value, str):
+        raise ModelError(field_path, f"expected text; got {type(value).__name__}", value)
+    if len(value) > limit:
+        raise ModelError(field_path, f"at most {limit} characters are allowed; it has {len(value)}", len(value))
+
+
+def _validate_texts(project: Project) -> None:
+    """Every name, id and note of the project is text within its length limit."""
+    check_text(project.name, "name")
+    check_text(project.notes, "notes", MAX_NOTES_CHARACTERS)
+    for i, segment in enumerate(project.segments):
+        check_text(segment.name, f"segments[{i}].name")
+        check_text(segment.material_id, f"segments[{i}].material")
+        for j, fitting in enumerate(segment.fittings):
+            check_text(fitting.fitting_id, f"segments[{i}].fittings[{j}].type")
+    for i, pump in enumerate(project.pumps):
+        check_text(pump.pump_id, f"pumps[{i}].id")
+        check_text(pump.name, f"pumps[{i}].name")
+        check_text(pump.notes, f"pumps[{i}].notes", MAX_NOTES_CHARACTERS)
+        check_text(pump.source_file, f"pumps[{i}].source.file")
+        require_at_most(len(pump.source_comments), MAX_SOURCE_COMMENT_LINES, "comment lines of a pump's source",
+                        f"pumps[{i}].source.comments")
+        for j, line in enumerate(pump.source_comments):
+            check_text(line, f"pumps[{i}].source.comments[{j}]")
+    check_text(project.energy.currency, "energy.currency")
+    for key in ("site", "revision", "date", "prepared_by", "checked_by"):
+        check_text(getattr(project.title_block, key), f"title_block.{key}")
+
+
+def validate_sizes(project: Project) -> None:
+    """The counts of a project within the size limits (segments, fittings, pumps, points, profile)."""
+    require_at_most(len(project.segments), MAX_SEGMENTS, "pipe segments", "segments")
+    for i, segment in enumerate(project.segments):
+        require_at_most(len(segment.fittings), MAX_FITTINGS_PER_SEGMENT, "fitting rows in a segment",
+                        f"segments[{i}].fittings")
+    require_at_most(len(project.pumps), MAX_PUMPS, "pumps", "pumps")
+    for i, pump in enumerate(project.pumps):
+        require_at_most(len(pump.flow_m3_s), MAX_PUMP_POINTS, "points in a pump curve", f"pumps[{i}].points")
+    require_at_most(len(project.profile), MAX_PROFILE_POINTS, "profile points", "profile")
 
 
 def check(key: str, value: object, field_path: str | None = None) -> float:
@@ -221,9 +312,9 @@ def validate_segment(segment: Segment, path: str) -> None:
     if not segment.name.strip():
         raise ModelError(f"{path}.name", "a segment needs a name")
     if segment.side not in ("suction", "delivery"):
-        raise ModelError(f"{path}.side", f"side must be 'suction' or 'delivery'; got {segment.side!r}")
+        raise ModelError(f"{path}.side", f"side must be 'suction' or 'delivery'; got {quote_input(segment.side)}")
     if segment.carries not in ("pump", "station"):
-        raise ModelError(f"{path}.carries", f"carries must be 'pump' or 'station'; got {segment.carries!r}")
+        raise ModelError(f"{path}.carries", f"carries must be 'pump' or 'station'; got {quote_input(segment.carries)}")
     check("segment.length_m", segment.length_m, f"{path}.length")
     check("segment.internal_diameter_m", segment.internal_diameter_m, f"{path}.internal_diameter")
     _optional("segment.elevation_m", segment.start_elevation_m, f"{path}.start_elevation")
@@ -314,7 +405,7 @@ def validate_arrangement(arrangement: Arrangement, project: Project, path: str =
     """Check the pump arrangement and that it names a pump of the project."""
     if project.pump(arrangement.pump_id) is None:
         ids = ", ".join(p.pump_id for p in project.pumps) or "none defined"
-        raise ModelError(f"{path}.pump_id", f"no pump {arrangement.pump_id!r} in the project (pumps: {ids})")
+        raise ModelError(f"{path}.pump_id", f"no pump {quote_input(arrangement.pump_id)} in the project (pumps: {ids})")
     check("arrangement.duty_count", arrangement.duty_count, f"{path}.duty_count")
     check("arrangement.standby_count", arrangement.standby_count, f"{path}.standby_count")
     check("arrangement.series_stages", arrangement.series_stages, f"{path}.series_stages")
@@ -334,9 +425,9 @@ def validate_other_pump(pump: InstalledPump, project: Project, path: str) -> Non
     """Check one installed pump beside the arrangement's: its model, role, speeds and efficiencies."""
     if project.pump(pump.pump_id) is None:
         ids = ", ".join(p.pump_id for p in project.pumps) or "none defined"
-        raise ModelError(f"{path}.pump", f"no pump {pump.pump_id!r} in the project (pumps: {ids})")
+        raise ModelError(f"{path}.pump", f"no pump {quote_input(pump.pump_id)} in the project (pumps: {ids})")
     if pump.role not in ("duty", "assist", "standby"):
-        raise ModelError(f"{path}.role", f"must be 'duty', 'assist' or 'standby', got {pump.role!r}")
+        raise ModelError(f"{path}.role", f"must be 'duty', 'assist' or 'standby', got {quote_input(pump.role)}")
     check("arrangement.speed_ratio", pump.speed_ratio, f"{path}.speed_ratio")
     if pump.variable_speed:
         check("arrangement.speed_ratio", pump.min_speed_ratio, f"{path}.min_speed_ratio")
@@ -353,11 +444,12 @@ def validate_duty_profile(profile: DutyProfile, path: str = "duty_profile") -> N
     """Check the duty bands, their time basis (hours ≤ a leap year's, shares summing to at most 1)."""
     check("duty_profile.bands", len(profile.bands), f"{path}.bands")
     if profile.time_basis not in ("hours", "share"):
-        raise ModelError(f"{path}.time_basis", f"must be 'hours' or 'share', got {profile.time_basis!r}")
+        raise ModelError(f"{path}.time_basis", f"must be 'hours' or 'share', got {quote_input(profile.time_basis)}")
     if profile.strategy not in ("fixed_staging", "variable_speed"):
-        raise ModelError(f"{path}.strategy", f"must be 'fixed_staging' or 'variable_speed', got {profile.strategy!r}")
+        raise ModelError(f"{path}.strategy",
+                         f"must be 'fixed_staging' or 'variable_speed', got {quote_input(profile.strategy)}")
     if profile.pipe not in ("new", "aged"):
-        raise ModelError(f"{path}.pipe", f"must be 'new' or 'aged', got {profile.pipe!r}")
+        raise ModelError(f"{path}.pipe", f"must be 'new' or 'aged', got {quote_input(profile.pipe)}")
     time_key = "duty_band.hours" if profile.time_basis == "hours" else "duty_band.share"
     total = 0.0
     for i, band in enumerate(profile.bands):
@@ -416,6 +508,8 @@ def validate_project(project: Project) -> None:
     a reducer or expander whose bores contradict it or that has no upstream bore is refused
     here too, naming the fitting's field, so no such project is ever accepted.
     """
+    validate_sizes(project)
+    _validate_texts(project)
     validate_fluid(project.fluid)
     validate_site(project.site)
     if len(project.segments) < MIN_SEGMENTS:

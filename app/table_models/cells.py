@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 
+from hydraulics.input_excerpt import excerpt, quote_input
 from hydraulics.model import ModelError
 from hydraulics.number_format import cell_number, plain_number
 from hydraulics.units import UnitInputError, display_unit, parse_quantity, to_display, unit_label
@@ -106,8 +107,8 @@ def parse_value(text: object, *, label: str, quantity: str, limit_key: str, syst
         limit.check(value, field_path or limit_key)
     except ModelError:
         if limit.integer and math.isfinite(value) and value != int(value):
-            raise CellError(f"{label}: must be a whole number; got {typed}") from None
-        raise CellError(f"{label}: must be {range_text(limit, quantity, system)}; got {typed}") from None
+            raise CellError(f"{label}: must be a whole number; got {excerpt(typed)}") from None
+        raise CellError(f"{label}: must be {range_text(limit, quantity, system)}; got {excerpt(typed)}") from None
     return int(value) if limit.integer else value
 
 
@@ -127,4 +128,4 @@ def parse_choice(text: object, *, label: str, choices: list[tuple[str | None, st
             return value
     names = ", ".join(shown for _, shown in choices[:12])
     more = ", …" if len(choices) > 12 else ""
-    raise CellError(f"{label}: '{typed}' is not one of the choices ({names}{more})")
+    raise CellError(f"{label}: {quote_input(typed)} is not one of the choices ({names}{more})")
