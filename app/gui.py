@@ -10,6 +10,7 @@ from PySide6.QtWidgets import QApplication
 
 from app import error_report, settings
 from app.main_window import APP_TITLE, MainWindow
+from app.recovery import offer_recovered_edits
 
 
 def application() -> QApplication:
@@ -31,7 +32,7 @@ def open_window(path: str | Path | None, as_copy: bool = False) -> MainWindow:
     first; restored, they are opened instead.  ``as_copy`` opens ``path`` as an unsaved copy (a sample), so
     that saving asks where instead of overwriting it."""
     window = MainWindow()
-    if window.offer_recovered_edits():
+    if offer_recovered_edits(window):
         if path is not None:
             window.show_status(f"Unsaved edits restored; {Path(path).name} was not opened.")
         return window

@@ -28,9 +28,10 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
-from app import clipboard, settings
+from app import clipboard, focus, settings
 from app.cautions import CautionsBanner
 from app.document import ProjectDocument
+from app.focus import INPUT_TABS
 from app.help_page import HelpDialog
 from app.layout_barrier import LayoutBarrier
 from app.panels import actions as action_table
@@ -44,7 +45,7 @@ from app.panels.pumps import PumpsPanel
 from app.panels.site_fluid import SiteFluidPanel
 from app.panels.table_view import SpreadsheetView
 from app.plots.plot_tabs import PlotTabs
-from app.recovery import Autosaver, RecoveredEdits, orphaned_recoveries
+from app.recovery import Autosaver, RecoveredEdits
 from app.results.checks_panel import ChecksPanel
 from app.results.operating_points_table import OperatingPointsTable
 from hydraulics.cautions import CAUTIONS_TEXT
@@ -54,8 +55,6 @@ from hydraulics.results import Solution
 APP_TITLE = "PumpSketch"
 UNIT_SYSTEM_LABELS = {"SI": "SI (m, L/s, kPa)", "US": "US customary (ft, gpm, psi)"}
 PROJECT_FILTER = f"PumpSketch projects (*{FILE_SUFFIX});;All files (*)"
-INPUT_TABS = ("Site & fluid", "Pipework", "Pumps", "Criteria", "Duty")
-"""Titles of the input tabs, in order (an ampersand is doubled on the tab so it shows)."""
 STATUS_TIMEOUT_MS = 10_000
 
 
@@ -252,51 +251,8 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ focus
     def focus_target(self, target: tuple[object, ...] | None) -> None:
-        """Bring what a finding or an undone edit is about into view.
-
-        ``("segment", i)`` selects the row in Pipework, ``("profile", i)`` that point of the
-        main's profile; ``("pump", …)`` and
-        ``("arrangement", …)`` open Pumps, ``("installed_pump", row)`` selects that row of its
-        installed pumps; ``("site", name)`` opens Site & fluid and
-        focuses the field of that name where there is one; ``("criteria", name)`` opens
-        Criteria; ``("duty", i)`` opens Duty with band i selected; ``("scenario", (static, pipe,
-        pumps, speed))`` selects that row of the operating points.
-        """
-        if not target:
-            return
-        kind, what = target[0], target[1] if len(target) > 1 else None
-        if kind == "segment" and isinstance(what, int):
-            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pipework"))
-            self.pipework.select_segment(what)
-            self.pipework.segments_view.setFocus()
-        elif kind == "profile" and isinstance(what, int):
-            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pipework"))
-            self.pipework.show_profile(what)
-        elif kind in ("pump", "arrangement"):
-            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pumps"))
-            form = self.pumps_panel.arrangement_form if kind == "arrangement" else self.pumps_panel.pump_form
-            if not (isinstance(what, str) and form.focus_field(what)):
-                self.pumps_panel.show_pump(str(what))
-        elif kind == "installed_pump" and isinstance(what, int):
-            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Pumps"))
-            self.pumps_panel.show_installed_pump(what)
-        elif kind == "site":
-            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Site & fluid"))
-            if isinstance(what, str):
-                self.site_panel.focus_field(what)
-        elif kind == "criteria":
-            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Criteria"))
-            if isinstance(what, str):
-                self.criteria_panel.focus_field(what)
-        elif kind == "duty":
-            self.input_tabs.setCurrentIndex(INPUT_TABS.index("Duty"))
-            if isinstance(what, str):
-                self.duty_panel.form.focus_field(what)
-            elif isinstance(what, int):
-                self.duty_panel.show_band(what)
-        elif kind == "scenario":
-            self.points_table.select_scenario(what)
-            self.points_table.setFocus()
+        """Bring what a finding or an undone edit is about into view (:func:`app.focus.focus_target`)."""
+        focus.focus_target(self, target)
 
     # ------------------------------------------------------------------ action slots
     def new_project(self) -> bool:
@@ -372,29 +328,6 @@ class MainWindow(QMainWindow):
     def show_about(self) -> None:
         self.show_information(f"About {APP_TITLE}", action_table.about_html(APP_TITLE, CAUTIONS_TEXT))
 
-    # ------------------------------------------------------------------ recovery
-    def offer_recovered_edits(self) -> bool:
-        """At start-up: offer the newest unsaved edits a window left after an abnormal exit.
-
-        Restored, they become this window's project, marked unsaved, and are kept in this
-        window's own recovery file before the old one is removed; declined, the old recovery
-        file is deleted.  Older ones (several windows lost at once) are offered at later starts.
-        Returns whether edits were restored.
-        """
-        found = orphaned_recoveries()
-        if not found:
-            return False
-        edits = found[0]
-        if not self.ask_restore(edits):
-            edits.discard()
-            self.show_status("Recovered edits discarded.")
-            return False
-        self.document.restore(edits.project, edits.project_path)
-        if self.autosaver.save_now() is not None:
-            edits.discard()
-        self.show_status("Unsaved edits restored: save them to keep them.")
-        return True
-
     # ------------------------------------------------------------------ questions (tests replace these)
     def ask_save_changes(self) -> str:
         """Ask whether to save unsaved changes: "save", "discard" or "cancel"."""
@@ -405,13 +338,9 @@ class MainWindow(QMainWindow):
 
     def ask_restore(self, edits: RecoveredEdits) -> bool:
         """Ask whether to restore unsaved edits left by a window that did not close normally."""
-        buttons = QMessageBox.StandardButton
-        answer = QMessageBox.question(
-            self, APP_TITLE,
-            f"PumpSketch did not close normally last time.\n\n{edits.description()}.\n\n"
-            "Restore them? (No deletes them.)",
-            buttons.Yes | buttons.No, buttons.Yes)
-        return answer == buttons.Yes
+        text = f"PumpSketch did not close normally.\n\n{edits.description()}.\n\nRestore them? (No deletes them.)"
+        yes, no = QMessageBox.StandardButton.Yes, QMessageBox.StandardButton.No
+        return QMessageBox.question(self, APP_TITLE, text, yes | no, yes) == yes
 
     def ask_open_path(self) -> str:
         path, _filter = QFileDialog.getOpenFileName(self, "Open project", self._start_folder(), PROJECT_FILTER)

@@ -14,7 +14,7 @@ folder at a clean exit.
 
 After an abnormal exit (a crash, a kill, a power cut) the folder stays behind with its lock
 no longer held: :func:`orphaned_recoveries` finds such recovery files at the next start, and
-the window offers to restore the newest (:meth:`app.main_window.MainWindow.offer_recovered_edits`).
+the window offers to restore the newest (:func:`offer_recovered_edits`).
 """
 
 from __future__ import annotations
@@ -29,6 +29,7 @@ import uuid
 from dataclasses import dataclass
 from datetime import datetime
 from pathlib import Path
+from typing import Protocol
 
 from PySide6.QtCore import QLockFile, QObject, QTimer, Signal
 
@@ -313,3 +314,38 @@ class Autosaver(QObject):
         self._longest.stop()
         self._closed = True
         self.session.close()
+
+
+class RestoringWindow(Protocol):
+    """What :func:`offer_recovered_edits` needs of the window (the main window has it)."""
+
+    document: ProjectDocument
+    autosaver: Autosaver
+
+    def ask_restore(self, edits: RecoveredEdits) -> bool: ...
+
+    def show_status(self, message: str) -> None: ...
+
+
+def offer_recovered_edits(window: RestoringWindow) -> bool:
+    """At start-up: offer the newest unsaved edits a window left after an abnormal exit.
+
+    Restored, they become ``window``'s project, marked unsaved, and are kept in its own
+    recovery file before the old one is removed; declined, the old recovery file is deleted.
+    Older ones (several windows lost at once) are offered at later starts.  The question is
+    the window's :meth:`~app.main_window.MainWindow.ask_restore`.  Returns whether edits were
+    restored.
+    """
+    found = orphaned_recoveries()
+    if not found:
+        return False
+    edits = found[0]
+    if not window.ask_restore(edits):
+        edits.discard()
+        window.show_status("Recovered edits discarded.")
+        return False
+    window.document.restore(edits.project, edits.project_path)
+    if window.autosaver.save_now() is not None:
+        edits.discard()
+    window.show_status("Unsaved edits restored: save them to keep them.")
+    return True

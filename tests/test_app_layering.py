@@ -8,7 +8,7 @@ below every layer; it never imports ``app`` (``tests/test_boundary.py``).
 Layer  Name            Modules
 =====  ==============  ==========================================================================
 6      entry points    ``app.__main__``, ``app.cli``, ``app.gui``, ``app.screenshot``
-5      main window     ``app.main_window``
+5      main window     ``app.main_window``, ``app.focus``
 4      views           ``app.panels.*``, ``app.plots.*``, ``app.results.*`` (but the two below),
                        ``app.help_page``, ``app.layout_barrier``
 3      table models    ``app.table_models.*``, ``app.delegates``, ``app.clipboard``
@@ -48,7 +48,7 @@ LAYERS: dict[str, int] = {
     "app.table_models": 3, "app.table_models.*": 3, "app.delegates": 3, "app.clipboard": 3,
     "app.panels": 4, "app.panels.*": 4, "app.plots": 4, "app.plots.*": 4, "app.results": 4,
     "app.results.*": 4, "app.help_page": 4, "app.layout_barrier": 4,
-    "app.main_window": 5,
+    "app.main_window": 5, "app.focus": 5,
     "app.__main__": 6, "app.cli": 6, "app.gui": 6, "app.screenshot": 6,
     "hydraulics": 0, "hydraulics.*": 0,
 }
