@@ -1112,11 +1112,16 @@ def _keep_backup(path: Path) -> None:
             shutil.copy2(path, tmp_name)
         os.replace(tmp_name, backup)
     except BaseException:
-        try:
-            os.unlink(tmp_name)
-        except FileNotFoundError:
-            pass
+        _remove_if_there(tmp_name)
         raise
+
+
+def _remove_if_there(name: str) -> None:
+    """Delete the file ``name``; one already gone is fine."""
+    try:
+        os.unlink(name)
+    except FileNotFoundError:
+        pass
 
 
 def atomic_write_text(path: str | os.PathLike[str], text: str, keep_backup: bool = False) -> None:
@@ -1148,10 +1153,7 @@ def atomic_write_text(path: str | os.PathLike[str], text: str, keep_backup: bool
             _keep_backup(path)
         os.replace(tmp_name, path)
     except BaseException:
-        try:
-            os.unlink(tmp_name)
-        except FileNotFoundError:
-            pass
+        _remove_if_there(tmp_name)
         raise
 
 
