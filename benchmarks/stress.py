@@ -41,11 +41,13 @@ if str(ROOT) not in sys.path:
     sys.path.insert(0, str(ROOT))
 
 from benchmarks.crash_children import save_versions  # noqa: E402
+from hydraulics.validation import MAX_SEGMENTS  # noqa: E402
 
 FUZZ_MODULES = ("tests.fuzz_cases", "benchmarks.fuzz")
 FUZZ_KEYS = ("inputs", "uncaught_exceptions", "hangs", "non_finite_results")
-SAVE_SEGMENTS = 4000
-"""Segments of the project saved in the kill-during-save trials (a file of a few megabytes)."""
+SAVE_SEGMENTS = MAX_SEGMENTS
+"""Segments of the project saved in the kill-during-save trials: the most a project may have, so
+the file is the largest the program saves and a kill is likely to land mid-write."""
 EDITS_PER_TRIAL = 6
 CHILD_START_TIMEOUT_S = 120.0
 NOT_AVAILABLE = "generated inputs: not available in this build"
